@@ -1,0 +1,633 @@
+#include "cases/case_reader.hpp"
+
+#include "cases/scene_builder.hpp"
+#include "cases/units.hpp"
+#include "geometry/input_error.hpp"
+
+#include <toml++/toml.h>
+
+#include <algorithm>
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <set>
+#include <sstream>
+
+namespace murk {
+
+namespace {
+
+namespace fs = std::filesystem;
+
+struct Context {
+    std::string file;   // the case file's name in messages
+    fs::path base_dir;  // mesh files are resolved against it
+};
+
+int line_of(const toml::node& n) { return static_cast<int>(n.source().begin.line); }
+
+std::string at(const Context& ctx, int line, const std::string& key) {
+    return ctx.file + (line > 0 ? ":" + std::to_string(line) : std::string()) + ": " + key;
+}
+
+[[noreturn]] void fail(const std::string& where, const std::string& what) {
+    throw InputError(where + ": " + what);
+}
+
+std::string format_number(double v) {
+    std::ostringstream out;
+    out << v;
+    return out.str();
+}
+
+// What a node holds, in words, for "got ..." in messages.
+std::string describe(const toml::node& n) {
+    switch (n.type()) {
+        case toml::node_type::string: return "'" + n.as_string()->get() + "'";
+        case toml::node_type::integer: return "the number " + std::to_string(n.as_integer()->get());
+        case toml::node_type::floating_point: return "the number " + format_number(n.as_floating_point()->get());
+        case toml::node_type::boolean: return n.as_boolean()->get() ? "true" : "false";
+        case toml::node_type::array: return "an array";
+        case toml::node_type::table: return "a table";
+        default: return "a date or time";
+    }
+}
+
+std::string join(const std::vector<std::string>& words) {
+    std::string out;
+    for (const auto& w : words) out += (out.empty() ? "" : ", ") + w;
+    return out;
+}
+
+// A table being read: where it is, so that every key can be named in messages.
+struct Section {
+    const toml::table& table;
+    std::string path;  // dotted path; empty for the root table
+    int line;          // line where the table starts
+    const Context& ctx;
+
+    std::string key_path(const std::string& key) const { return path.empty() ? key : path + "." + key; }
+    const toml::node* find(const std::string& key) const { return table.get(key); }
+    // "file:line: path.key" at the key if present, else at the table.
+    std::string where(const std::string& key) const {
+        const toml::node* n = find(key);
+        return at(ctx, n ? line_of(*n) : line, key_path(key));
+    }
+    std::string where_self() const { return at(ctx, line, path.empty() ? "(top level)" : path); }
+};
+
+// Refuses any key of `sec` not in `allowed`, listing the allowed ones.
+void check_keys(const Section& sec, const std::vector<std::string>& allowed) {
+    for (const auto& [key, node] : sec.table) {
+        const std::string k(key.str());
+        if (std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
+        const int line = key.source().begin.line ? static_cast<int>(key.source().begin.line) : line_of(node);
+        fail(at(sec.ctx, line, sec.key_path(k)), "unknown key; allowed here: " + join(allowed));
+    }
+}
+
+const toml::node& required(const Section& sec, const std::string& key, const std::string& hint = "") {
+    const toml::node* n = sec.find(key);
+    if (!n) fail(sec.where(key), "missing required key" + (hint.empty() ? "" : " (" + hint + ")"));
+    return *n;
+}
+
+std::string read_string(const Section& sec, const std::string& key, const toml::node& n) {
+    if (!n.is_string()) fail(sec.where(key), "expected text in quotes, got " + describe(n));
+    return n.as_string()->get();
+}
+
+// One of `choices`, written as a string.
+std::string read_choice(const Section& sec, const std::string& key, const toml::node& n,
+                        const std::vector<std::string>& choices) {
+    const std::string value = read_string(sec, key, n);
+    if (std::find(choices.begin(), choices.end(), value) == choices.end())
+        fail(sec.where(key), "expected one of " + join(choices) + ", got '" + value + "'");
+    return value;
+}
+
+// A quantity: a string with a unit, or a bare TOML number where the dimension
+// has no unit. `where` names the node in messages.
+double quantity_at(const std::string& where, const toml::node& n, Dimension d) {
+    if (n.is_string()) return parse_quantity(n.as_string()->get(), d, where);
+    if (n.is_number()) {
+        const double v = n.is_integer() ? static_cast<double>(n.as_integer()->get()) : n.as_floating_point()->get();
+        if (d == Dimension::dimensionless || d == Dimension::permittivity_relative) {
+            if (!std::isfinite(v)) fail(where, "expected a finite number, got " + describe(n));
+            return v;
+        }
+        fail(where, "expected " + dimension_name(d) + " written with a unit like '" + example_quantity(d) +
+                        "', got " + describe(n) + " (no unit)");
+    }
+    fail(where, "expected " + dimension_name(d) + " like '" + example_quantity(d) + "', got " + describe(n));
+}
+
+double read_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d) {
+    return quantity_at(sec.where(key), n, d);
+}
+
+std::optional<double> optional_quantity(const Section& sec, const std::string& key, Dimension d) {
+    const toml::node* n = sec.find(key);
+    if (!n) return std::nullopt;
+    return read_quantity(sec, key, *n, d);
+}
+
+double positive_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d) {
+    const double v = read_quantity(sec, key, n, d);
+    if (!(v > 0.0)) fail(sec.where(key), "must be positive, got " + describe(n));
+    return v;
+}
+
+std::optional<double> optional_positive(const Section& sec, const std::string& key, Dimension d) {
+    const toml::node* n = sec.find(key);
+    if (!n) return std::nullopt;
+    return positive_quantity(sec, key, *n, d);
+}
+
+double required_positive(const Section& sec, const std::string& key, Dimension d) {
+    return positive_quantity(sec, key, required(sec, key, "e.g. " + key + " = \"" + example_quantity(d) + "\""), d);
+}
+
+// Relative permittivity: a plain number, at least 1 (the vacuum).
+std::optional<double> optional_permittivity(const Section& sec, const std::string& key) {
+    const toml::node* n = sec.find(key);
+    if (!n) return std::nullopt;
+    const double v = read_quantity(sec, key, *n, Dimension::permittivity_relative);
+    if (!(v >= 1.0)) fail(sec.where(key), "a relative permittivity is at least 1, got " + describe(*n));
+    return v;
+}
+
+// An array of exactly `count` elements, each read by `element(where, node)`.
+template <class F>
+void read_array(const Section& sec, const std::string& key, const toml::node& n, std::size_t count,
+                const std::string& expected, F element) {
+    const toml::array* arr = n.as_array();
+    if (!arr || arr->size() != count)
+        fail(sec.where(key), "expected " + expected + ", got " +
+                                 (arr ? "an array of " + std::to_string(arr->size()) : describe(n)));
+    for (std::size_t i = 0; i < count; ++i) {
+        const toml::node& e = *arr->get(i);
+        element(at(sec.ctx, line_of(e), sec.key_path(key) + "[" + std::to_string(i + 1) + "]"), e, i);
+    }
+}
+
+Point3 read_lengths3(const Section& sec, const std::string& key, const toml::node& n, bool positive) {
+    Point3 p{};
+    read_array(sec, key, n, 3, "an array of three lengths like [\"1 cm\", \"0 cm\", \"2 cm\"]",
+               [&](const std::string& where, const toml::node& e, std::size_t i) {
+                   p[i] = quantity_at(where, e, Dimension::length);
+                   if (positive && !(p[i] > 0.0)) fail(where, "must be positive, got " + describe(e));
+               });
+    return p;
+}
+
+Orientation read_orientation(const Section& sec) {
+    Orientation o;
+    o.heading_rad = optional_quantity(sec, "heading", Dimension::angle).value_or(0.0);
+    o.pitch_rad = optional_quantity(sec, "pitch", Dimension::angle).value_or(0.0);
+    o.roll_rad = optional_quantity(sec, "roll", Dimension::angle).value_or(0.0);
+    return o;
+}
+
+const toml::table& as_table(const Section& parent, const std::string& key, const toml::node& n) {
+    if (!n.is_table()) fail(parent.where(key), "expected a table ([" + parent.key_path(key) + "]), got " + describe(n));
+    return *n.as_table();
+}
+
+SourceLine source_line(const Section& sec) { return SourceLine{sec.ctx.file, sec.line, sec.path}; }
+
+// ---- shapes ---------------------------------------------------------------
+
+const std::vector<std::string> kShapeNames = {"sphere", "spheroid", "ellipsoid", "capsule", "box", "mesh"};
+
+ShapeKind shape_kind(const std::string& name) {
+    const auto i = std::find(kShapeNames.begin(), kShapeNames.end(), name) - kShapeNames.begin();
+    return static_cast<ShapeKind>(i);
+}
+
+std::vector<std::string> shape_keys(ShapeKind kind) {
+    switch (kind) {
+        case ShapeKind::sphere: return {"radius"};
+        case ShapeKind::spheroid: return {"polar_radius", "equatorial_radius"};
+        case ShapeKind::ellipsoid: return {"semi_axes"};
+        case ShapeKind::capsule: return {"radius", "length"};
+        case ShapeKind::box: return {"size"};
+        case ShapeKind::mesh: return {"file", "scale"};
+    }
+    return {};
+}
+
+ShapeKind read_shape_kind(const Section& sec) {
+    return shape_kind(read_choice(sec, "shape", required(sec, "shape", "one of " + join(kShapeNames)), kShapeNames));
+}
+
+std::string read_mesh_file(const Section& sec) {
+    const std::string name = read_string(sec, "file", required(sec, "file", "an STL or Gmsh MSH file"));
+    fs::path path(name);
+    if (path.is_relative()) path = sec.ctx.base_dir / path;
+    std::string ext = path.extension().string();
+    std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
+    if (ext != ".stl" && ext != ".msh")
+        fail(sec.where("file"), "expected an STL (.stl) or Gmsh (.msh) file, got '" + name + "'");
+    std::error_code ec;
+    if (!fs::is_regular_file(path, ec)) fail(sec.where("file"), "no such file: '" + path.string() + "'");
+    return path.lexically_normal().string();
+}
+
+// Reads the size keys of `kind` (checked by the caller against unknown keys).
+ShapeSpec read_shape_sizes(const Section& sec, ShapeKind kind) {
+    ShapeSpec s;
+    s.kind = kind;
+    switch (kind) {
+        case ShapeKind::sphere: s.radius_m = required_positive(sec, "radius", Dimension::length); break;
+        case ShapeKind::spheroid: {
+            const double polar = required_positive(sec, "polar_radius", Dimension::length);
+            const double equatorial = required_positive(sec, "equatorial_radius", Dimension::length);
+            s.semi_axes_m = {polar, equatorial, equatorial};
+            break;
+        }
+        case ShapeKind::ellipsoid:
+            s.semi_axes_m = read_lengths3(sec, "semi_axes", required(sec, "semi_axes", "three lengths along x, y, z"), true);
+            break;
+        case ShapeKind::capsule: {
+            s.radius_m = required_positive(sec, "radius", Dimension::length);
+            s.length_m = required_positive(sec, "length", Dimension::length);
+            if (s.length_m < 2.0 * s.radius_m)
+                fail(sec.where("length"), "the overall length of a capsule must be at least twice its radius (" +
+                                              format_number(2.0 * s.radius_m) + " m), got " +
+                                              describe(*sec.find("length")));
+            break;
+        }
+        case ShapeKind::box:
+            s.size_m = read_lengths3(sec, "size", required(sec, "size", "three edge lengths along x, y, z"), true);
+            break;
+        case ShapeKind::mesh:
+            s.mesh_file = read_mesh_file(sec);
+            s.mesh_scale_m = optional_positive(sec, "scale", Dimension::length).value_or(1.0);
+            break;
+    }
+    return s;
+}
+
+std::vector<std::string> concat(std::vector<std::string> a, const std::vector<std::string>& b) {
+    a.insert(a.end(), b.begin(), b.end());
+    return a;
+}
+
+// ---- sections -------------------------------------------------------------
+
+WaterSpec read_water(const Section& sec) {
+    check_keys(sec, {"conductivity", "permittivity", "surface_z", "bottom_z"});
+    WaterSpec w;
+    w.source = source_line(sec);
+    w.conductivity_S_per_m = required_positive(sec, "conductivity", Dimension::conductivity);
+    w.permittivity_relative = optional_permittivity(sec, "permittivity");
+    const toml::node* surface = sec.find("surface_z");
+    const toml::node* bottom = sec.find("bottom_z");
+    if (surface && bottom)
+        fail(sec.where("bottom_z"), "only one insulating plane is supported; give surface_z or bottom_z, not both");
+    if (surface || bottom) {
+        const std::string key = surface ? "surface_z" : "bottom_z";
+        PlaneSpec p;
+        p.height_m = read_quantity(sec, key, *sec.find(key), Dimension::length);
+        p.water_below = surface != nullptr;
+        p.source = SourceLine{sec.ctx.file, line_of(*sec.find(key)), sec.key_path(key)};
+        w.plane = p;
+    }
+    return w;
+}
+
+MeshSpec read_mesh(const Section& sec) {
+    check_keys(sec, {"panel_size", "near_ratio", "far_ratio"});
+    MeshSpec m;
+    m.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
+    m.near_ratio = optional_positive(sec, "near_ratio", Dimension::dimensionless).value_or(m.near_ratio);
+    m.far_ratio = optional_positive(sec, "far_ratio", Dimension::dimensionless).value_or(m.far_ratio);
+    if (m.far_ratio < m.near_ratio)
+        fail(sec.find("far_ratio") ? sec.where("far_ratio") : sec.where("near_ratio"),
+             "far_ratio (" + format_number(m.far_ratio) + ") must not be smaller than near_ratio (" +
+                 format_number(m.near_ratio) + ")");
+    return m;
+}
+
+// A fish-like outline (invented for murk, not measured): laterally compressed,
+// deepest at about a quarter of the length, tapering to a thin tail.
+std::vector<ProfileStation> default_fish_profile() {
+    return {{0.00, 0.000, 0.000}, {0.03, 0.022, 0.030}, {0.08, 0.038, 0.055}, {0.16, 0.048, 0.072},
+            {0.30, 0.050, 0.078}, {0.50, 0.042, 0.065}, {0.70, 0.028, 0.042}, {0.85, 0.015, 0.022},
+            {1.00, 0.000, 0.000}};
+}
+
+std::vector<ProfileStation> read_profile(const Section& sec, const toml::node& n) {
+    const toml::array* arr = n.as_array();
+    if (!arr || arr->size() < 3)
+        fail(sec.where("profile"), "expected an array of at least 3 stations [x, half_width, half_height] "
+                                   "(fractions of the length), got " +
+                                       (arr ? "an array of " + std::to_string(arr->size()) : describe(n)));
+    std::vector<ProfileStation> stations;
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+        const toml::node& station = *arr->get(i);
+        const std::string key = "profile[" + std::to_string(i + 1) + "]";
+        const std::string where = at(sec.ctx, line_of(station), sec.key_path(key));
+        const toml::array* s = station.as_array();
+        if (!s || s->size() != 3)
+            fail(where, "expected a station [x_fraction, half_width_fraction, half_height_fraction], got " +
+                            (s ? "an array of " + std::to_string(s->size()) : describe(station)));
+        std::array<double, 3> v{};
+        for (std::size_t k = 0; k < 3; ++k) {
+            v[k] = quantity_at(where, *s->get(k), Dimension::dimensionless);
+            if (v[k] < 0.0) fail(where, "fractions must not be negative, got " + describe(*s->get(k)));
+        }
+        const bool tip = i == 0 || i + 1 == arr->size();
+        if (i == 0 && v[0] != 0.0) fail(where, "the first station is the nose: x_fraction must be 0, got " + format_number(v[0]));
+        if (i + 1 == arr->size() && v[0] != 1.0)
+            fail(where, "the last station is the tail tip: x_fraction must be 1, got " + format_number(v[0]));
+        if (!stations.empty() && !(v[0] > stations.back().x_fraction))
+            fail(where, "x_fraction must increase from station to station, got " + format_number(v[0]) +
+                            " after " + format_number(stations.back().x_fraction));
+        if (tip && (v[1] != 0.0 || v[2] != 0.0))
+            fail(where, "the nose and tail stations must have zero half_width and half_height");
+        if (!tip && !(v[1] > 0.0 && v[2] > 0.0))
+            fail(where, "stations between the tips must have positive half_width and half_height");
+        stations.push_back({v[0], v[1], v[2]});
+    }
+    return stations;
+}
+
+// Checks that the weights describe a current that sums to zero (the organ
+// neither gains nor loses charge) and are not all zero.
+void check_organ_weights(const Section& sec, const std::vector<double>& w) {
+    double sum = 0.0, total = 0.0;
+    for (double x : w) sum += x, total += std::abs(x);
+    if (!(total > 0.0)) fail(sec.where("weights"), "the weights are all zero");
+    if (std::abs(sum) > 1e-9 * total)
+        fail(sec.where("weights"), "the weights must sum to zero (the organ's total current vanishes), got a sum of " +
+                                       format_number(sum));
+}
+
+OrganSpec read_organ(const Section& sec) {
+    check_keys(sec, {"from", "to", "distribution", "weights", "points", "current"});
+    OrganSpec o;
+    o.source = source_line(sec);
+    if (const toml::node* n = sec.find("from")) o.from_fraction = read_quantity(sec, "from", *n, Dimension::dimensionless);
+    if (const toml::node* n = sec.find("to")) o.to_fraction = read_quantity(sec, "to", *n, Dimension::dimensionless);
+    if (o.from_fraction < 0.0 || o.from_fraction >= 1.0)
+        fail(sec.where("from"), "expected a fraction of the body length in [0, 1), got " + format_number(o.from_fraction));
+    if (o.to_fraction <= o.from_fraction || o.to_fraction > 1.0)
+        fail(sec.where("to"), "expected a fraction of the body length above from (" + format_number(o.from_fraction) +
+                                  ") and at most 1, got " + format_number(o.to_fraction));
+
+    const toml::node* distribution = sec.find("distribution");
+    const toml::node* weights = sec.find("weights");
+    const toml::node* points = sec.find("points");
+    if (distribution && weights)
+        fail(sec.where("weights"), "give either distribution or weights, not both");
+    if (weights) {
+        if (points) fail(sec.where("points"), "not used with weights: there is one point per weight");
+        const toml::array* arr = weights->as_array();
+        if (!arr || arr->size() < 2)
+            fail(sec.where("weights"), "expected an array of at least 2 numbers, got " +
+                                           (arr ? "an array of " + std::to_string(arr->size()) : describe(*weights)));
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& e = *arr->get(i);
+            o.weights.push_back(quantity_at(
+                at(sec.ctx, line_of(e), sec.key_path("weights[" + std::to_string(i + 1) + "]")), e,
+                Dimension::dimensionless));
+        }
+        check_organ_weights(sec, o.weights);
+        o.profile = OrganProfile::weights;
+        o.points = static_cast<int>(o.weights.size());
+    } else {
+        const std::string name =
+            distribution ? read_choice(sec, "distribution", *distribution, {"linear", "cosine", "dipole"}) : "linear";
+        o.profile = name == "dipole" ? OrganProfile::dipole
+                    : name == "cosine" ? OrganProfile::cosine
+                                       : OrganProfile::linear;
+        if (o.profile == OrganProfile::dipole) {
+            if (points) fail(sec.where("points"), "not used with the dipole distribution (always 2 points)");
+            o.points = 2;
+        } else if (points) {
+            if (!points->is_integer() || points->as_integer()->get() < 2 || points->as_integer()->get() > 1000)
+                fail(sec.where("points"), "expected a whole number from 2 to 1000, got " + describe(*points));
+            o.points = static_cast<int>(points->as_integer()->get());
+        }
+    }
+    o.peak_current_A = required_positive(sec, "current", Dimension::current);
+    return o;
+}
+
+FishSpec read_fish(const Section& sec) {
+    check_keys(sec, {"length", "profile", "nose", "centre", "heading", "pitch", "roll", "interior_conductivity",
+                     "interior_permittivity", "skin_resistance", "skin_capacitance", "organ"});
+    FishSpec f;
+    f.source = source_line(sec);
+    f.length_m = required_positive(sec, "length", Dimension::length);
+    const toml::node* profile = sec.find("profile");
+    f.profile = profile ? read_profile(sec, *profile) : default_fish_profile();
+    const toml::node* nose = sec.find("nose");
+    const toml::node* centre = sec.find("centre");
+    if (nose && centre) fail(sec.where("centre"), "give the position of the nose or of the centre, not both");
+    f.anchored_at_nose = nose != nullptr;
+    if (nose) f.position_m = read_lengths3(sec, "nose", *nose, false);
+    if (centre) f.position_m = read_lengths3(sec, "centre", *centre, false);
+    f.orientation = read_orientation(sec);
+    f.interior_conductivity_S_per_m = required_positive(sec, "interior_conductivity", Dimension::conductivity);
+    f.interior_permittivity_relative = optional_permittivity(sec, "interior_permittivity");
+    f.skin_resistance_ohm_m2 = required_positive(sec, "skin_resistance", Dimension::specific_resistance);
+    f.skin_capacitance_F_per_m2 = optional_positive(sec, "skin_capacitance", Dimension::capacitance_per_area);
+    const toml::node& organ = required(sec, "organ", "a table [fish.organ]");
+    f.organ = read_organ(Section{as_table(sec, "organ", organ), sec.key_path("organ"), line_of(organ), sec.ctx});
+    return f;
+}
+
+ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::string& hull_file) {
+    const std::vector<std::string> forms = {"ring", "patch", "region"};
+    const std::string form = read_choice(sec, "form", required(sec, "form", "ring, patch or region"), forms);
+    const std::vector<std::string> common = {"name", "form", "role", "current", "voltage", "potential"};
+    ElectrodeSpec e;
+    e.source = source_line(sec);
+    if (form == "ring") {
+        check_keys(sec, concat(common, {"from", "to"}));
+        e.form = ElectrodeForm::ring;
+        e.from_m = read_quantity(sec, "from", required(sec, "from", "position along the hull axis"), Dimension::length);
+        e.to_m = read_quantity(sec, "to", required(sec, "to", "position along the hull axis"), Dimension::length);
+        if (!(e.to_m > e.from_m)) fail(sec.where("to"), "must lie beyond from (" + format_number(e.from_m) + " m)");
+    } else if (form == "patch") {
+        check_keys(sec, concat(common, {"at", "radius"}));
+        e.form = ElectrodeForm::patch;
+        e.at_m = read_lengths3(sec, "at", required(sec, "at", "a point on the hull, hull frame"), false);
+        e.radius_m = required_positive(sec, "radius", Dimension::length);
+    } else {
+        check_keys(sec, concat(common, {"region"}));
+        e.form = ElectrodeForm::region;
+        std::string ext = fs::path(hull_file).extension().string();
+        std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
+        if (hull != ShapeKind::mesh || ext != ".msh")
+            fail(sec.where("form"), "region electrodes need a hull read from a Gmsh .msh file (robot.shape = \"mesh\")");
+        e.region = read_string(sec, "region", required(sec, "region", "a physical group name of the mesh"));
+    }
+    e.name = read_string(sec, "name", required(sec, "name"));
+    if (e.name.empty()) fail(sec.where("name"), "must not be empty");
+    if (e.name.rfind(kObjectElectrodePrefix, 0) == 0)
+        fail(sec.where("name"), "names starting with '" + kObjectElectrodePrefix +
+                                    "' are kept for conducting objects, got '" + e.name + "'");
+
+    const std::string role = read_choice(sec, "role", required(sec, "role", "emitter or sensor"), {"emitter", "sensor"});
+    const toml::node* current = sec.find("current");
+    const toml::node* voltage = sec.find("voltage");
+    const toml::node* potential = sec.find("potential");
+    if (role == "emitter") {
+        if (potential) fail(sec.where("potential"), "only for sensors; an emitter is driven by current or voltage");
+        if (current && voltage) fail(sec.where("voltage"), "give the emitter's current or its voltage, not both");
+        if (!current && !voltage) fail(sec.where("role"), "an emitter needs current = \"...\" or voltage = \"...\"");
+        e.drive = current ? ElectrodeDrive::current : ElectrodeDrive::voltage;
+        e.value = current ? read_quantity(sec, "current", *current, Dimension::current)
+                          : read_quantity(sec, "voltage", *voltage, Dimension::voltage);
+    } else {
+        if (current || voltage)
+            fail(sec.where(current ? "current" : "voltage"),
+                 "a sensor is not driven; give potential = \"...\" to hold it at a fixed potential, or nothing to "
+                 "read its voltage");
+        e.drive = potential ? ElectrodeDrive::fixed_potential : ElectrodeDrive::floating;
+        if (potential) e.value = read_quantity(sec, "potential", *potential, Dimension::voltage);
+    }
+    return e;
+}
+
+RobotSpec read_robot(const Section& sec) {
+    const ShapeKind kind = read_shape_kind(sec);
+    check_keys(sec, concat({"shape", "position", "heading", "pitch", "roll", "electrode"}, shape_keys(kind)));
+    RobotSpec r;
+    r.source = source_line(sec);
+    r.hull = read_shape_sizes(sec, kind);
+    if (const toml::node* p = sec.find("position")) r.position_m = read_lengths3(sec, "position", *p, false);
+    r.orientation = read_orientation(sec);
+    const toml::node& list = required(sec, "electrode", "one [[robot.electrode]] table per electrode");
+    const toml::array* arr = list.as_array();
+    if (!arr || !arr->is_array_of_tables())
+        fail(sec.where("electrode"), "expected [[robot.electrode]] tables, got " + describe(list));
+    std::set<std::string> names;
+    bool emitter = false;
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+        const toml::node& n = *arr->get(i);
+        const Section es{*n.as_table(), sec.key_path("electrode[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx};
+        ElectrodeSpec e = read_electrode(es, kind, r.hull.mesh_file);
+        if (!names.insert(e.name).second) fail(es.where("name"), "another electrode is already named '" + e.name + "'");
+        emitter = emitter || e.drive == ElectrodeDrive::current || e.drive == ElectrodeDrive::voltage;
+        r.electrodes.push_back(std::move(e));
+    }
+    if (!emitter) fail(sec.where("electrode"), "the robot needs at least one electrode with role = \"emitter\"");
+    return r;
+}
+
+ObjectSpec read_object(const Section& sec, std::size_t index) {
+    const ShapeKind kind = read_shape_kind(sec);
+    check_keys(sec, concat({"name", "shape", "position", "heading", "pitch", "roll", "conductivity", "permittivity",
+                            "membrane_resistance", "membrane_capacitance", "panel_size"},
+                           shape_keys(kind)));
+    ObjectSpec o;
+    o.source = source_line(sec);
+    o.name = sec.find("name") ? read_string(sec, "name", *sec.find("name")) : "object" + std::to_string(index + 1);
+    if (o.name.empty()) fail(sec.where("name"), "must not be empty");
+    o.shape = read_shape_sizes(sec, kind);
+    o.position_m = read_lengths3(sec, "position", required(sec, "position", "the centre, [x, y, z]"), false);
+    o.orientation = read_orientation(sec);
+    o.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
+
+    const toml::node& c = required(sec, "conductivity", "a conductivity, \"insulator\" or \"conductor\"");
+    const std::string word = c.is_string() ? c.as_string()->get() : "";
+    if (word == "insulator" || word == "conductor") {
+        o.material = word == "insulator" ? Material::insulator : Material::conductor;
+        for (const char* key : {"permittivity", "membrane_resistance", "membrane_capacitance"})
+            if (sec.find(key))
+                fail(sec.where(key), "does not apply to an object whose conductivity is \"" + word + "\"");
+    } else {
+        o.material = Material::conducting;
+        o.conductivity_S_per_m = read_quantity(sec, "conductivity", c, Dimension::conductivity);
+        if (!(o.conductivity_S_per_m > 0.0))
+            fail(sec.where("conductivity"), "must be positive, got " + describe(c) + " (write \"insulator\" for none)");
+        o.permittivity_relative = optional_permittivity(sec, "permittivity");
+        const std::optional<double> rm = optional_positive(sec, "membrane_resistance", Dimension::specific_resistance);
+        const std::optional<double> cm = optional_positive(sec, "membrane_capacitance", Dimension::capacitance_per_area);
+        if (cm && !rm) fail(sec.where("membrane_capacitance"), "a membrane needs membrane_resistance as well");
+        if (rm) o.membrane = MembraneSpec{*rm, cm};
+    }
+    return o;
+}
+
+CaseSpec read_root(const toml::table& root, const Context& ctx) {
+    const Section sec{root, "", 1, ctx};
+    check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object"});
+    CaseSpec spec;
+    spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
+    if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
+
+    if (const toml::node* f = sec.find("frequency")) spec.frequency_Hz = positive_quantity(sec, "frequency", *f, Dimension::frequency);
+    if (const toml::node* s = sec.find("signal")) {
+        const Section signal{as_table(sec, "signal", *s), "signal", line_of(*s), ctx};
+        check_keys(signal, {"frequency"});
+        if (const toml::node* f = signal.find("frequency")) {
+            if (spec.frequency_Hz) fail(signal.where("frequency"), "the frequency is already given at the top level");
+            spec.frequency_Hz = positive_quantity(signal, "frequency", *f, Dimension::frequency);
+        }
+    }
+
+    const toml::node& water = required(sec, "water", "a table [water] with at least conductivity");
+    spec.water = read_water(Section{as_table(sec, "water", water), "water", line_of(water), ctx});
+    if (const toml::node* m = sec.find("mesh"))
+        spec.mesh = read_mesh(Section{as_table(sec, "mesh", *m), "mesh", line_of(*m), ctx});
+
+    const toml::node* fish = sec.find("fish");
+    const toml::node* robot = sec.find("robot");
+    if (fish && robot) fail(sec.where("robot"), "a case has one sensing body: [fish] or [robot], not both");
+    if (!fish && !robot) fail(sec.where_self(), "missing the sensing body: add a [fish] or a [robot] table");
+    if (fish) spec.fish = read_fish(Section{as_table(sec, "fish", *fish), "fish", line_of(*fish), ctx});
+    if (robot) spec.robot = read_robot(Section{as_table(sec, "robot", *robot), "robot", line_of(*robot), ctx});
+
+    if (const toml::node* objects = sec.find("object")) {
+        const toml::array* arr = objects->as_array();
+        if (!arr || !arr->is_array_of_tables())
+            fail(sec.where("object"), "expected [[object]] tables (double brackets, one per object), got " +
+                                          describe(*objects));
+        std::set<std::string> names;
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& n = *arr->get(i);
+            const Section os{*n.as_table(), "object[" + std::to_string(i + 1) + "]", line_of(n), ctx};
+            ObjectSpec o = read_object(os, i);
+            if (!names.insert(o.name).second) fail(os.where("name"), "another object is already named '" + o.name + "'");
+            spec.objects.push_back(std::move(o));
+        }
+    }
+    return spec;
+}
+
+CaseSpec read_case(const std::string& text, const Context& ctx) {
+    toml::table root;
+    try {
+        root = toml::parse(std::string_view(text), std::string_view(ctx.file));
+    } catch (const toml::parse_error& e) {
+        throw InputError(at(ctx, static_cast<int>(e.source().begin.line), "TOML syntax") + ": " +
+                         std::string(e.description()));
+    }
+    CaseSpec spec = read_root(root, ctx);
+    spec.path = ctx.file;
+    spec.text = text;
+    return spec;
+}
+
+}  // namespace
+
+CaseSpec read_case_file(const std::string& path) {
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw InputError(path + ": cannot open the case file");
+    std::ostringstream text;
+    text << in.rdbuf();
+    if (in.bad()) throw InputError(path + ": cannot read the case file");
+    return read_case(text.str(), Context{path, fs::path(path).parent_path()});
+}
+
+CaseSpec read_case_text(const std::string& text, const std::string& name_for_messages) {
+    return read_case(text, Context{name_for_messages, fs::path()});
+}
+
+}  // namespace murk

@@ -1,0 +1,179 @@
+#pragma once
+// A case file read into plain data: every quantity in SI, every choice an enum,
+// nothing of TOML left. The reader (case_reader.hpp) fills it and checks each
+// value on its own; the scene builder (scene_builder.hpp) checks what only the
+// whole scene can tell (overlaps, sources inside the body, electrodes on panels).
+// The file format itself is documented in cases/README.md.
+#include "solver/scene.hpp"
+
+#include <array>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace murk {
+
+using Point3 = std::array<double, 3>;  // x, y, z in metres (world frame unless stated)
+
+// Where a part of the case was written, for messages of later stages.
+struct SourceLine {
+    std::string file;  // the name used in messages (the case file path)
+    int line = 0;      // 1-based line where the part's table starts; 0 if unknown
+    std::string key;   // dotted path, e.g. "object[2]" or "robot.electrode[1]"
+    // "file:line: key" — the prefix of every message about this part.
+    std::string where() const {
+        return file + (line > 0 ? ":" + std::to_string(line) : std::string()) + ": " + key;
+    }
+};
+
+// Attitude of a body or object, applied in this order to its own frame:
+// roll about its x axis, then pitch (nose up) about its y axis, then heading
+// about the world z axis (0 = along +x, positive turns +x toward +y).
+struct Orientation {
+    double heading_rad = 0.0;
+    double pitch_rad = 0.0;
+    double roll_rad = 0.0;
+};
+
+// The water surface or bottom: the plane z = height. Nothing may cross it.
+struct PlaneSpec {
+    double height_m = 0.0;
+    bool water_below = true;  // true: the plane is the water surface (water at z < height)
+    SourceLine source;
+};
+
+struct WaterSpec {
+    double conductivity_S_per_m = 0.0;
+    std::optional<double> permittivity_relative;  // 1; only matters with a frequency
+    std::optional<PlaneSpec> plane;
+    SourceLine source;
+};
+
+// Meshing and accuracy settings.
+struct MeshSpec {
+    // Target panel edge length (m) of the sensing body; objects use the smaller of
+    // this and a size derived from their own dimensions unless they set their own.
+    // Unset: length of the sensing body / 30.
+    std::optional<double> panel_size_m;
+    double near_ratio = 3.0;   // 1; closed-form integrals below this distance/panel ratio
+    double far_ratio = 10.0;   // 1; one-point rule above this ratio
+};
+
+// Solid shapes shared by objects and the robot hull. Local frame: centred at the
+// origin, the long or polar axis along x.
+enum class ShapeKind { sphere, spheroid, ellipsoid, capsule, box, mesh };
+
+struct ShapeSpec {
+    ShapeKind kind = ShapeKind::sphere;
+    double radius_m = 0.0;           // sphere, capsule
+    double length_m = 0.0;           // capsule: overall length, tip to tip (> 2 radius)
+    Point3 semi_axes_m{};            // spheroid (polar along x, equatorial y and z), ellipsoid
+    Point3 size_m{};                 // box: full edge lengths along x, y, z
+    std::string mesh_file;           // mesh: path resolved against the case file's folder
+    double mesh_scale_m = 1.0;       // mesh: metres per unit of the file's coordinates
+};
+
+// One station of a body profile, all as fractions of the body length.
+struct ProfileStation {
+    double x_fraction = 0.0;            // 0 = nose, 1 = tail
+    double half_width_fraction = 0.0;   // semi-axis along the body's y (sideways)
+    double half_height_fraction = 0.0;  // semi-axis along the body's z (up)
+};
+
+// How the electric organ's current is shared among its points, head end first.
+enum class OrganProfile {
+    dipole,   // +1 at the head end, -1 at the tail end, nothing between
+    linear,   // falls linearly from +1 at the head end to -1 at the tail end
+    cosine,   // cos(pi s), s from 0 at the head end to 1 at the tail end
+    weights,  // the user's list, one weight per point
+};
+
+// A line of point current sources on the body axis.
+struct OrganSpec {
+    double from_fraction = 0.1;  // head end of the organ, fraction of body length from the nose
+    double to_fraction = 0.9;    // tail end
+    OrganProfile profile = OrganProfile::linear;
+    std::vector<double> weights;  // profile == weights only; sums to zero
+    int points = 20;              // number of source points (2 for dipole)
+    double peak_current_A = 0.0;  // largest |current| of any point
+    SourceLine source;
+};
+
+struct FishSpec {
+    double length_m = 0.0;
+    std::vector<ProfileStation> profile;  // nose first; filled with the default when not given
+    bool anchored_at_nose = false;        // position is the nose (true) or the mid-length point
+    Point3 position_m{};
+    Orientation orientation;
+    double interior_conductivity_S_per_m = 0.0;
+    std::optional<double> interior_permittivity_relative;
+    double skin_resistance_ohm_m2 = 0.0;
+    std::optional<double> skin_capacitance_F_per_m2;
+    OrganSpec organ;
+    SourceLine source;
+};
+
+enum class ElectrodeForm {
+    ring,    // band of the hull between two positions along its x axis
+    patch,   // disc of the hull around a point
+    region,  // a named region (Gmsh physical group) of an imported hull mesh
+};
+
+struct ElectrodeSpec {
+    std::string name;
+    ElectrodeForm form = ElectrodeForm::ring;
+    double from_m = 0.0, to_m = 0.0;  // ring: interval along the hull axis, hull frame
+    Point3 at_m{};                    // patch: centre, hull frame (origin = hull centre)
+    double radius_m = 0.0;            // patch: disc radius
+    std::string region;               // region: region name in the mesh file
+    ElectrodeDrive drive = ElectrodeDrive::floating;
+    double value = 0.0;  // A for current, V for voltage and fixed_potential
+    SourceLine source;
+};
+
+struct RobotSpec {
+    ShapeSpec hull;
+    Point3 position_m{};  // hull centre (origin of the hull frame)
+    Orientation orientation;
+    std::vector<ElectrodeSpec> electrodes;
+    SourceLine source;
+};
+
+enum class Material {
+    conducting,  // conductivity_S_per_m (and permittivity) apply
+    insulator,   // no current enters
+    conductor,   // perfect conductor: one equipotential surface, no net current
+};
+
+struct MembraneSpec {
+    double resistance_ohm_m2 = 0.0;
+    std::optional<double> capacitance_F_per_m2;
+};
+
+struct ObjectSpec {
+    std::string name;
+    ShapeSpec shape;
+    Point3 position_m{};  // centre
+    Orientation orientation;
+    Material material = Material::conducting;
+    double conductivity_S_per_m = 0.0;              // conducting only
+    std::optional<double> permittivity_relative;    // conducting only
+    std::optional<MembraneSpec> membrane;           // conducting only
+    std::optional<double> panel_size_m;
+    SourceLine source;
+};
+
+struct CaseSpec {
+    std::string path;  // the case file as given, or the name used for text
+    std::string text;  // the whole case file, written into result files
+    std::string title;
+    std::string description;
+    std::optional<double> frequency_Hz;  // unset: direct current (omega = 0)
+    WaterSpec water;
+    MeshSpec mesh;
+    std::optional<FishSpec> fish;    // exactly one of fish and robot is set
+    std::optional<RobotSpec> robot;
+    std::vector<ObjectSpec> objects;
+};
+
+}  // namespace murk

@@ -1,0 +1,48 @@
+#include "cases/result_metadata.hpp"
+
+#include <openssl/evp.h>
+
+#include <ctime>
+#include <stdexcept>
+
+namespace murk {
+
+std::string sha256_hex(const std::string& text) {
+    unsigned char digest[EVP_MAX_MD_SIZE];
+    unsigned int length = 0;
+    if (EVP_Digest(text.data(), text.size(), digest, &length, EVP_sha256(), nullptr) != 1)
+        throw std::runtime_error("SHA-256 of the case text failed");
+    static const char* hex = "0123456789abcdef";
+    std::string out;
+    for (unsigned int i = 0; i < length; ++i) {
+        out += hex[digest[i] >> 4];
+        out += hex[digest[i] & 15];
+    }
+    return out;
+}
+
+std::string utc_now_iso8601() {
+    const std::time_t now = std::time(nullptr);
+    std::tm tm{};
+    gmtime_r(&now, &tm);
+    char buffer[32];
+    std::strftime(buffer, sizeof buffer, "%Y-%m-%dT%H:%M:%SZ", &tm);
+    return buffer;
+}
+
+void write_result_metadata(H5Group root, const CaseSpec& spec, const std::string& command,
+                           const std::string& approximation, const QuadratureOptions& quadrature) {
+    root.set_attribute("murk_version", MURK_VERSION);
+    root.set_attribute("title", spec.title);
+    root.set_attribute("case", spec.text);
+    root.set_attribute("case_path", spec.path);
+    root.set_attribute("case_sha256", sha256_hex(spec.text));
+    root.set_attribute("created_utc", utc_now_iso8601());
+    root.set_attribute("command", command);
+    root.set_attribute("approximation", approximation);
+    root.set_attribute("near_ratio", quadrature.near_ratio);
+    root.set_attribute("far_ratio", quadrature.far_ratio);
+    root.set_attribute("frequency_Hz", spec.frequency_Hz.value_or(0.0));
+}
+
+}  // namespace murk

@@ -1,0 +1,484 @@
+#include "cases/scene_builder.hpp"
+
+#include "geometry/clearance.hpp"
+#include "geometry/input_error.hpp"
+#include "geometry/mesh_io.hpp"
+#include "geometry/mesh_quality.hpp"
+#include "geometry/regions.hpp"
+#include "geometry/shapes.hpp"
+#include "geometry/transform.hpp"
+#include "geometry/triangle_distance.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <limits>
+#include <map>
+#include <sstream>
+
+namespace murk {
+
+namespace {
+
+// Vacuum permittivity (F/m), CODATA 2018 recommended value.
+constexpr double kVacuumPermittivity = 8.8541878128e-12;
+
+// Below this many panel sizes two surfaces, or a surface and the insulating
+// plane, are taken to touch: the mesh cannot resolve a narrower gap.
+constexpr double kMinGapInPanels = 0.1;
+
+// Organ points closer to the skin than this many panel sizes make the
+// collocation at the nearest panels inaccurate.
+constexpr double kMinSourceDepthInPanels = 0.25;
+
+std::string format_length(double metres) {
+    std::ostringstream out;
+    out.precision(3);
+    if (std::abs(metres) >= 0.1) out << metres << " m";
+    else if (std::abs(metres) >= 1e-3) out << metres * 1e3 << " mm";
+    else out << metres * 1e6 << " um";
+    return out.str();
+}
+
+double angular_frequency(const CaseSpec& spec) {
+    return spec.frequency_Hz ? 2.0 * M_PI * *spec.frequency_Hz : 0.0;
+}
+
+// sigma + i omega eps0 eps_r (S/m): a lossy dielectric at angular frequency omega.
+Complex admittivity(double sigma, const std::optional<double>& eps_r, double omega) {
+    return {sigma, eps_r ? omega * kVacuumPermittivity * *eps_r : 0.0};
+}
+
+// Specific impedance (ohm m^2) of a membrane: resistance rho in parallel with
+// capacitance C per area, 1 / (1/rho + i omega C).
+Complex membrane_impedance(double rho, const std::optional<double>& capacitance, double omega) {
+    if (!capacitance || omega == 0.0) return {rho, 0.0};
+    return 1.0 / Complex(1.0 / rho, omega * *capacitance);
+}
+
+template <class S>
+S to_scalar(const Complex& c);
+template <>
+double to_scalar<double>(const Complex& c) {
+    assert(c.imag() == 0.0);  // build_scene<double> refuses cases that need complex numbers
+    return c.real();
+}
+template <>
+Complex to_scalar<Complex>(const Complex& c) {
+    return c;
+}
+
+Vec3 to_vec(const Point3& p) { return Vec3(p[0], p[1], p[2]); }
+
+// Edge length (m) of an equilateral panel of the mesh's mean panel area.
+double typical_edge(const TriangleMesh& mesh) {
+    if (mesh.size() == 0) return 0.0;
+    double area = 0.0;
+    for (std::size_t t = 0; t < mesh.size(); ++t) area += mesh.area(t);
+    return std::sqrt(4.0 / std::sqrt(3.0) * area / static_cast<double>(mesh.size()));
+}
+
+// Re-throws a geometry-layer InputError with the case part in front.
+template <class F>
+auto with_place(const std::string& where, F&& f) -> decltype(f()) {
+    try {
+        return f();
+    } catch (const InputError& e) {
+        throw InputError(where + ": " + e.what());
+    }
+}
+
+// Overall length (m) of a solid, the scale from which the default panel size follows.
+double shape_length(const ShapeSpec& s, const TriangleMesh* mesh) {
+    switch (s.kind) {
+        case ShapeKind::sphere: return 2.0 * s.radius_m;
+        case ShapeKind::spheroid:
+        case ShapeKind::ellipsoid: return 2.0 * *std::max_element(s.semi_axes_m.begin(), s.semi_axes_m.end());
+        case ShapeKind::capsule: return s.length_m;
+        case ShapeKind::box: return *std::max_element(s.size_m.begin(), s.size_m.end());
+        case ShapeKind::mesh: {
+            assert(mesh);
+            Vec3 lo = Vec3::Constant(std::numeric_limits<double>::infinity()), hi = -lo;
+            for (const Vec3& v : mesh->vertices) lo = lo.cwiseMin(v), hi = hi.cwiseMax(v);
+            return mesh->vertices.empty() ? 0.0 : (hi - lo).maxCoeff();
+        }
+    }
+    return 0.0;
+}
+
+// Mesh of a solid in its own frame (centred, long axis along x); an imported
+// mesh keeps its file coordinates, scaled to metres.
+TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge) {
+    switch (s.kind) {
+        case ShapeKind::sphere: return make_sphere(s.radius_m, target_edge);
+        case ShapeKind::spheroid:
+        case ShapeKind::ellipsoid: return make_ellipsoid(to_vec(s.semi_axes_m), target_edge);
+        case ShapeKind::capsule: return make_capsule(s.radius_m, s.length_m - 2.0 * s.radius_m, target_edge);
+        case ShapeKind::box: return make_box(to_vec(s.size_m), target_edge);
+        case ShapeKind::mesh: return read_mesh(s.mesh_file, s.mesh_scale_m);
+    }
+    return {};
+}
+
+double default_panel_size(const CaseSpec& spec, const TriangleMesh* hull_mesh) {
+    if (spec.mesh.panel_size_m) return *spec.mesh.panel_size_m;
+    const double length = spec.fish ? spec.fish->length_m : shape_length(spec.robot->hull, hull_mesh);
+    return length / 30.0;
+}
+
+// A surface placed in the scene, with what messages need to name it.
+struct Part {
+    const TriangleMesh* mesh;
+    SourceLine source;
+    std::string label;  // "fish", "robot", "object 'prey'"
+};
+
+// ---- sensing bodies -----------------------------------------------------------
+
+// Body profile of the fish in its own frame: axis along x with the tail tip at
+// x = 0 and the nose at x = length, so that the fish faces +x.
+BodyProfile fish_profile(const FishSpec& f) {
+    BodyProfile p;
+    for (auto it = f.profile.rbegin(); it != f.profile.rend(); ++it) {
+        p.x.push_back((1.0 - it->x_fraction) * f.length_m);
+        p.half_width.push_back(it->half_width_fraction * f.length_m);
+        p.half_height.push_back(it->half_height_fraction * f.length_m);
+    }
+    return p;
+}
+
+// Point of the fish frame that the case's position refers to.
+Vec3 fish_anchor(const FishSpec& f) {
+    return Vec3(f.anchored_at_nose ? f.length_m : 0.5 * f.length_m, 0.0, 0.0);
+}
+
+// The fish frame mapped to the world: x -> R (x - anchor) + position.
+void place_fish(TriangleMesh& mesh, const FishSpec& f, const Eigen::Matrix3d& R) {
+    transform(mesh, R, to_vec(f.position_m) - R * fish_anchor(f));
+}
+
+template <class S>
+void add_fish(Scene<S>& scene, const CaseSpec& spec, double omega, double panel_size) {
+    const FishSpec& f = *spec.fish;
+    const std::string where = f.source.where();
+    const Eigen::Matrix3d R = orientation_matrix(f.orientation);
+    Surface<S> body;
+    body.mesh = with_place(where, [&] { return make_body(fish_profile(f), panel_size); });
+    body.mesh.name = "fish";
+    place_fish(body.mesh, f, R);
+    require_valid_mesh(body.mesh, where);
+    body.kind = InterfaceKind::membrane;
+    body.inner_conductivity =
+        to_scalar<S>(admittivity(f.interior_conductivity_S_per_m, f.interior_permittivity_relative, omega));
+    body.membrane_resistance =
+        to_scalar<S>(membrane_impedance(f.skin_resistance_ohm_m2, f.skin_capacitance_F_per_m2, omega));
+
+    const std::vector<double> currents = organ_currents(f.organ);
+    const std::vector<double> fractions = organ_fractions(f.organ);
+    const double min_depth = kMinSourceDepthInPanels * typical_edge(body.mesh);
+    for (std::size_t k = 0; k < currents.size(); ++k) {
+        const Vec3 local((1.0 - fractions[k]) * f.length_m, 0.0, 0.0);
+        const Vec3 p = R * (local - fish_anchor(f)) + to_vec(f.position_m);
+        std::ostringstream point;
+        point << "organ point " << k + 1 << " of " << currents.size() << " (at " << fractions[k]
+              << " of the length from the nose)";
+        if (!contains_point(body.mesh, p))
+            throw InputError(f.organ.source.where() + ": " + point.str() +
+                             " lies outside the body surface; move from/to away from the tips");
+        double depth = std::numeric_limits<double>::infinity();
+        for (std::size_t t = 0; t < body.mesh.size(); ++t)
+            depth = std::min(depth, point_triangle_distance(p, body.mesh.corner(t, 0), body.mesh.corner(t, 1),
+                                                            body.mesh.corner(t, 2)));
+        if (depth < min_depth)
+            throw InputError(f.organ.source.where() + ": " + point.str() + " is only " + format_length(depth) +
+                             " under the skin, less than a quarter of the panel size (" +
+                             format_length(typical_edge(body.mesh)) +
+                             "); move from/to away from the tips or set a smaller mesh.panel_size");
+        scene.sources.push_back(PointSource<S>{p, S(currents[k])});
+    }
+    scene.surfaces.push_back(std::move(body));
+}
+
+// Tags the robot's electrodes on its hull (hull frame) and returns, per panel,
+// the index of its electrode in robot.electrodes or -1.
+std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
+    std::map<int, int> electrode_of_tag;
+    // Region electrodes first: their tags come from the mesh file.
+    for (std::size_t k = 0; k < robot.electrodes.size(); ++k) {
+        const ElectrodeSpec& e = robot.electrodes[k];
+        if (e.form != ElectrodeForm::region) continue;
+        const auto it = std::find(hull.region_names.begin(), hull.region_names.end(), e.region);
+        if (e.region.empty() || it == hull.region_names.end()) {
+            std::string known;
+            for (const auto& name : hull.region_names)
+                if (!name.empty()) known += (known.empty() ? "" : ", ") + name;
+            throw InputError(e.source.where() + ".region: no region '" + e.region + "' in the hull mesh (it has: " +
+                             (known.empty() ? "no named regions" : known) + ")");
+        }
+        const int tag = static_cast<int>(it - hull.region_names.begin());
+        if (region_size(hull, tag) == 0)
+            throw InputError(e.source.where() + ".region: region '" + e.region + "' of the hull mesh has no panel");
+        electrode_of_tag[tag] = static_cast<int>(k);
+    }
+    for (std::size_t k = 0; k < robot.electrodes.size(); ++k) {
+        const ElectrodeSpec& e = robot.electrodes[k];
+        if (e.form == ElectrodeForm::region) continue;
+        const std::vector<int> before = hull.region;
+        with_place(e.source.where(), [&] {
+            const int tag = add_region(hull, e.name);
+            if (e.form == ElectrodeForm::ring)
+                tag_band(hull, tag, Vec3::Zero(), Vec3::UnitX(), e.from_m, e.to_m);
+            else
+                tag_disc(hull, tag, to_vec(e.at_m), e.radius_m);
+            electrode_of_tag[tag] = static_cast<int>(k);
+            for (std::size_t t = 0; t < hull.size(); ++t) {
+                if (hull.region[t] != tag) continue;
+                const auto other = electrode_of_tag.find(before[t]);
+                if (other != electrode_of_tag.end())
+                    throw InputError("electrode '" + e.name + "' overlaps electrode '" +
+                                     robot.electrodes[other->second].name + "' (they share panel " +
+                                     std::to_string(t) + ")");
+            }
+            return 0;
+        });
+    }
+    std::vector<int> panel_electrode(hull.size(), -1);
+    for (std::size_t t = 0; t < hull.size(); ++t) {
+        const auto it = electrode_of_tag.find(hull.region[t]);
+        if (it != electrode_of_tag.end()) panel_electrode[t] = it->second;
+    }
+    return panel_electrode;
+}
+
+template <class S>
+void add_robot(Scene<S>& scene, const CaseSpec& spec, TriangleMesh hull) {
+    const RobotSpec& r = *spec.robot;
+    Surface<S> surface;
+    surface.kind = InterfaceKind::sealed;
+    hull.name = "robot";
+    surface.panel_electrode = tag_electrodes(hull, r);
+    surface.mesh = std::move(hull);
+    transform(surface.mesh, orientation_matrix(r.orientation), to_vec(r.position_m));
+    require_valid_mesh(surface.mesh, r.source.where());
+    for (const ElectrodeSpec& e : r.electrodes) scene.electrodes.push_back(Electrode<S>{e.name, e.drive, S(e.value)});
+    scene.surfaces.push_back(std::move(surface));
+}
+
+// ---- objects --------------------------------------------------------------------
+
+template <class S>
+void add_object(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec& o, double omega) {
+    const std::string where = o.source.where();
+    Surface<S> surface;
+    surface.mesh = with_place(where, [&] { return make_shape_mesh(o.shape, object_panel_size(spec, o)); });
+    surface.mesh.name = o.name;
+    transform(surface.mesh, orientation_matrix(o.orientation), to_vec(o.position_m));
+    require_valid_mesh(surface.mesh, where);
+    switch (o.material) {
+        case Material::conducting:
+            surface.inner_conductivity = to_scalar<S>(admittivity(o.conductivity_S_per_m, o.permittivity_relative, omega));
+            if (o.membrane) {
+                surface.kind = InterfaceKind::membrane;
+                surface.membrane_resistance = to_scalar<S>(
+                    membrane_impedance(o.membrane->resistance_ohm_m2, o.membrane->capacitance_F_per_m2, omega));
+            } else {
+                surface.kind = InterfaceKind::contact;
+            }
+            break;
+        case Material::insulator:
+            surface.kind = InterfaceKind::sealed;
+            surface.panel_electrode.assign(surface.mesh.size(), -1);
+            break;
+        case Material::conductor:
+            surface.kind = InterfaceKind::sealed;
+            surface.panel_electrode.assign(surface.mesh.size(), static_cast<int>(scene.electrodes.size()));
+            scene.electrodes.push_back(Electrode<S>{object_electrode_name(o.name), ElectrodeDrive::floating, S(0.0)});
+            break;
+    }
+    scene.surfaces.push_back(std::move(surface));
+}
+
+// ---- whole-scene checks ---------------------------------------------------------------
+
+void require_in_water(const Part& part, const PlaneSpec& plane) {
+    const double sign = plane.water_below ? 1.0 : -1.0;  // out of the water
+    double reach = -std::numeric_limits<double>::infinity();
+    for (const Vec3& v : part.mesh->vertices) reach = std::max(reach, sign * (v.z() - plane.height_m));
+    const double gap = kMinGapInPanels * typical_edge(*part.mesh);
+    if (reach > -gap) {
+        const std::string name = plane.water_below ? "water surface" : "bottom";
+        const std::string side = plane.water_below ? "above" : "below";
+        throw InputError(part.source.where() + ": " + part.label + " reaches z = " +
+                         format_length(plane.height_m + sign * reach) + ", " +
+                         (reach > 0.0 ? side + " the " : "at or within " + format_length(gap) + " of the ") + name +
+                         " at z = " + format_length(plane.height_m) + " (" + plane.source.key +
+                         "); everything must lie in the water");
+    }
+}
+
+void require_apart(const std::vector<Part>& parts) {
+    for (std::size_t j = 1; j < parts.size(); ++j)
+        for (std::size_t i = 0; i < j; ++i) {
+            const double gap =
+                kMinGapInPanels * std::min(typical_edge(*parts[i].mesh), typical_edge(*parts[j].mesh));
+            with_place(parts[j].source.where(), [&] {
+                require_clearance({parts[i].mesh, parts[j].mesh}, gap);
+                return 0;
+            });
+        }
+}
+
+// "file:line: key" of the first part of the case that makes conductivities
+// complex (the line of its table), or "".
+std::string complex_reason(const CaseSpec& spec) {
+    if (!spec.frequency_Hz) return "";
+    if (spec.water.permittivity_relative) return spec.water.source.where() + ".permittivity";
+    if (spec.fish && spec.fish->interior_permittivity_relative)
+        return spec.fish->source.where() + ".interior_permittivity";
+    if (spec.fish && spec.fish->skin_capacitance_F_per_m2) return spec.fish->source.where() + ".skin_capacitance";
+    for (const ObjectSpec& o : spec.objects) {
+        if (o.permittivity_relative) return o.source.where() + ".permittivity";
+        if (o.membrane && o.membrane->capacitance_F_per_m2) return o.source.where() + ".membrane_capacitance";
+    }
+    return "";
+}
+
+}  // namespace
+
+// ---- public ------------------------------------------------------------------------
+
+bool case_needs_complex(const CaseSpec& spec) { return !complex_reason(spec).empty(); }
+
+std::string object_electrode_name(const std::string& object_name) { return kObjectElectrodePrefix + object_name; }
+
+bool is_object_electrode(const std::string& electrode_name) {
+    return electrode_name.rfind(kObjectElectrodePrefix, 0) == 0;
+}
+
+std::vector<double> organ_currents(const OrganSpec& organ) {
+    std::vector<double> w;
+    const int n = organ.points;
+    switch (organ.profile) {
+        case OrganProfile::dipole: w = {1.0, -1.0}; break;
+        case OrganProfile::weights: w = organ.weights; break;
+        case OrganProfile::linear:
+        case OrganProfile::cosine:
+            for (int k = 0; k < n; ++k) {
+                const double s = static_cast<double>(k) / (n - 1);
+                w.push_back(organ.profile == OrganProfile::linear ? 1.0 - 2.0 * s : std::cos(M_PI * s));
+            }
+            // Symmetric about the middle: cancel rounding so the sum is zero.
+            for (int k = 0; k < n / 2; ++k) w[n - 1 - k] = -w[k];
+            if (n % 2 == 1) w[n / 2] = 0.0;
+            break;
+    }
+    double peak = 0.0;
+    for (double x : w) peak = std::max(peak, std::abs(x));
+    assert(peak > 0.0);
+    for (double& x : w) x *= organ.peak_current_A / peak;
+    return w;
+}
+
+std::vector<double> organ_fractions(const OrganSpec& organ) {
+    const std::size_t n = organ.profile == OrganProfile::dipole    ? 2
+                          : organ.profile == OrganProfile::weights ? organ.weights.size()
+                                                                   : static_cast<std::size_t>(organ.points);
+    std::vector<double> f(n);
+    for (std::size_t k = 0; k < n; ++k)
+        f[k] = organ.from_fraction + (organ.to_fraction - organ.from_fraction) * static_cast<double>(k) / (n - 1);
+    return f;
+}
+
+Eigen::Matrix3d orientation_matrix(const Orientation& o) {
+    // A positive right-handed rotation about y turns +x toward -z, so nose-up pitch
+    // is its negative.
+    return rotation_from_yaw_pitch_roll(o.heading_rad, -o.pitch_rad, o.roll_rad);
+}
+
+double body_panel_size(const CaseSpec& spec) {
+    if (spec.robot && spec.robot->hull.kind == ShapeKind::mesh && !spec.mesh.panel_size_m) {
+        const TriangleMesh hull = with_place(spec.robot->source.where(), [&] { return make_shape_mesh(spec.robot->hull, 0.0); });
+        return default_panel_size(spec, &hull);
+    }
+    return default_panel_size(spec, nullptr);
+}
+
+double object_panel_size(const CaseSpec& spec, const ObjectSpec& o) {
+    if (o.panel_size_m) return *o.panel_size_m;
+    const double body = body_panel_size(spec);
+    const ShapeSpec& s = o.shape;
+    switch (s.kind) {
+        case ShapeKind::sphere:
+        case ShapeKind::capsule: return std::min(body, 0.5 * s.radius_m);
+        case ShapeKind::spheroid:
+        case ShapeKind::ellipsoid:
+            return std::min(body, 0.5 * *std::min_element(s.semi_axes_m.begin(), s.semi_axes_m.end()));
+        case ShapeKind::box: return std::min(body, 0.25 * *std::min_element(s.size_m.begin(), s.size_m.end()));
+        case ShapeKind::mesh: return body;
+    }
+    return body;
+}
+
+QuadratureOptions quadrature_options(const CaseSpec& spec) {
+    QuadratureOptions q;
+    q.near_ratio = spec.mesh.near_ratio;
+    q.far_ratio = spec.mesh.far_ratio;
+    return q;
+}
+
+template <class S>
+Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
+    if constexpr (std::is_same_v<S, double>) {
+        const std::string reason = complex_reason(spec);
+        if (!reason.empty())
+            throw InputError(reason + ": with a frequency this makes conductivities complex; the case must be "
+                                      "solved in complex arithmetic");
+    }
+    assert(spec.fish.has_value() != spec.robot.has_value());
+    const double omega = angular_frequency(spec);
+    Scene<S> scene;
+    scene.water_conductivity =
+        to_scalar<S>(admittivity(spec.water.conductivity_S_per_m, spec.water.permittivity_relative, omega));
+    if (spec.water.plane) {
+        InsulatingPlane plane;
+        plane.point = Vec3(0.0, 0.0, spec.water.plane->height_m);
+        plane.normal = Vec3(0.0, 0.0, spec.water.plane->water_below ? 1.0 : -1.0);
+        scene.plane = plane;
+    }
+
+    if (spec.fish) {
+        add_fish(scene, spec, omega, default_panel_size(spec, nullptr));
+    } else {
+        TriangleMesh hull;
+        double panel = 0.0;
+        with_place(spec.robot->source.where(), [&] {
+            if (spec.robot->hull.kind == ShapeKind::mesh) {
+                hull = make_shape_mesh(spec.robot->hull, 0.0);
+                panel = default_panel_size(spec, &hull);
+            } else {
+                panel = default_panel_size(spec, nullptr);
+                hull = make_shape_mesh(spec.robot->hull, panel);
+            }
+            return 0;
+        });
+        add_robot(scene, spec, std::move(hull));
+    }
+    if (include_objects)
+        for (const ObjectSpec& o : spec.objects) add_object(scene, spec, o, omega);
+
+    std::vector<Part> parts;
+    const SourceLine& body_source = spec.fish ? spec.fish->source : spec.robot->source;
+    parts.push_back({&scene.surfaces[0].mesh, body_source, spec.fish ? "the fish" : "the robot"});
+    for (std::size_t i = 1; i < scene.surfaces.size(); ++i)
+        parts.push_back({&scene.surfaces[i].mesh, spec.objects[i - 1].source,
+                         "object '" + spec.objects[i - 1].name + "'"});
+    if (spec.water.plane)
+        for (const Part& p : parts) require_in_water(p, *spec.water.plane);
+    require_apart(parts);
+    return scene;
+}
+
+template Scene<double> build_scene<double>(const CaseSpec&, bool);
+template Scene<Complex> build_scene<Complex>(const CaseSpec&, bool);
+
+}  // namespace murk

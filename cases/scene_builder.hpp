@@ -1,0 +1,65 @@
+#pragma once
+// Turns a case (CaseSpec) into the solver's Scene: meshes made and placed,
+// materials turned into (complex) conductivities at the case's frequency, the
+// electric organ into point sources, electrodes into tagged hull panels. Checks
+// what only the whole scene can tell: meshes valid, surfaces apart and not
+// nested, everything in the water, sources inside the body, electrodes on panels.
+#include "cases/case_spec.hpp"
+#include "solver/quadrature_options.hpp"
+#include "solver/scene.hpp"
+
+#include <string>
+#include <vector>
+
+namespace murk {
+
+// True when the case needs complex arithmetic: a frequency is given and some
+// material has a permittivity or a membrane a capacitance. Without a frequency
+// (direct current) permittivities and capacitances carry no current.
+bool case_needs_complex(const CaseSpec& spec);
+
+// The scene of the case. Surface order: the sensing body first, then the objects
+// in case order (only when include_objects; false gives the baseline scene).
+// Electrode order: the robot's electrodes in case order, then one floating
+// electrode per "conductor" object, named object_electrode_name(object).
+// For S = double, throws InputError when case_needs_complex(spec).
+// Bad geometry throws InputError naming the case file, line and part.
+template <class S>
+Scene<S> build_scene(const CaseSpec& spec, bool include_objects);
+
+extern template Scene<double> build_scene<double>(const CaseSpec&, bool);
+extern template Scene<Complex> build_scene<Complex>(const CaseSpec&, bool);
+
+// Electrodes made for perfectly conducting objects are named "object:<name>", so
+// that output can tell them from the robot's sensors (robot electrode names are
+// free text but never start with this prefix: the reader refuses such names).
+inline const std::string kObjectElectrodePrefix = "object:";
+std::string object_electrode_name(const std::string& object_name);
+bool is_object_electrode(const std::string& electrode_name);
+
+// Current (A) of each organ point, head end first: the profile's weights scaled
+// so that the largest magnitude equals organ.peak_current_A. They sum to zero
+// (to rounding) for every profile the reader accepts.
+std::vector<double> organ_currents(const OrganSpec& organ);
+
+// Axial position of each organ point as a fraction of the body length from the
+// nose, head end first: evenly spaced from organ.from_fraction to organ.to_fraction.
+std::vector<double> organ_fractions(const OrganSpec& organ);
+
+// Rotation of a body or object frame into the world: heading about z, pitch
+// nose-up, roll about the body axis (see Orientation).
+Eigen::Matrix3d orientation_matrix(const Orientation& o);
+
+// Target panel edge (m) of the sensing body: mesh.panel_size, or the body's
+// length / 30 (a mesh hull is read to measure it).
+double body_panel_size(const CaseSpec& spec);
+
+// Target panel edge (m) of an object: its own panel_size, or the smaller of the
+// body's and half the object's smallest radius (a quarter of its smallest box
+// edge; the body's for a mesh).
+double object_panel_size(const CaseSpec& spec, const ObjectSpec& object);
+
+// The accuracy switches of the panel integrals from [mesh].
+QuadratureOptions quadrature_options(const CaseSpec& spec);
+
+}  // namespace murk

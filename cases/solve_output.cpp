@@ -1,0 +1,110 @@
+#include "cases/solve_output.hpp"
+
+#include <algorithm>
+
+namespace murk {
+
+namespace {
+
+template <class S>
+std::vector<S> to_vector(const Eigen::Matrix<S, Eigen::Dynamic, 1>& v) {
+    return std::vector<S>(v.data(), v.data() + v.size());
+}
+
+void write_mesh(H5Group&& group, const TriangleMesh& mesh) {
+    const hsize_t nv = mesh.vertices.size(), nt = mesh.size();
+    std::vector<double> vertices, centroid, normal, area;
+    for (const Vec3& v : mesh.vertices) vertices.insert(vertices.end(), {v.x(), v.y(), v.z()});
+    std::vector<std::int32_t> triangles, region;
+    for (std::size_t t = 0; t < nt; ++t) {
+        for (int k = 0; k < 3; ++k) triangles.push_back(mesh.triangles[t][k]);
+        region.push_back(t < mesh.region.size() ? mesh.region[t] : 0);
+        const Vec3 c = mesh.centroid(t), n = mesh.normal(t);
+        centroid.insert(centroid.end(), {c.x(), c.y(), c.z()});
+        normal.insert(normal.end(), {n.x(), n.y(), n.z()});
+        area.push_back(mesh.area(t));
+    }
+    group.write("vertices", vertices, {nv, 3}, "m", "vertex coordinates");
+    group.write("triangles", triangles, {nt, 3}, "1", "vertex indices of each panel, counter-clockwise seen from outside");
+    group.write("region", region, {nt}, "1", "region tag of each panel");
+    group.write("centroid", centroid, {nt, 3}, "m", "panel centroid (collocation point)");
+    group.write("normal", normal, {nt, 3}, "1", "outward unit normal of each panel");
+    group.write("area", area, {nt}, "m2", "panel area");
+    std::string names;
+    for (std::size_t i = 0; i < mesh.region_names.size(); ++i) names += (i ? "," : "") + mesh.region_names[i];
+    group.set_attribute("region_names", names);
+}
+
+template <class S>
+void write_surface_values(H5Group&& group, const Surface<S>& surface, const SurfaceSolution<S>& values) {
+    group.write("outer_potential", to_vector(values.outer_potential), "V", "potential on the water side of each panel");
+    group.write("current_density", to_vector(values.current_density), "A m-2",
+                "normal current density leaving the interior through each panel");
+    if (values.inner_potential.size() > 0)
+        group.write("inner_potential", to_vector(values.inner_potential), "V", "potential on the inner side of each panel");
+    if (surface.kind == InterfaceKind::membrane)
+        group.write("transdermal_voltage", to_vector(Eigen::Matrix<S, Eigen::Dynamic, 1>(values.inner_potential - values.outer_potential)),
+                    "V", "transdermal voltage, inside minus outside, at each panel");
+}
+
+template <class S>
+void write_electrodes(H5Group& group, const std::vector<Electrode<S>>& electrodes, const std::vector<S>& potential,
+                      const std::vector<S>& current) {
+    if (electrodes.empty()) return;
+    std::string names;
+    for (std::size_t i = 0; i < electrodes.size(); ++i) names += (i ? "," : "") + electrodes[i].name;
+    H5Dataset p = group.write("electrodes/potential", potential, "V", "electrode potential");
+    p.set_attribute("electrode_names", names);
+    H5Dataset c = group.write("electrodes/current", current, "A", "current from the electrode into the water");
+    c.set_attribute("electrode_names", names);
+}
+
+}  // namespace
+
+std::string surface_group_name(const std::string& mesh_name) {
+    std::string s = mesh_name.empty() ? "surface" : mesh_name;
+    std::replace(s.begin(), s.end(), '/', '_');
+    return s;
+}
+
+template <class S>
+void write_solve_result(H5Group root, const SolvedCase<S>& solved) {
+    H5Group mesh = root.group("mesh"), baseline = root.group("baseline"), perturbed = root.group("perturbed"),
+                  difference = root.group("difference");
+    for (std::size_t s = 0; s < solved.perturbed.surfaces.size(); ++s) {
+        const Surface<S>& surface = solved.perturbed.surfaces[s];
+        const std::string name = surface_group_name(surface.mesh.name);
+        write_mesh(mesh.group(name), surface.mesh);
+        write_surface_values(perturbed.group(name), surface, solved.perturbed_solution.surfaces[s]);
+    }
+    // The baseline scene holds the sensing body's surfaces first, in the same order.
+    for (std::size_t s = 0; s < solved.baseline.surfaces.size(); ++s) {
+        const Surface<S>& surface = solved.baseline.surfaces[s];
+        const std::string name = surface_group_name(surface.mesh.name);
+        const SurfaceSolution<S>& before = solved.baseline_solution.surfaces[s];
+        const SurfaceSolution<S>& after = solved.perturbed_solution.surfaces[s];
+        write_surface_values(baseline.group(name), surface, before);
+        SurfaceSolution<S> change;
+        change.outer_potential = after.outer_potential - before.outer_potential;
+        change.current_density = after.current_density - before.current_density;
+        if (before.inner_potential.size() > 0) change.inner_potential = after.inner_potential - before.inner_potential;
+        write_surface_values(difference.group(name), surface, change);
+    }
+    write_electrodes(perturbed, solved.perturbed.electrodes, solved.perturbed_solution.electrode_potential,
+                     solved.perturbed_solution.electrode_current);
+    // Baseline electrodes are the robot's; conductor objects add theirs after them.
+    const std::size_t shared = solved.baseline.electrodes.size();
+    write_electrodes(baseline, solved.baseline.electrodes, solved.baseline_solution.electrode_potential,
+                     solved.baseline_solution.electrode_current);
+    std::vector<S> dp(shared), dc(shared);
+    for (std::size_t e = 0; e < shared; ++e) {
+        dp[e] = solved.perturbed_solution.electrode_potential[e] - solved.baseline_solution.electrode_potential[e];
+        dc[e] = solved.perturbed_solution.electrode_current[e] - solved.baseline_solution.electrode_current[e];
+    }
+    write_electrodes(difference, solved.baseline.electrodes, dp, dc);
+}
+
+template void write_solve_result(H5Group, const SolvedCase<double>&);
+template void write_solve_result(H5Group, const SolvedCase<Complex>&);
+
+}  // namespace murk

@@ -1,0 +1,80 @@
+#pragma once
+// Closed triangle surfaces of simple solids, generated to a target panel edge length.
+//
+// Every generator returns a closed, 2-manifold mesh, oriented outward (see mesh.hpp),
+// centred at the origin, every panel tagged 0. Bad arguments (non-positive or
+// non-finite sizes, a target edge so small that the mesh would exceed kMaxPanels)
+// throw InputError.
+//
+// Volume rule: a faceted mesh whose vertices lie on a curved surface encloses less
+// than the true solid (an icosphere of 1280 panels about 0.9 % less). Because the
+// solver's answers depend on the enclosed volume to first order (dipole strength of a
+// small object), every curved generator rescales its vertices so that the mesh
+// volume equals the true volume to rounding. Each generator states how it scales.
+#include "geometry/mesh.hpp"
+
+#include <vector>
+
+namespace murk {
+
+// Largest mesh any generator will build; beyond it the caller surely mistyped a unit.
+constexpr std::size_t kMaxGeneratedPanels = 2000000;
+
+// Sphere of `radius` (m) as a refined icosahedron: the lowest subdivision level whose
+// mean edge length is <= target_edge (m). Volume kept: vertices scaled uniformly by
+// (V_true / V_mesh)^(1/3), so they sit slightly outside the true sphere.
+TriangleMesh make_sphere(double radius, double target_edge);
+
+// Sphere as an icosahedron subdivided `subdivisions` times (0 -> 20 panels, each level
+// x4: 3 -> 1280 panels), 0 <= subdivisions <= 8. Same volume rule as make_sphere.
+TriangleMesh make_icosphere(double radius, int subdivisions);
+
+// Ellipsoid with semi-axes (a, b, c) along x, y, z (m): the unit icosphere mapped by
+// diag(a, b, c), subdivision level chosen as for a sphere of radius max(a, b, c).
+// Volume kept (4/3 pi a b c) by a uniform scale (V_true / V_mesh)^(1/3).
+TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge);
+
+// Capsule (cylinder with hemispherical ends) along x: total length
+// cylinder_length + 2 radius (m); cylinder_length >= 0 (0 gives a sphere).
+// Latitude/longitude grid. Volume kept (pi r^2 L + 4/3 pi r^3) by scaling the
+// cross-section (y, z) by sqrt(V_true / V_mesh): the axial length stays exact and the
+// polygonal cross-sections get the area of the true circles on average.
+TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge);
+
+// Rectangular box with full edge lengths `size` (m) along x, y, z; every face a
+// structured grid of cells no longer than about target_edge, each cell split in two
+// triangles. Flat faces: the volume is exact without correction.
+TriangleMesh make_box(const Vec3& size, double target_edge);
+
+// Elongated body with elliptic cross-sections, e.g. a fish. Stations along x
+// (strictly increasing, m), with the semi-axes of the cross-section along y
+// (half_width) and z (half_height). The first and last stations are the tips and must
+// have zero radii; interior stations must have positive radii; at least 3 stations.
+struct BodyProfile {
+    std::vector<double> x;
+    std::vector<double> half_width;
+    std::vector<double> half_height;
+};
+
+// Surface of the body: the profile interpolated linearly between stations (each
+// segment resampled to about target_edge, original stations kept), rings of the same
+// number of vertices around every station, each tip closed by one vertex. Volume kept:
+// cross-sections (y, z) scaled by sqrt(V_true / V_mesh), where V_true is the exact
+// volume of the piecewise-linear elliptic body (body_profile_volume). Invalid profiles
+// throw InputError naming the offending station.
+TriangleMesh make_body(const BodyProfile& profile, double target_edge);
+
+// Exact volume (m^3) of the solid described by `profile`: the integral of
+// pi a(x) b(x) dx with a, b linear on each segment, i.e. per segment
+// pi h / 6 (2 a0 b0 + a0 b1 + a1 b0 + 2 a1 b1). Validates like make_body.
+double body_profile_volume(const BodyProfile& profile);
+
+// Enclosed volume (m^3) of a closed, consistently oriented mesh by the divergence
+// theorem; positive when oriented outward. Computed about the centre of the bounding
+// box to limit cancellation.
+double mesh_volume(const TriangleMesh& mesh);
+
+// Total panel area (m^2).
+double mesh_area(const TriangleMesh& mesh);
+
+}  // namespace murk

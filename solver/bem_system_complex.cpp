@@ -1,0 +1,12 @@
+// Explicit instantiation of the BEM system for Complex (kept apart: dense LU is slow to compile).
+#include "solver/bem_system_impl.hpp"
+
+namespace murk {
+template LinearSystem<Complex> assemble_system(const Scene<Complex>&, const QuadratureOptions&);
+template VectorX<Complex> solve_dense(LinearSystem<Complex>&);
+template Solution<Complex> unpack_solution(const Scene<Complex>&, const SystemLayout&, const VectorX<Complex>&);
+template Solution<Complex> solve_scene(const Scene<Complex>&, const QuadratureOptions&);
+template int enclosing_surface(const Scene<Complex>&, const Vec3&);
+template VectorX<Complex> potential_at(const Scene<Complex>&, const Solution<Complex>&, const Eigen::Matrix3Xd&,
+                                  const QuadratureOptions&, bool);
+}  // namespace murk

@@ -1,0 +1,12 @@
+// Explicit instantiation of the BEM system for double (kept apart: dense LU is slow to compile).
+#include "solver/bem_system_impl.hpp"
+
+namespace murk {
+template LinearSystem<double> assemble_system(const Scene<double>&, const QuadratureOptions&);
+template VectorX<double> solve_dense(LinearSystem<double>&);
+template Solution<double> unpack_solution(const Scene<double>&, const SystemLayout&, const VectorX<double>&);
+template Solution<double> solve_scene(const Scene<double>&, const QuadratureOptions&);
+template int enclosing_surface(const Scene<double>&, const Vec3&);
+template VectorX<double> potential_at(const Scene<double>&, const Solution<double>&, const Eigen::Matrix3Xd&,
+                                  const QuadratureOptions&, bool);
+}  // namespace murk

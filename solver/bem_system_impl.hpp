@@ -1,0 +1,365 @@
+#pragma once
+// Template definitions of bem_system.hpp; included only by the two files that
+// instantiate them for double and std::complex<double> (dense LU is slow to compile).
+#include "solver/bem_system.hpp"
+
+#include "geometry/input_error.hpp"
+#include "solver/incident_field.hpp"
+#include "solver/layer_blocks.hpp"
+#include "solver/panel_set.hpp"
+#include "solver/triangle_integrals.hpp"
+
+#include <Eigen/LU>
+#include <cmath>
+#include <string>
+
+namespace murk {
+
+namespace detail {
+
+inline Vec3 mirror_point(const InsulatingPlane& plane, const Vec3& x) {
+    return x - 2.0 * (x - plane.point).dot(plane.normal) * plane.normal;
+}
+
+inline Eigen::Matrix3Xd mirror_points(const InsulatingPlane& plane, const Eigen::Matrix3Xd& x) {
+    Eigen::Matrix3Xd m(3, x.cols());
+    for (Eigen::Index i = 0; i < x.cols(); ++i) m.col(i) = mirror_point(plane, x.col(i));
+    return m;
+}
+
+// Free-space potential of a point source of current I in conductivity sigma.
+template <class S>
+S point_source_potential(const S& current, const S& sigma, const Vec3& source, const Vec3& x) {
+    return current / (S(4.0 * M_PI) * sigma * (x - source).norm());
+}
+
+// How the water-side potential and q = j/sigma_w of each panel of a surface map
+// onto global unknowns: column index, or -1 when the value is identically zero.
+struct PanelColumns {
+    std::vector<Eigen::Index> phi;  // water-side potential
+    std::vector<Eigen::Index> q;    // scaled normal current
+};
+
+template <class S>
+PanelColumns panel_columns(const Scene<S>& scene, const SystemLayout& layout, std::size_t s) {
+    const auto& block = layout.surfaces[s];
+    PanelColumns c;
+    c.phi.resize(block.panels), c.q.resize(block.panels);
+    for (Eigen::Index k = 0; k < block.panels; ++k) {
+        if (block.two_sided) {
+            c.phi[k] = block.offset + k;
+            c.q[k] = block.offset + block.panels + k;
+        } else {
+            const int e = scene.surfaces[s].panel_electrode[k];
+            c.phi[k] = e < 0 ? block.offset + k : layout.electrode_offset + e;
+            c.q[k] = e < 0 ? -1 : block.offset + k;
+        }
+    }
+    return c;
+}
+
+template <class S>
+SystemLayout make_layout(const Scene<S>& scene) {
+    SystemLayout layout;
+    Eigen::Index offset = 0;
+    for (const auto& surface : scene.surfaces) {
+        SystemLayout::Block b;
+        b.offset = offset;
+        b.panels = static_cast<Eigen::Index>(surface.mesh.size());
+        b.two_sided = surface.kind != InterfaceKind::sealed;
+        offset += b.two_sided ? 2 * b.panels : b.panels;
+        layout.surfaces.push_back(b);
+    }
+    layout.electrode_offset = offset;
+    layout.size = offset + static_cast<Eigen::Index>(scene.electrodes.size());
+    return layout;
+}
+
+template <class S>
+void check_scene(const Scene<S>& scene) {
+    if (scene.surfaces.empty()) throw InputError("scene: no surfaces to solve for");
+    if (scene.plane && scene.uniform_field.norm() > 0)
+        throw InputError("scene: a uniform far field cannot be combined with an insulating plane");
+    for (const auto& surface : scene.surfaces) {
+        if (surface.mesh.size() == 0) throw InputError("surface '" + surface.mesh.name + "': no panels");
+        if (surface.kind != InterfaceKind::sealed) continue;
+        if (surface.panel_electrode.size() != surface.mesh.size())
+            throw InputError("surface '" + surface.mesh.name + "': electrode tags do not match its panels");
+        for (int e : surface.panel_electrode)
+            if (e >= static_cast<int>(scene.electrodes.size()))
+                throw InputError("surface '" + surface.mesh.name + "': panel tagged with unknown electrode " +
+                                 std::to_string(e));
+    }
+}
+
+// Interior potential coefficient of q on a membrane: phi_in = u + rho_s * sigma_w * q.
+template <class S>
+S membrane_q_factor(const Scene<S>& scene, const Surface<S>& surface) {
+    return surface.kind == InterfaceKind::membrane ? surface.membrane_resistance * scene.water_conductivity
+                                                   : S(0);
+}
+
+}  // namespace detail
+
+template <class S>
+int enclosing_surface(const Scene<S>& scene, const Vec3& x) {
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        const TriangleMesh& mesh = scene.surfaces[s].mesh;
+        double winding = 0.0;  // sum of -double_layer = Omega / (4 pi); 1 inside, 0 outside
+        for (std::size_t t = 0; t < mesh.size(); ++t)
+            winding -= double_layer_triangle(x, mesh.corner(t, 0), mesh.corner(t, 1), mesh.corner(t, 2));
+        if (winding > 0.5) return static_cast<int>(s);
+    }
+    return -1;
+}
+
+// Region of every point source (-1 water); a source inside a sealed surface is an error.
+template <class S>
+std::vector<int> source_regions(const Scene<S>& scene) {
+    std::vector<int> region;
+    for (const auto& src : scene.sources) {
+        const int r = enclosing_surface(scene, src.position);
+        if (r >= 0 && scene.surfaces[r].kind == InterfaceKind::sealed)
+            throw InputError("point source at (" + std::to_string(src.position.x()) + ", " +
+                             std::to_string(src.position.y()) + ", " + std::to_string(src.position.z()) +
+                             ") m lies inside '" + scene.surfaces[r].mesh.name +
+                             "', whose interior is not modelled");
+        region.push_back(r);
+    }
+    return region;
+}
+
+template <class S>
+IncidentField<S> water_incident_field(const Scene<S>& scene, const std::vector<int>& regions) {
+    std::vector<std::size_t> water;
+    for (std::size_t i = 0; i < regions.size(); ++i)
+        if (regions[i] < 0) water.push_back(i);
+    return IncidentField<S>(scene, water);
+}
+
+template <class S>
+LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& options) {
+    detail::check_scene(scene);
+    LinearSystem<S> sys;
+    sys.layout = detail::make_layout(scene);
+    const SystemLayout& layout = sys.layout;
+    const Eigen::Index n = layout.size;
+    sys.matrix.setZero(n, n);
+    sys.rhs.setZero(n);
+    const S sigma_w = scene.water_conductivity;
+
+    std::vector<PanelSet> panels;
+    std::vector<detail::PanelColumns> columns;
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        panels.emplace_back(scene.surfaces[s].mesh);
+        columns.push_back(detail::panel_columns(scene, layout, s));
+    }
+
+    const std::vector<int> source_region = source_regions(scene);
+    const IncidentField<S> incident = water_incident_field(scene, source_region);
+
+    Eigen::MatrixXd single, dbl, single_image, dbl_image;
+    for (std::size_t a = 0; a < scene.surfaces.size(); ++a) {
+        const auto& rows = layout.surfaces[a];
+        const Eigen::Matrix3Xd& x = panels[a].centroid;
+        const Eigen::Matrix3Xd x_image =
+            scene.plane ? detail::mirror_points(*scene.plane, x) : Eigen::Matrix3Xd();
+        for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
+            assemble_layer_blocks(x, panels[b], options, a == b, single, dbl);
+            const auto& col = columns[b];
+
+            // Interior equation of surface a (only its own panels bound its interior):
+            // 1/2 phi_in + K phi_in + (sigma_w / sigma_in) V q = interior sources.
+            if (a == b && rows.two_sided) {
+                const Surface<S>& surface = scene.surfaces[a];
+                const S q_factor = detail::membrane_q_factor(scene, surface);
+                const S v_factor = sigma_w / surface.inner_conductivity;
+                const Eigen::Index r0 = rows.offset + rows.panels;
+                for (Eigen::Index k = 0; k < rows.panels; ++k) {
+                    const Eigen::Index cu = col.phi[k], cq = col.q[k];
+                    for (Eigen::Index i = 0; i < rows.panels; ++i) {
+                        const double kk = dbl(i, k) + (i == k ? 0.5 : 0.0);
+                        sys.matrix(r0 + i, cu) += kk;
+                        sys.matrix(r0 + i, cq) += kk * q_factor + v_factor * single(i, k);
+                    }
+                }
+            }
+
+            // Exterior (water) equation on surface a:
+            // 1/2 phi_w - sum_b Kw phi_w - sum_b Vw q = incident + water sources.
+            if (scene.plane) {
+                assemble_layer_blocks(x_image, panels[b], options, false, single_image, dbl_image);
+                single += single_image;
+                dbl += dbl_image;
+            }
+            for (Eigen::Index k = 0; k < layout.surfaces[b].panels; ++k) {
+                const Eigen::Index cphi = col.phi[k], cq = col.q[k];
+                for (Eigen::Index i = 0; i < rows.panels; ++i) {
+                    sys.matrix(rows.offset + i, cphi) -= dbl(i, k);
+                    if (cq >= 0) sys.matrix(rows.offset + i, cq) -= single(i, k);
+                }
+            }
+            if (a == b)
+                for (Eigen::Index i = 0; i < rows.panels; ++i) sys.matrix(rows.offset + i, col.phi[i]) += 0.5;
+        }
+
+        // Right-hand sides of surface a.
+        for (Eigen::Index i = 0; i < rows.panels; ++i) {
+            const Vec3 xi = x.col(i);
+            const S rhs_water = incident.potential(xi);
+            S rhs_inner = S(0);
+            for (std::size_t p = 0; p < scene.sources.size(); ++p) {
+                const auto& src = scene.sources[p];
+                if (source_region[p] == static_cast<int>(a)) {
+                    rhs_inner += detail::point_source_potential(
+                        src.current, scene.surfaces[a].inner_conductivity, src.position, xi);
+                }
+            }
+            sys.rhs(rows.offset + i) = rhs_water;
+            if (rows.two_sided) sys.rhs(rows.offset + rows.panels + i) = rhs_inner;
+        }
+    }
+
+    // Electrode rows. Current balance is written per reference area so that its
+    // entries are of order one: sum_k (A_k / A_ref) q_k = I / (sigma_w A_ref).
+    for (std::size_t e = 0; e < scene.electrodes.size(); ++e) {
+        const Eigen::Index row = layout.electrode_offset + static_cast<Eigen::Index>(e);
+        const Electrode<S>& electrode = scene.electrodes[e];
+        if (electrode.drive == ElectrodeDrive::voltage || electrode.drive == ElectrodeDrive::fixed_potential) {
+            sys.matrix(row, row) = 1.0;
+            sys.rhs(row) = electrode.value;
+            continue;
+        }
+        double total_area = 0.0;
+        for (std::size_t s = 0; s < scene.surfaces.size(); ++s)
+            if (!layout.surfaces[s].two_sided)
+                for (Eigen::Index k = 0; k < layout.surfaces[s].panels; ++k)
+                    if (scene.surfaces[s].panel_electrode[k] == static_cast<int>(e)) total_area += panels[s].area(k);
+        if (total_area <= 0.0)
+            throw InputError("electrode '" + electrode.name + "' has no panels");
+        for (std::size_t s = 0; s < scene.surfaces.size(); ++s)
+            if (!layout.surfaces[s].two_sided)
+                for (Eigen::Index k = 0; k < layout.surfaces[s].panels; ++k)
+                    if (scene.surfaces[s].panel_electrode[k] == static_cast<int>(e))
+                        sys.matrix(row, columns[s].q[k]) = panels[s].area(k) / total_area;
+        sys.rhs(row) = electrode.drive == ElectrodeDrive::current ? electrode.value / (sigma_w * total_area) : S(0);
+    }
+    return sys;
+}
+
+template <class S>
+VectorX<S> solve_dense(LinearSystem<S>& system) {
+    Eigen::PartialPivLU<MatrixX<S>> lu(system.matrix);
+    return lu.solve(system.rhs);
+}
+
+template <class S>
+Solution<S> unpack_solution(const Scene<S>& scene, const SystemLayout& layout, const VectorX<S>& x) {
+    Solution<S> sol;
+    const S sigma_w = scene.water_conductivity;
+    sol.electrode_potential.resize(scene.electrodes.size());
+    sol.electrode_current.assign(scene.electrodes.size(), S(0));
+    for (std::size_t e = 0; e < scene.electrodes.size(); ++e)
+        sol.electrode_potential[e] = x(layout.electrode_offset + static_cast<Eigen::Index>(e));
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        const auto& block = layout.surfaces[s];
+        const Surface<S>& surface = scene.surfaces[s];
+        SurfaceSolution<S> out;
+        const Eigen::Index n = block.panels;
+        if (block.two_sided) {
+            out.outer_potential = x.segment(block.offset, n);
+            out.current_density = sigma_w * x.segment(block.offset + n, n);
+            out.inner_potential = out.outer_potential;
+            if (surface.kind == InterfaceKind::membrane)
+                out.inner_potential += surface.membrane_resistance * out.current_density;
+        } else {
+            out.outer_potential.resize(n);
+            out.current_density.resize(n);
+            for (Eigen::Index k = 0; k < n; ++k) {
+                const int e = surface.panel_electrode[k];
+                if (e < 0) {
+                    out.outer_potential(k) = x(block.offset + k);
+                    out.current_density(k) = S(0);
+                } else {
+                    out.outer_potential(k) = sol.electrode_potential[e];
+                    out.current_density(k) = sigma_w * x(block.offset + k);
+                    sol.electrode_current[e] += out.current_density(k) * surface.mesh.area(k);
+                }
+            }
+        }
+        sol.surfaces.push_back(std::move(out));
+    }
+    return sol;
+}
+
+template <class S>
+Solution<S> solve_scene(const Scene<S>& scene, const QuadratureOptions& options) {
+    LinearSystem<S> system = assemble_system(scene, options);
+    const VectorX<S> x = solve_dense(system);
+    return unpack_solution(scene, system.layout, x);
+}
+
+template <class S>
+VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, const Eigen::Matrix3Xd& points,
+                        const QuadratureOptions& options, bool induced_only) {
+    const Eigen::Index m = points.cols();
+    const std::vector<int> source_region = source_regions(scene);
+    const IncidentField<S> incident = water_incident_field(scene, source_region);
+
+    // Water points: Green's representation of the scattered potential
+    // phi - phi_incident, whose panel densities (u - phi_inc, q + d phi_inc/dn) are
+    // of the size of the perturbation itself. Representing the total potential
+    // instead would subtract large, nearly cancelling incident terms and lose the
+    // small perturbation of a distant object to quadrature error.
+    // Interior points: representation of the interior potential plus the
+    // direct potential of the sources in that interior.
+    VectorX<S> phi = VectorX<S>::Zero(m);
+    std::vector<int> region(m);
+    for (Eigen::Index i = 0; i < m; ++i) {
+        const Vec3 xi = points.col(i);
+        region[i] = enclosing_surface(scene, xi);
+        if (region[i] >= 0 && scene.surfaces[region[i]].kind == InterfaceKind::sealed)
+            throw InputError("point (" + std::to_string(xi.x()) + ", " + std::to_string(xi.y()) + ", " +
+                             std::to_string(xi.z()) + ") m lies inside '" + scene.surfaces[region[i]].mesh.name +
+                             "', whose interior is not modelled");
+        if (induced_only) continue;
+        if (region[i] < 0) {
+            phi(i) = incident.potential(xi);
+            continue;
+        }
+        for (std::size_t p = 0; p < scene.sources.size(); ++p)
+            if (source_region[p] == region[i])
+                phi(i) += detail::point_source_potential(scene.sources[p].current,
+                                                         scene.surfaces[region[i]].inner_conductivity,
+                                                         scene.sources[p].position, xi);
+    }
+    const Eigen::Matrix3Xd images = scene.plane ? detail::mirror_points(*scene.plane, points) : Eigen::Matrix3Xd();
+    Eigen::MatrixXd single, dbl, single_image, dbl_image;
+    for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
+        const PanelSet panels(scene.surfaces[b].mesh);
+        const SurfaceSolution<S>& sol = solution.surfaces[b];
+        const Eigen::Index n = panels.size();
+        VectorX<S> scattered_u(n), scattered_q(n);
+        for (Eigen::Index k = 0; k < n; ++k) {
+            const Vec3 c = panels.centroid.col(k), nk = panels.normal.col(k);
+            scattered_u(k) = sol.outer_potential(k) - incident.potential(c);
+            scattered_q(k) = sol.current_density(k) / scene.water_conductivity + incident.normal_derivative(c, nk);
+        }
+        assemble_layer_blocks(points, panels, options, false, single, dbl);
+        if (scene.plane) assemble_layer_blocks(images, panels, options, false, single_image, dbl_image);
+        // water: phi_s = sum_b (Kw u_s + Vw q_s); interior: phi = src - K phi_in - V j / sigma_in
+        VectorX<S> water = dbl.cast<S>() * scattered_u + single.cast<S>() * scattered_q;
+        if (scene.plane) water += dbl_image.cast<S>() * scattered_u + single_image.cast<S>() * scattered_q;
+        VectorX<S> inner;
+        if (scene.surfaces[b].kind != InterfaceKind::sealed)
+            inner = -(dbl.cast<S>() * sol.inner_potential +
+                      single.cast<S>() * (sol.current_density / scene.surfaces[b].inner_conductivity));
+        for (Eigen::Index i = 0; i < m; ++i) {
+            if (region[i] < 0) phi(i) += water(i);
+            else if (region[i] == static_cast<int>(b)) phi(i) += inner(i);
+        }
+    }
+    return phi;
+}
+
+}  // namespace murk

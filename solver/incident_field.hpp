@@ -1,0 +1,29 @@
+#pragma once
+// The incident potential in the water: what the water sources and the imposed
+// uniform field would produce with no surfaces present (including the image
+// sources of an insulating plane). It is harmonic inside every closed surface,
+// which is what lets the representation formula be applied to the scattered
+// part alone (see potential_at).
+#include "solver/scene.hpp"
+
+#include <vector>
+
+namespace murk {
+
+template <class S>
+class IncidentField {
+public:
+    // water_sources: the indices of the scene's sources that lie in the water.
+    IncidentField(const Scene<S>& scene, std::vector<std::size_t> water_sources);
+
+    S potential(const Vec3& x) const;
+    // Derivative along the unit vector n at x.
+    S normal_derivative(const Vec3& x, const Vec3& n) const;
+
+private:
+    struct Pole { Vec3 position; S strength; };  // potential strength / |x - position|
+    Eigen::Matrix<S, 3, 1> field_;
+    std::vector<Pole> poles_;
+};
+
+}  // namespace murk

@@ -1,0 +1,86 @@
+#include "solver/layer_blocks.hpp"
+
+#include "solver/triangle_integrals.hpp"
+#include "solver/triangle_rules.hpp"
+
+#include <cmath>
+
+namespace murk {
+
+namespace {
+constexpr double kInvFourPi = 1.0 / (4.0 * M_PI);
+
+// Column k: every target against one source panel. The first loop applies the
+// centroid rule to all targets (branch-free, so it vectorizes); the second loop
+// revisits only the targets close enough to need a better rule.
+void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::Index k,
+                 const QuadratureOptions& options, bool targets_are_centroids, double* single,
+                 double* dbl) {
+    const Eigen::Index m = targets.cols();
+    const double cx = src.centroid(0, k), cy = src.centroid(1, k), cz = src.centroid(2, k);
+    const double nx = src.normal(0, k), ny = src.normal(1, k), nz = src.normal(2, k);
+    const double a = src.area(k) * kInvFourPi;
+    const double* t = targets.data();
+    for (Eigen::Index i = 0; i < m; ++i) {
+        const double dx = t[3 * i] - cx, dy = t[3 * i + 1] - cy, dz = t[3 * i + 2] - cz;
+        const double inv_r = 1.0 / std::sqrt(dx * dx + dy * dy + dz * dz);
+        single[i] = a * inv_r;
+        dbl[i] = a * (nx * dx + ny * dy + nz * dz) * inv_r * inv_r * inv_r;
+    }
+
+    const double far2 = std::pow(options.far_ratio * src.diameter(k), 2);
+    const double near2 = std::pow(options.near_ratio * src.diameter(k), 2);
+    const Vec3 p0 = src.p0.col(k), p1 = src.p1.col(k), p2 = src.p2.col(k);
+    const Vec3 n = src.normal.col(k);
+    const TriangleRule& rule = radon7_rule();
+    for (Eigen::Index i = 0; i < m; ++i) {
+        const Vec3 x = targets.col(i);
+        const double d2 = (x - src.centroid.col(k)).squaredNorm();
+        if (d2 >= far2) continue;
+        if (targets_are_centroids && i == k) {
+            single[i] = single_layer_triangle(x, p0, p1, p2);
+            dbl[i] = 0.0;  // principal value at a flat panel's own centroid
+        } else if (d2 < near2) {
+            single[i] = single_layer_triangle(x, p0, p1, p2);
+            dbl[i] = double_layer_triangle(x, p0, p1, p2);
+        } else {
+            double s = 0.0, d = 0.0;
+            for (std::size_t q = 0; q < rule.weight.size(); ++q) {
+                const auto& l = rule.point[q];
+                const Vec3 r = x - (l[0] * p0 + l[1] * p1 + l[2] * p2);
+                const double inv_r = 1.0 / r.norm();
+                s += rule.weight[q] * inv_r;
+                d += rule.weight[q] * n.dot(r) * inv_r * inv_r * inv_r;
+            }
+            single[i] = a * s;
+            dbl[i] = a * d;
+        }
+    }
+}
+}  // namespace
+
+void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
+                           const QuadratureOptions& options, bool targets_are_centroids,
+                           Eigen::MatrixXd& single, Eigen::MatrixXd& dbl) {
+    const Eigen::Index m = targets.cols(), n = sources.size();
+    single.resize(m, n);
+    dbl.resize(m, n);
+#pragma omp parallel for schedule(dynamic, 16)
+    for (Eigen::Index k = 0; k < n; ++k)
+        fill_column(targets, sources, k, options, targets_are_centroids, single.col(k).data(),
+                    dbl.col(k).data());
+
+    // Gauss's law: seen from a point of a smooth closed surface, the surface
+    // subtends 2 pi, so each row of its own double layer sums to -1/2 exactly.
+    // The quadrature rules of distant panels miss this by up to ~1e-3, and that
+    // error multiplies the (large) mean potential of the surface; replacing the
+    // principal value 0 on the diagonal by what closes the sum makes constant
+    // potentials exact again. With every pair in closed form the correction is
+    // at rounding level.
+    if (targets_are_centroids) {
+        const Eigen::VectorXd row_sum = dbl.rowwise().sum();
+        for (Eigen::Index i = 0; i < m; ++i) dbl(i, i) = -0.5 - (row_sum(i) - dbl(i, i));
+    }
+}
+
+}  // namespace murk

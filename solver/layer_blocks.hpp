@@ -1,0 +1,26 @@
+#pragma once
+// Dense blocks of the single- and double-layer operators: the potential at a
+// set of target points due to a unit constant density on each source panel.
+//
+//   single(i, k) = integral over panel k of G(x_i, y) dS_y
+//   dbl(i, k)    = integral over panel k of dG/dn_y(x_i, y) dS_y
+//
+// with G = 1/(4 pi r) (see triangle_integrals.hpp). When the targets are the
+// centroids of the source panels themselves (collocation), pass
+// targets_are_centroids: the diagonal then holds the self terms. The source
+// panels must then form one closed surface: the double layer's diagonal is set
+// so that every row sums to -1/2 (Gauss's law; the exact principal value of a
+// flat panel at its centroid is 0, and the diagonal absorbs the quadrature error
+// of the distant panels instead).
+#include "solver/panel_set.hpp"
+#include "solver/quadrature_options.hpp"
+
+#include <Eigen/Core>
+
+namespace murk {
+
+void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
+                           const QuadratureOptions& options, bool targets_are_centroids,
+                           Eigen::MatrixXd& single, Eigen::MatrixXd& dbl);
+
+}  // namespace murk

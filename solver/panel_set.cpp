@@ -1,0 +1,22 @@
+#include "solver/panel_set.hpp"
+
+#include <algorithm>
+
+namespace murk {
+
+PanelSet::PanelSet(const TriangleMesh& mesh) {
+    const Eigen::Index n = static_cast<Eigen::Index>(mesh.size());
+    p0.resize(3, n), p1.resize(3, n), p2.resize(3, n), centroid.resize(3, n), normal.resize(3, n);
+    area.resize(n), diameter.resize(n);
+    for (Eigen::Index t = 0; t < n; ++t) {
+        const Vec3 &a = mesh.corner(t, 0), &b = mesh.corner(t, 1), &c = mesh.corner(t, 2);
+        p0.col(t) = a, p1.col(t) = b, p2.col(t) = c;
+        centroid.col(t) = (a + b + c) / 3.0;
+        const Vec3 twice_area = (b - a).cross(c - a);
+        area(t) = 0.5 * twice_area.norm();
+        normal.col(t) = twice_area.normalized();
+        diameter(t) = std::max({(b - a).norm(), (c - b).norm(), (a - c).norm()});
+    }
+}
+
+}  // namespace murk

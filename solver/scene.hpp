@@ -1,0 +1,94 @@
+#pragma once
+// A scene: closed surfaces in water, what each interface does, the sources and
+// electrodes. Plain data; the solver turns it into panel values. SI units inside.
+//
+// Every surface bounds one interior region and sits in the water; surfaces are
+// not nested. The normal current density j on a surface is the current per area
+// leaving the interior (outward normal), and it is the same on both sides.
+#include "geometry/mesh.hpp"
+
+#include <Eigen/Core>
+#include <complex>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace murk {
+
+using Complex = std::complex<double>;
+
+// How a closed surface couples the water outside to what is inside it.
+enum class InterfaceKind {
+    contact,   // object in water: potential and normal current continuous
+    membrane,  // resistive skin: current continuous, inner - outer potential = rho_s * j
+    sealed,    // only the water side is modelled: a panel insulates (j = 0) unless it
+               // belongs to an electrode, where the water-side potential is the electrode's
+};
+
+template <class S>
+struct Surface {
+    TriangleMesh mesh;                  // mesh.name names the surface in messages and output
+    InterfaceKind kind = InterfaceKind::contact;
+    S inner_conductivity{};             // S/m; contact and membrane
+    S membrane_resistance{};            // ohm m^2 (specific resistance); membrane only
+    std::vector<int> panel_electrode;   // sealed only: per triangle an index into
+                                        // Scene::electrodes, or -1 for an insulating panel
+};
+
+enum class ElectrodeDrive {
+    current,          // given total current into the water (A); potential is solved for
+    voltage,          // given potential (V); current is solved for
+    floating,         // ideal voltmeter: zero net current; potential is solved for
+    fixed_potential,  // sensor held at a given potential (V) whose current is read
+};
+
+template <class S>
+struct Electrode {
+    std::string name;
+    ElectrodeDrive drive = ElectrodeDrive::floating;
+    S value{};  // A for current, V for voltage and fixed_potential, unused when floating
+};
+
+// A point current source (A) in whatever region contains it: the water or the
+// interior of a contact or membrane surface (an electric organ inside a body).
+template <class S>
+struct PointSource {
+    Vec3 position;
+    S current{};
+};
+
+// An insulating plane (water surface or bottom): the water lies on the side
+// opposite to `normal`. Handled exactly by the image Green's function.
+struct InsulatingPlane {
+    Vec3 point = Vec3::Zero();
+    Vec3 normal = Vec3::UnitZ();  // unit, pointing out of the water
+};
+
+template <class S>
+struct Scene {
+    S water_conductivity{};
+    std::optional<InsulatingPlane> plane;
+    std::vector<Surface<S>> surfaces;
+    std::vector<Electrode<S>> electrodes;
+    std::vector<PointSource<S>> sources;
+    // Imposed uniform field far away (V/m); the incident potential is -E.x.
+    // Used by the verification checks; zero in ordinary scenes.
+    Eigen::Matrix<S, 3, 1> uniform_field = Eigen::Matrix<S, 3, 1>::Zero();
+};
+
+// Panel values of one surface after a solve (one entry per triangle).
+template <class S>
+struct SurfaceSolution {
+    Eigen::Matrix<S, Eigen::Dynamic, 1> outer_potential;  // V, water side
+    Eigen::Matrix<S, Eigen::Dynamic, 1> inner_potential;  // V, inside; empty for sealed surfaces
+    Eigen::Matrix<S, Eigen::Dynamic, 1> current_density;  // A/m^2, outward normal
+};
+
+template <class S>
+struct Solution {
+    std::vector<SurfaceSolution<S>> surfaces;  // same order as Scene::surfaces
+    std::vector<S> electrode_potential;        // V, same order as Scene::electrodes
+    std::vector<S> electrode_current;          // A into the water
+};
+
+}  // namespace murk

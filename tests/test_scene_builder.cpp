@@ -1,0 +1,565 @@
+// From a case to the solver's scene: placement of meshes and sources, electrode
+// tags, materials at a frequency, and the whole-scene checks. Expected positions
+// and values are worked out by hand in each test from the case text.
+#include "cases/case_reader.hpp"
+#include "cases/scene_builder.hpp"
+#include "geometry/clearance.hpp"
+#include "geometry/input_error.hpp"
+#include "geometry/mesh_io.hpp"
+#include "geometry/shapes.hpp"
+
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <numeric>
+#include <string>
+
+using namespace murk;
+namespace fs = std::filesystem;
+
+namespace {
+
+// Vacuum permittivity (F/m), CODATA 2018 recommended value.
+constexpr double kEps0 = 8.8541878128e-12;
+
+CaseSpec spec_of(const std::string& text) { return read_case_text(text, "case.toml"); }
+
+template <class S = double>
+std::string build_error(const std::string& text, bool include_objects = true) {
+    try {
+        build_scene<S>(spec_of(text), include_objects);
+    } catch (const InputError& e) {
+        return e.what();
+    }
+    return "";
+}
+
+int line_with(const std::string& text, const std::string& needle, int nth = 1) {
+    auto pos = text.find(needle);
+    for (int k = 1; k < nth && pos != std::string::npos; ++k) pos = text.find(needle, pos + 1);
+    REQUIRE(pos != std::string::npos);
+    return 1 + static_cast<int>(std::count(text.begin(), text.begin() + static_cast<long>(pos), '\n'));
+}
+
+// A 15 cm fish along +x, centre at the origin, coarse mesh.
+const std::string kFish = R"(title = "f"
+[water]
+conductivity = "100 uS/cm"
+[mesh]
+panel_size = "8 mm"
+[fish]
+length = "15 cm"
+interior_conductivity = "1 S/m"
+skin_resistance = "0.25 ohm*m^2"
+[fish.organ]
+from = 0.2
+to = 0.8
+points = 4
+current = "100 uA"
+)";
+
+std::string sphere_object(const std::string& name, const std::string& position, const std::string& radius,
+                          const std::string& conductivity) {
+    return "[[object]]\nname = \"" + name + "\"\nshape = \"sphere\"\nradius = \"" + radius + "\"\nposition = " +
+           position + "\nconductivity = " + conductivity + "\n";
+}
+
+double max_coordinate(const TriangleMesh& m, int axis) {
+    double v = -1e300;
+    for (const Vec3& p : m.vertices) v = std::max(v, p[axis]);
+    return v;
+}
+double min_coordinate(const TriangleMesh& m, int axis) {
+    double v = 1e300;
+    for (const Vec3& p : m.vertices) v = std::min(v, p[axis]);
+    return v;
+}
+
+}  // namespace
+
+TEST_CASE("scene builder: every example case reads and builds") {
+    const fs::path dir = fs::path(MURK_SOURCE_DIR) / "cases" / "examples";
+    int count = 0;
+    for (const auto& entry : fs::directory_iterator(dir)) {
+        if (entry.path().extension() != ".toml") continue;
+        CAPTURE(entry.path().string());
+        ++count;
+        const CaseSpec spec = read_case_file(entry.path().string());
+        std::size_t panels = 0, surfaces = 0;
+        if (case_needs_complex(spec)) {
+            const Scene<Complex> scene = build_scene<Complex>(spec, true);
+            for (const auto& s : scene.surfaces) panels += s.mesh.size();
+            surfaces = scene.surfaces.size();
+            CHECK(build_scene<Complex>(spec, false).surfaces.size() == 1);
+        } else {
+            const Scene<double> scene = build_scene<double>(spec, true);
+            for (const auto& s : scene.surfaces) panels += s.mesh.size();
+            surfaces = scene.surfaces.size();
+            CHECK(build_scene<double>(spec, false).surfaces.size() == 1);
+        }
+        CHECK(surfaces == 1 + spec.objects.size());
+        // Examples must solve in seconds: the limit set for them in the design brief.
+        CHECK(panels <= 2500);
+        // Each opens with a comment block saying how to run it.
+        CHECK(spec.text.rfind("# ", 0) == 0);
+        CHECK(spec.text.find("build/murk solve cases/examples/" + entry.path().filename().string()) !=
+              std::string::npos);
+    }
+    CHECK(count >= 3);
+}
+
+TEST_CASE("scene builder: organ currents and positions along the organ") {
+    OrganSpec o;
+    o.peak_current_A = 2e-3;
+    o.from_fraction = 0.2;
+    o.to_fraction = 0.8;
+    o.profile = OrganProfile::linear;
+    o.points = 5;
+    // 1 - 2 s at s = 0, 1/4, 1/2, 3/4, 1, times 2 mA
+    std::vector<double> c = organ_currents(o);
+    REQUIRE(c.size() == 5);
+    const double linear[] = {2e-3, 1e-3, 0.0, -1e-3, -2e-3};
+    for (int k = 0; k < 5; ++k) CHECK(c[k] == doctest::Approx(linear[k]).scale(1e-3));
+    const std::vector<double> f = organ_fractions(o);
+    const double fractions[] = {0.2, 0.35, 0.5, 0.65, 0.8};
+    for (int k = 0; k < 5; ++k) CHECK(f[k] == doctest::Approx(fractions[k]));
+
+    o.profile = OrganProfile::cosine;
+    o.points = 3;  // cos(0), cos(pi/2), cos(pi)
+    c = organ_currents(o);
+    REQUIRE(c.size() == 3);
+    CHECK(c[0] == doctest::Approx(2e-3));
+    CHECK(std::abs(c[1]) < 1e-15);
+    CHECK(c[2] == doctest::Approx(-2e-3));
+
+    o.profile = OrganProfile::dipole;
+    c = organ_currents(o);
+    REQUIRE(c.size() == 2);
+    CHECK(c[0] == doctest::Approx(2e-3));
+    CHECK(c[1] == doctest::Approx(-2e-3));
+    CHECK(organ_fractions(o) == std::vector<double>{0.2, 0.8});
+
+    o.profile = OrganProfile::weights;
+    o.weights = {2.0, -1.0, -1.0};
+    o.peak_current_A = 3e-3;  // the weight 2 becomes 3 mA, each -1 becomes -1.5 mA
+    c = organ_currents(o);
+    REQUIRE(c.size() == 3);
+    CHECK(c[0] == doctest::Approx(3e-3));
+    CHECK(c[1] == doctest::Approx(-1.5e-3));
+    CHECK(c[2] == doctest::Approx(-1.5e-3));
+}
+
+TEST_CASE("scene builder: the fish is placed and its organ lies inside it") {
+    SUBCASE("centre at the origin, heading +x") {
+        const Scene<double> scene = build_scene<double>(spec_of(kFish), true);
+        REQUIRE(scene.surfaces.size() == 1);
+        const Surface<double>& body = scene.surfaces[0];
+        CHECK(body.kind == InterfaceKind::membrane);
+        CHECK(body.inner_conductivity == doctest::Approx(1.0));
+        CHECK(body.membrane_resistance == doctest::Approx(0.25));
+        CHECK(scene.water_conductivity == doctest::Approx(1e-2));  // 100e-6 S / 1e-2 m
+        // the tips are single vertices on the axis: nose at +L/2, tail at -L/2
+        CHECK(max_coordinate(body.mesh, 0) == doctest::Approx(0.075));
+        CHECK(min_coordinate(body.mesh, 0) == doctest::Approx(-0.075));
+        // 4 points from 0.2 to 0.8 of the length behind the nose: x = 0.075 - f * 0.15
+        REQUIRE(scene.sources.size() == 4);
+        const double fractions[] = {0.2, 0.4, 0.6, 0.8};
+        double total = 0.0;
+        for (int k = 0; k < 4; ++k) {
+            const Vec3& p = scene.sources[k].position;
+            CHECK(p.x() == doctest::Approx(0.075 - fractions[k] * 0.15));
+            CHECK(std::abs(p.y()) < 1e-12);
+            CHECK(std::abs(p.z()) < 1e-12);
+            CHECK(contains_point(body.mesh, p));
+            total += scene.sources[k].current;
+        }
+        // linear weights 1, 1/3, -1/3, -1 times 100 uA
+        CHECK(scene.sources[0].current == doctest::Approx(1e-4));
+        CHECK(scene.sources[1].current == doctest::Approx(1e-4 / 3));
+        CHECK(std::abs(total) < 1e-18);
+    }
+    SUBCASE("nose given, heading 90 deg: the body lies along -y from the nose") {
+        std::string text = kFish;
+        text.insert(text.find("interior_conductivity"), "nose = [\"1 cm\", \"2 cm\", \"-1 cm\"]\nheading = \"90 deg\"\n");
+        const Scene<double> scene = build_scene<double>(spec_of(text), true);
+        const double fractions[] = {0.2, 0.4, 0.6, 0.8};
+        for (int k = 0; k < 4; ++k) {
+            const Vec3& p = scene.sources[k].position;
+            CHECK(p.x() == doctest::Approx(0.01));
+            CHECK(p.y() == doctest::Approx(0.02 - fractions[k] * 0.15));
+            CHECK(p.z() == doctest::Approx(-0.01));
+            CHECK(contains_point(scene.surfaces[0].mesh, p));
+        }
+        CHECK(max_coordinate(scene.surfaces[0].mesh, 1) == doctest::Approx(0.02));
+    }
+    SUBCASE("nose up: pitch 90 deg puts the tail below the nose") {
+        std::string text = kFish;
+        text.insert(text.find("interior_conductivity"), "nose = [\"0 cm\", \"0 cm\", \"0 cm\"]\npitch = \"90 deg\"\n");
+        const Scene<double> scene = build_scene<double>(spec_of(text), true);
+        CHECK(scene.sources[0].position.z() == doctest::Approx(-0.2 * 0.15));
+        CHECK(scene.sources[3].position.z() == doctest::Approx(-0.8 * 0.15));
+        CHECK(max_coordinate(scene.surfaces[0].mesh, 2) == doctest::Approx(0.0).epsilon(1e-12));
+    }
+}
+
+TEST_CASE("scene builder: organ points outside or too near the skin are refused") {
+    std::string text = kFish;
+    text.replace(text.find("to = 0.8"), 8, "to = 1.0");
+    const std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[fish.organ]")) + ": fish.organ: organ point 4 of 4",
+                  0) == 0);
+    CHECK((m.find("outside the body") != std::string::npos || m.find("under the skin") != std::string::npos));
+    // at 0.95 of the length the built-in body is only about a millimetre thick
+    text = kFish;
+    text.replace(text.find("to = 0.8"), 8, "to = 0.97");
+    CHECK(build_error(text).find("fish.organ: organ point 4 of 4") != std::string::npos);
+}
+
+namespace {
+
+const std::string kRobotHead = R"(title = "r"
+[water]
+conductivity = "200 uS/cm"
+[mesh]
+panel_size = "1 cm"
+[robot]
+shape = "capsule"
+radius = "2 cm"
+length = "30 cm"
+position = ["10 cm", "20 cm", "30 cm"]
+heading = "90 deg"
+)";
+
+const std::string kElectrodes = R"([[robot.electrode]]
+name = "front"
+form = "ring"
+from = "10 cm"
+to = "13 cm"
+role = "emitter"
+current = "1 mA"
+[[robot.electrode]]
+name = "back"
+form = "ring"
+from = "-13 cm"
+to = "-10 cm"
+role = "emitter"
+voltage = "-2 V"
+[[robot.electrode]]
+name = "eye"
+form = "patch"
+at = ["0 cm", "0 cm", "2 cm"]
+radius = "1.5 cm"
+role = "sensor"
+[[robot.electrode]]
+name = "ground"
+form = "patch"
+at = ["0 cm", "-2 cm", "0 cm"]
+radius = "1.5 cm"
+role = "sensor"
+potential = "0 V"
+)";
+
+}  // namespace
+
+TEST_CASE("scene builder: robot electrodes are tagged on the hull panels they cover") {
+    const Scene<double> scene = build_scene<double>(spec_of(kRobotHead + kElectrodes), true);
+    REQUIRE(scene.surfaces.size() == 1);
+    const Surface<double>& hull = scene.surfaces[0];
+    CHECK(hull.kind == InterfaceKind::sealed);
+    REQUIRE(hull.panel_electrode.size() == hull.mesh.size());
+    REQUIRE(scene.electrodes.size() == 4);
+    CHECK(scene.electrodes[0].name == "front");
+    CHECK(scene.electrodes[0].drive == ElectrodeDrive::current);
+    CHECK(scene.electrodes[0].value == doctest::Approx(1e-3));
+    CHECK(scene.electrodes[1].drive == ElectrodeDrive::voltage);
+    CHECK(scene.electrodes[1].value == doctest::Approx(-2.0));
+    CHECK(scene.electrodes[2].drive == ElectrodeDrive::floating);
+    CHECK(scene.electrodes[3].drive == ElectrodeDrive::fixed_potential);
+    CHECK(scene.electrodes[3].value == 0.0);
+    // Hull frame of each panel centre: the hull is turned 90 deg about z (its x axis
+    // along world +y) and moved to (0.1, 0.2, 0.3), so hull x = y - 0.2,
+    // hull y = -(x - 0.1), hull z = z - 0.3.
+    std::vector<int> count(4, 0);
+    for (std::size_t t = 0; t < hull.mesh.size(); ++t) {
+        const Vec3 c = hull.mesh.centroid(t);
+        const Vec3 local(c.y() - 0.2, -(c.x() - 0.1), c.z() - 0.3);
+        int expected = -1;
+        if (local.x() >= 0.10 && local.x() <= 0.13) expected = 0;
+        if (local.x() >= -0.13 && local.x() <= -0.10) expected = 1;
+        if ((local - Vec3(0, 0, 0.02)).norm() <= 0.015) expected = 2;
+        if ((local - Vec3(0, -0.02, 0)).norm() <= 0.015) expected = 3;
+        CHECK(hull.panel_electrode[t] == expected);
+        if (expected >= 0) ++count[expected];
+    }
+    for (int k = 0; k < 4; ++k) CHECK(count[k] > 0);
+}
+
+TEST_CASE("scene builder: electrodes that overlap or cover nothing are refused") {
+    std::string text = kRobotHead + kElectrodes +
+                       "[[robot.electrode]]\nname = \"late\"\nform = \"ring\"\nfrom = \"12 cm\"\nto = \"14 cm\"\n"
+                       "role = \"sensor\"\n";
+    std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[robot.electrode]]", 5)) + ": robot.electrode[5]:",
+                  0) == 0);
+    CHECK(m.find("electrode 'late' overlaps electrode 'front'") != std::string::npos);
+    // a patch that misses the hull
+    text = kRobotHead + kElectrodes +
+           "[[robot.electrode]]\nname = \"far\"\nform = \"patch\"\nat = [\"0 cm\", \"10 cm\", \"0 cm\"]\n"
+           "radius = \"1 cm\"\nrole = \"sensor\"\n";
+    m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[robot.electrode]]", 5)) + ": robot.electrode[5]:",
+                  0) == 0);
+}
+
+TEST_CASE("scene builder: region electrodes of a Gmsh hull") {
+    // A 4 cm box written by hand as MSH 2.2: panels on the +x face form the
+    // physical group "nose", all others "shell".
+    const fs::path dir = fs::temp_directory_path() / "murk_test_scene_builder_msh";
+    fs::create_directories(dir);
+    const TriangleMesh box = make_box(Vec3(0.04, 0.04, 0.04), 0.01);
+    std::size_t nose_panels = 0;
+    {
+        std::ofstream msh(dir / "hull.msh");
+        msh << "$MeshFormat\n2.2 0 8\n$EndMeshFormat\n$PhysicalNames\n2\n2 1 \"shell\"\n2 2 \"nose\"\n"
+               "$EndPhysicalNames\n$Nodes\n"
+            << box.vertices.size() << "\n";
+        msh.precision(17);
+        for (std::size_t i = 0; i < box.vertices.size(); ++i)
+            msh << i + 1 << " " << box.vertices[i].x() << " " << box.vertices[i].y() << " " << box.vertices[i].z()
+                << "\n";
+        msh << "$EndNodes\n$Elements\n" << box.size() << "\n";
+        for (std::size_t t = 0; t < box.size(); ++t) {
+            const bool nose = box.centroid(t).x() > 0.019;
+            nose_panels += nose;
+            msh << t + 1 << " 2 2 " << (nose ? 2 : 1) << " " << (nose ? 2 : 1) << " " << box.triangles[t][0] + 1
+                << " " << box.triangles[t][1] + 1 << " " << box.triangles[t][2] + 1 << "\n";
+        }
+        msh << "$EndElements\n";
+    }
+    REQUIRE(nose_panels > 0);
+    const std::string text = R"(title = "m"
+[water]
+conductivity = "1 S/m"
+[robot]
+shape = "mesh"
+file = "hull.msh"
+[[robot.electrode]]
+name = "tip"
+form = "region"
+region = "nose"
+role = "emitter"
+current = "1 mA"
+[[robot.electrode]]
+name = "belt"
+form = "ring"
+from = "-5 mm"
+to = "5 mm"
+role = "sensor"
+)";
+    { std::ofstream(dir / "case.toml") << text; }
+    const CaseSpec spec = read_case_file((dir / "case.toml").string());
+    const Scene<double> scene = build_scene<double>(spec, true);
+    const Surface<double>& hull = scene.surfaces[0];
+    std::size_t tip = 0, belt = 0;
+    for (std::size_t t = 0; t < hull.mesh.size(); ++t) {
+        const Vec3 c = hull.mesh.centroid(t);
+        int expected = -1;
+        if (c.x() > 0.019) expected = 0;
+        else if (c.x() >= -0.005 && c.x() <= 0.005) expected = 1;
+        CHECK(hull.panel_electrode[t] == expected);
+        tip += expected == 0;
+        belt += expected == 1;
+    }
+    CHECK(tip == nose_panels);
+    CHECK(belt > 0);
+    // a region the file does not have
+    std::string bad = text;
+    bad.replace(bad.find("\"nose\""), 6, "\"mouth\"");
+    { std::ofstream(dir / "case.toml") << bad; }
+    try {
+        build_scene<double>(read_case_file((dir / "case.toml").string()), true);
+        FAIL("no error");
+    } catch (const InputError& e) {
+        const std::string m = e.what();
+        CHECK(m.find(":7: robot.electrode[1].region: no region 'mouth'") != std::string::npos);
+        CHECK(m.find("shell, nose") != std::string::npos);
+    }
+    fs::remove_all(dir);
+}
+
+TEST_CASE("scene builder: object materials become interfaces and electrodes") {
+    const std::string text = kFish + sphere_object("stone", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"insulator\"") +
+                             sphere_object("ball", "[\"0 cm\", \"-5 cm\", \"0 cm\"]", "5 mm", "\"conductor\"") +
+                             sphere_object("snail", "[\"3 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"0.2 S/m\"") +
+                             sphere_object("egg", "[\"-3 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"0.5 S/m\"") +
+                             "membrane_resistance = \"0.1 ohm*m^2\"\n";
+    const Scene<double> scene = build_scene<double>(spec_of(text), true);
+    REQUIRE(scene.surfaces.size() == 5);
+    const Surface<double>& stone = scene.surfaces[1];
+    CHECK(stone.mesh.name == "stone");
+    CHECK(stone.kind == InterfaceKind::sealed);
+    CHECK(std::count(stone.panel_electrode.begin(), stone.panel_electrode.end(), -1) ==
+          static_cast<long>(stone.mesh.size()));
+    const Surface<double>& ball = scene.surfaces[2];
+    CHECK(ball.kind == InterfaceKind::sealed);
+    REQUIRE(scene.electrodes.size() == 1);
+    CHECK(scene.electrodes[0].name == "object:ball");
+    CHECK(is_object_electrode(scene.electrodes[0].name));
+    CHECK(!is_object_electrode("ball"));
+    CHECK(scene.electrodes[0].drive == ElectrodeDrive::floating);
+    CHECK(std::count(ball.panel_electrode.begin(), ball.panel_electrode.end(), 0) ==
+          static_cast<long>(ball.mesh.size()));
+    // the sphere of 5 mm radius is centred where the case puts it
+    CHECK(max_coordinate(ball.mesh, 1) + min_coordinate(ball.mesh, 1) == doctest::Approx(-0.1));
+    CHECK(scene.surfaces[3].kind == InterfaceKind::contact);
+    CHECK(scene.surfaces[3].inner_conductivity == doctest::Approx(0.2));
+    CHECK(scene.surfaces[4].kind == InterfaceKind::membrane);
+    CHECK(scene.surfaces[4].inner_conductivity == doctest::Approx(0.5));
+    CHECK(scene.surfaces[4].membrane_resistance == doctest::Approx(0.1));
+
+    // the baseline leaves the objects and their electrodes out
+    const Scene<double> baseline = build_scene<double>(spec_of(text), false);
+    CHECK(baseline.surfaces.size() == 1);
+    CHECK(baseline.electrodes.empty());
+}
+
+TEST_CASE("scene builder: complex conductivities at a frequency") {
+    const std::string membrane = sphere_object("cell", "[\"0 cm\", \"4 cm\", \"0 cm\"]", "5 mm", "\"0.5 S/m\"") +
+                                 "permittivity = 60\nmembrane_resistance = \"0.1 ohm*m^2\"\n"
+                                 "membrane_capacitance = \"1 uF/cm^2\"\n";
+    std::string text = "frequency = \"100 Hz\"\n" + kFish + membrane;
+    text.insert(text.find("[mesh]"), "permittivity = 80\n");
+    const CaseSpec spec = spec_of(text);
+    CHECK(case_needs_complex(spec));
+    const Scene<Complex> scene = build_scene<Complex>(spec, true);
+    const double omega = 2 * M_PI * 100.0;
+    // water: sigma + i omega eps0 eps_r
+    CHECK(scene.water_conductivity.real() == doctest::Approx(1e-2));
+    CHECK(scene.water_conductivity.imag() == doctest::Approx(omega * kEps0 * 80));
+    const Surface<Complex>& cell = scene.surfaces[1];
+    CHECK(cell.inner_conductivity.imag() == doctest::Approx(omega * kEps0 * 60));
+    // membrane: 1 / (1/rho + i omega C) with rho = 0.1 ohm m^2, C = 1e-2 F/m^2
+    const double g = 10.0, b = omega * 1e-2;
+    CHECK(cell.membrane_resistance.real() == doctest::Approx(g / (g * g + b * b)));
+    CHECK(cell.membrane_resistance.imag() == doctest::Approx(-b / (g * g + b * b)));
+    // the same case cannot be built in real arithmetic, and the message says why
+    const std::string m = build_error<double>(text);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[water]")) + ": water.permittivity:", 0) == 0);
+    CHECK(m.find("complex") != std::string::npos);
+
+    // no frequency: direct current, permittivities carry nothing
+    std::string dc = kFish + membrane;
+    CHECK(!case_needs_complex(spec_of(dc)));
+    const Scene<double> real_scene = build_scene<double>(spec_of(dc), true);
+    CHECK(real_scene.surfaces[1].membrane_resistance == doctest::Approx(0.1));
+    // a frequency without any permittivity or capacitance: still real
+    CHECK(!case_needs_complex(spec_of("frequency = \"1 kHz\"\n" + kFish)));
+    // the skin capacitance alone makes it complex
+    std::string skin = "frequency = \"1 kHz\"\n" + kFish;
+    skin.insert(skin.find("[fish.organ]"), "skin_capacitance = \"1 uF/cm^2\"\n");
+    CHECK(case_needs_complex(spec_of(skin)));
+    CHECK(build_error<double>(skin).rfind(
+              "case.toml:" + std::to_string(line_with(skin, "[fish]")) + ": fish.skin_capacitance:", 0) == 0);
+    // a real case may be built in complex arithmetic: zero imaginary parts
+    const Scene<Complex> widened = build_scene<Complex>(spec_of(dc), true);
+    CHECK(widened.surfaces[1].membrane_resistance == Complex(0.1, 0.0));
+}
+
+TEST_CASE("scene builder: surfaces that touch, intersect or nest are refused") {
+    // the prey sphere cuts into the fish's flank (half width 7.5 mm at 0.3 of the length)
+    std::string text = kFish + sphere_object("prey", "[\"3 cm\", \"8 mm\", \"0 cm\"]", "3 mm", "\"0.5 S/m\"");
+    std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[object]]")) + ": object[1]:", 0) == 0);
+    CHECK(m.find("'fish'") != std::string::npos);
+    CHECK(m.find("'prey'") != std::string::npos);
+    // a sphere inside the fish
+    text = kFish + sphere_object("pebble", "[\"0 cm\", \"0 cm\", \"0 cm\"]", "2 mm", "\"insulator\"");
+    m = build_error(text);
+    CHECK(m.find("surface 'pebble' lies inside surface 'fish'") != std::string::npos);
+    // two objects overlapping each other, both clear of the fish
+    text = kFish + sphere_object("a", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"insulator\"") +
+           sphere_object("b", "[\"0 cm\", \"5.8 cm\", \"0 cm\"]", "5 mm", "\"insulator\"");
+    m = build_error(text);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[object]]", 2)) + ": object[2]:", 0) == 0);
+    CHECK(m.find("'a'") != std::string::npos);
+    CHECK(m.find("'b'") != std::string::npos);
+    // the baseline scene has no objects, so nothing to refuse
+    CHECK(build_error(text, false).empty());
+}
+
+TEST_CASE("scene builder: everything must lie in the water") {
+    // the water surface 1 cm above the axis cuts the fish (half height 11.7 mm)
+    std::string text = kFish;
+    text.insert(text.find("[mesh]"), "surface_z = \"1 cm\"\n");
+    std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[fish]")) + ": fish: the fish reaches", 0) == 0);
+    CHECK(m.find("above the water surface") != std::string::npos);
+    // an object below the bottom
+    text = kFish + sphere_object("stone", "[\"0 cm\", \"5 cm\", \"-6 cm\"]", "5 mm", "\"insulator\"");
+    text.insert(text.find("[mesh]"), "bottom_z = \"-5 cm\"\n");
+    m = build_error(text);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[object]]")) + ": object[1]: object 'stone'", 0) ==
+          0);
+    CHECK(m.find("below the bottom") != std::string::npos);
+    // both clear: the plane is in the scene with its normal out of the water
+    text = kFish + sphere_object("stone", "[\"0 cm\", \"5 cm\", \"-3 cm\"]", "5 mm", "\"insulator\"");
+    text.insert(text.find("[mesh]"), "bottom_z = \"-5 cm\"\n");
+    const Scene<double> scene = build_scene<double>(spec_of(text), true);
+    REQUIRE(scene.plane);
+    CHECK(scene.plane->point.z() == doctest::Approx(-0.05));
+    CHECK(scene.plane->normal.z() == doctest::Approx(-1.0));
+}
+
+TEST_CASE("scene builder: panel sizes, imported meshes and accuracy switches") {
+    std::string text = kFish;
+    text.erase(text.find("[mesh]"), std::string("[mesh]\npanel_size = \"8 mm\"\n").size());
+    text += sphere_object("small", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "2 mm", "\"insulator\"");
+    text += sphere_object("large", "[\"0 cm\", \"-8 cm\", \"0 cm\"]", "3 cm", "\"insulator\"") +
+            "panel_size = \"2 cm\"\n";
+    const CaseSpec spec = spec_of(text);
+    CHECK(body_panel_size(spec) == doctest::Approx(0.15 / 30));                  // length / 30
+    CHECK(object_panel_size(spec, spec.objects[0]) == doctest::Approx(1e-3));    // half its radius
+    CHECK(object_panel_size(spec, spec.objects[1]) == doctest::Approx(0.02));    // its own
+    const QuadratureOptions q = quadrature_options(spec_of(kFish + "") );
+    CHECK(q.near_ratio == 3.0);
+    CHECK(q.far_ratio == 10.0);
+
+    // an STL object in millimetres, found next to the case file and scaled to metres
+    const fs::path dir = fs::temp_directory_path() / "murk_test_scene_builder_stl";
+    fs::create_directories(dir);
+    write_stl((dir / "pebble.stl").string(), make_sphere(4.0, 2.0));  // radius 4 (mm)
+    const std::string stl_case =
+        kFish + "[[object]]\nname = \"pebble\"\nshape = \"mesh\"\nfile = \"pebble.stl\"\nscale = \"1 mm\"\n"
+                "position = [\"0 cm\", \"4 cm\", \"0 cm\"]\nconductivity = \"insulator\"\n";
+    { std::ofstream(dir / "case.toml") << stl_case; }
+    const Scene<double> scene = build_scene<double>(read_case_file((dir / "case.toml").string()), true);
+    const TriangleMesh& pebble = scene.surfaces[1].mesh;
+    // every vertex 4 mm from (0, 4 cm, 0), or slightly more: the generator moves
+    // vertices outward by a few percent at most to keep the sphere's volume
+    for (const Vec3& v : pebble.vertices) {
+        const double r = (v - Vec3(0.0, 0.04, 0.0)).norm();
+        CHECK(r > 0.004 * (1 - 1e-6));
+        CHECK(r < 0.004 * 1.03);
+    }
+    fs::remove_all(dir);
+}
+
+TEST_CASE("scene builder: object orientation turns the polar axis") {
+    // a spheroid with a 1 cm polar radius along its x axis, turned to world y by heading 90 deg
+    const std::string text = kFish + "[[object]]\nname = \"seed\"\nshape = \"spheroid\"\npolar_radius = \"1 cm\"\n"
+                                     "equatorial_radius = \"3 mm\"\nheading = \"90 deg\"\n"
+                                     "position = [\"0 cm\", \"6 cm\", \"0 cm\"]\nconductivity = \"insulator\"\n";
+    const Scene<double> scene = build_scene<double>(spec_of(text), true);
+    const TriangleMesh& seed = scene.surfaces[1].mesh;
+    // extents: 2 cm along y, 6 mm along x and z (volume rescaling moves them by a few percent at most)
+    CHECK(max_coordinate(seed, 1) - min_coordinate(seed, 1) == doctest::Approx(0.02).epsilon(0.05));
+    CHECK(max_coordinate(seed, 0) - min_coordinate(seed, 0) == doctest::Approx(0.006).epsilon(0.05));
+    CHECK(max_coordinate(seed, 2) - min_coordinate(seed, 2) == doctest::Approx(0.006).epsilon(0.05));
+}

@@ -1,0 +1,33 @@
+#pragma once
+// The subcommands of the murk program, each in its own file. main.cpp (the only
+// file that sees CLI11) parses the command line into these plain option structs.
+// Each returns the process exit status: 0 success, 1 failure while running
+// (or a failed check), 2 bad input.
+#include <string>
+#include <vector>
+
+namespace murk::cli {
+
+struct VerifyArgs {
+    bool quick = false;
+    double near_ratio = 3.0, far_ratio = 10.0;
+};
+int verify_command(const VerifyArgs& args);
+
+struct SolveArgs {
+    std::string case_path;
+    std::string output_path;
+    bool force = false;
+    bool quiet = false;
+    int threads = 0;  // 0: OpenMP's default
+};
+int solve_command(const SolveArgs& args, const std::string& command_line);
+
+struct MeshArgs {
+    std::string input;       // a mesh file (STL, MSH) or a case file (TOML)
+    std::string convert_to;  // optional output mesh (STL or VTK), empty for none
+    double scale = 1.0;      // file units to metres for mesh files
+};
+int mesh_command(const MeshArgs& args);
+
+}  // namespace murk::cli

@@ -1,0 +1,69 @@
+// The murk command line: parses arguments (the only file that includes CLI11,
+// which is slow to compile) and hands each subcommand a plain options struct.
+#include "geometry/input_error.hpp"
+#include "tools/murk/commands.hpp"
+
+#include <CLI/CLI.hpp>
+#include <cstdio>
+#include <exception>
+
+namespace {
+
+std::string joined(int argc, char** argv) {
+    std::string s;
+    for (int i = 0; i < argc; ++i) s += (i ? " " : "") + std::string(argv[i]);
+    return s;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+    CLI::App app{"murk: near-field electrosensing by boundary elements"};
+    app.require_subcommand(1);
+
+    murk::cli::VerifyArgs verify;
+    auto* verify_cmd = app.add_subcommand("verify", "compare murk with exact solutions; ends with 'N passed, M failed'");
+    verify_cmd->add_flag("--quick", verify.quick, "coarse meshes, no refinement study (a few seconds)");
+    verify_cmd->add_option("--near-ratio", verify.near_ratio, "closed-form integrals below this distance/panel size")
+        ->check(CLI::PositiveNumber);
+    verify_cmd->add_option("--far-ratio", verify.far_ratio, "centroid rule beyond this distance/panel size")
+        ->check(CLI::PositiveNumber);
+
+    murk::cli::SolveArgs solve;
+    auto* solve_cmd = app.add_subcommand("solve", "solve one configuration of a case: baseline, with objects, difference");
+    solve_cmd->add_option("case", solve.case_path, "case file (TOML)")->required();
+    solve_cmd->add_option("-o,--output", solve.output_path, "result file (HDF5)")->required();
+    solve_cmd->add_flag("--force", solve.force, "replace an existing result file");
+    solve_cmd->add_flag("--quiet", solve.quiet, "print nothing but errors");
+    solve_cmd->add_option("--threads", solve.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+
+    murk::cli::MeshArgs mesh;
+    auto* mesh_cmd = app.add_subcommand("mesh", "mesh statistics and quality report; conversion to STL or VTK");
+    mesh_cmd->add_option("input", mesh.input, "mesh file (.stl, .msh) or case file (.toml)")->required();
+    mesh_cmd->add_option("--convert", mesh.convert_to, "write the mesh to this file (.stl or .vtk)");
+    mesh_cmd->add_option("--scale", mesh.scale, "file units to metres for mesh files (e.g. 0.001 for mm)")
+        ->check(CLI::PositiveNumber);
+
+    try {
+        app.parse(argc, argv);
+    } catch (const CLI::ParseError& e) {
+        const int code = app.exit(e);
+        return code == 0 ? 0 : 2;
+    }
+
+    try {
+        if (*verify_cmd) return murk::cli::verify_command(verify);
+        if (*solve_cmd) return murk::cli::solve_command(solve, joined(argc, argv));
+        if (*mesh_cmd) return murk::cli::mesh_command(mesh);
+    } catch (const murk::InputError& e) {
+        std::fprintf(stderr, "murk: %s\n", e.what());
+        return 2;
+    } catch (const std::bad_alloc&) {
+        std::fprintf(stderr, "murk: out of memory (try a coarser mesh: a larger panel_size)\n");
+        return 1;
+    } catch (const std::exception& e) {
+        std::fprintf(stderr, "murk: failed: %s\n", e.what());
+        return 1;
+    }
+    return 0;
+}

@@ -1,0 +1,126 @@
+// `murk solve CASE -o OUT.h5`: one configuration of a case, in named stages:
+// read the case, build the scenes (baseline without objects, and with them),
+// assemble, solve, write, summarize.
+#include "cases/case_reader.hpp"
+#include "cases/result_metadata.hpp"
+#include "cases/scene_builder.hpp"
+#include "cases/solve_output.hpp"
+#include "solver/bem_system.hpp"
+#include "tools/murk/commands.hpp"
+
+#include <omp.h>
+
+#include <chrono>
+#include <cstdio>
+
+namespace murk::cli {
+
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double seconds_since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+
+double magnitude(double v) { return std::abs(v); }
+double magnitude(const Complex& v) { return std::abs(v); }
+
+struct StageTimes { double assemble = 0, solve = 0; };
+
+template <class S>
+Solution<S> solve_timed(const Scene<S>& scene, const QuadratureOptions& quad, StageTimes& times) {
+    auto t = Clock::now();
+    LinearSystem<S> system = assemble_system(scene, quad);
+    times.assemble += seconds_since(t);
+    t = Clock::now();
+    const VectorX<S> x = solve_dense(system);
+    times.solve += seconds_since(t);
+    return unpack_solution(scene, system.layout, x);
+}
+
+const char* kind_name(InterfaceKind k) {
+    switch (k) {
+        case InterfaceKind::contact: return "contact";
+        case InterfaceKind::membrane: return "membrane (skin)";
+        case InterfaceKind::sealed: return "sealed (insulating / electrodes)";
+    }
+    return "";
+}
+
+template <class S>
+void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const StageTimes& base, const StageTimes& pert,
+                   std::size_t unknowns) {
+    std::printf("case: %s (%s)\n", spec.title.c_str(), spec.path.c_str());
+    for (const auto& s : solved.perturbed.surfaces)
+        std::printf("  surface %-16s %6zu panels, %s\n", s.mesh.name.c_str(), s.mesh.size(), kind_name(s.kind));
+    std::printf("arithmetic: %s; %zu unknowns with objects\n",
+                std::is_same_v<S, double> ? "real (direct current or no capacitance)" : "complex", unknowns);
+    std::printf("time: baseline assemble %.2f s, solve %.2f s; with objects assemble %.2f s, solve %.2f s\n",
+                base.assemble, base.solve, pert.assemble, pert.solve);
+    const Surface<S>& body = solved.baseline.surfaces[0];
+    if (body.kind == InterfaceKind::membrane) {
+        const auto& before = solved.baseline_solution.surfaces[0];
+        const auto& after = solved.perturbed_solution.surfaces[0];
+        double lo = 1e300, hi = 0, peak = 0;
+        std::size_t at = 0;
+        for (Eigen::Index k = 0; k < before.outer_potential.size(); ++k) {
+            const double v = magnitude(before.inner_potential(k) - before.outer_potential(k));
+            lo = std::min(lo, v), hi = std::max(hi, v);
+            const double d = magnitude((after.inner_potential(k) - after.outer_potential(k)) -
+                                       (before.inner_potential(k) - before.outer_potential(k)));
+            if (d > peak) peak = d, at = static_cast<std::size_t>(k);
+        }
+        const Vec3 c = body.mesh.centroid(at);
+        std::printf("baseline transdermal voltage |V|: %.4g .. %.4g V over the skin\n", lo, hi);
+        std::printf("electric image: peak |change| %.4g V at panel %zu (%.4g, %.4g, %.4g) m\n", peak, at, c.x(), c.y(),
+                    c.z());
+    }
+    for (std::size_t e = 0; e < solved.baseline.electrodes.size(); ++e)
+        std::printf("electrode %-12s baseline %.6g V %.6g A; change %.4g V %.4g A\n",
+                    solved.baseline.electrodes[e].name.c_str(),
+                    magnitude(solved.baseline_solution.electrode_potential[e]),
+                    magnitude(solved.baseline_solution.electrode_current[e]),
+                    magnitude(solved.perturbed_solution.electrode_potential[e] - solved.baseline_solution.electrode_potential[e]),
+                    magnitude(solved.perturbed_solution.electrode_current[e] - solved.baseline_solution.electrode_current[e]));
+}
+
+template <class S>
+int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& command_line) {
+    // Refuse an existing result before spending time on the solve.
+    H5Output output(args.output_path, args.force, "pass --force to replace it");
+    const QuadratureOptions quad = quadrature_options(spec);
+
+    SolvedCase<S> solved;
+    solved.baseline = build_scene<S>(spec, false);
+    solved.perturbed = build_scene<S>(spec, true);
+    if (!args.quiet)
+        std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
+                    quad.near_ratio, quad.far_ratio);
+
+    StageTimes base, pert;
+    solved.baseline_solution = solve_timed(solved.baseline, quad, base);
+    solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
+
+    write_result_metadata(output.root(), spec, command_line,
+                          "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
+    write_solve_result(output.root(), solved);
+    output.commit();
+
+    if (!args.quiet) {
+        std::size_t unknowns = 0;
+        for (const auto& s : solved.perturbed.surfaces)
+            unknowns += (s.kind == InterfaceKind::sealed ? 1 : 2) * s.mesh.size();
+        print_summary(spec, solved, base, pert, unknowns + solved.perturbed.electrodes.size());
+        std::printf("wrote %s\n", args.output_path.c_str());
+    }
+    return 0;
+}
+
+}  // namespace
+
+int solve_command(const SolveArgs& args, const std::string& command_line) {
+    if (args.threads > 0) omp_set_num_threads(args.threads);
+    const CaseSpec spec = read_case_file(args.case_path);
+    return case_needs_complex(spec) ? solve_case<Complex>(spec, args, command_line)
+                                    : solve_case<double>(spec, args, command_line);
+}
+
+}  // namespace murk::cli

@@ -1,0 +1,34 @@
+#include "verify/exact_solutions.hpp"
+
+#include <cmath>
+
+namespace murk::exact {
+
+template <class S>
+S sphere_point_source_perturbation(double a, double d, S sigma_in, S sigma_out, S current) {
+    S sum = 0;
+    const double ratio = (a / d) * (a / d);
+    double power = a / (d * d);  // a^(2n+1) / d^(2n+2) at n = 0
+    for (int n = 1; n < 100000; ++n) {
+        power *= ratio;
+        const S term = double(n) * (sigma_out - sigma_in) / (double(n) * sigma_in + double(n + 1) * sigma_out) * power;
+        sum += term;
+        if (std::abs(term) < 1e-16 * std::abs(sum)) break;
+    }
+    return current / (4.0 * M_PI * sigma_out) * sum;
+}
+
+template double sphere_point_source_perturbation(double, double, double, double, double);
+template Complex sphere_point_source_perturbation(double, double, Complex, Complex, Complex);
+
+double spheroid_axial_depolarization(double polar, double equatorial) {
+    if (std::abs(polar - equatorial) < 1e-12 * polar) return 1.0 / 3.0;
+    if (polar > equatorial) {  // prolate
+        const double e = std::sqrt(1.0 - (equatorial * equatorial) / (polar * polar));
+        return (1.0 - e * e) / (e * e * e) * (std::atanh(e) - e);
+    }
+    const double e = std::sqrt((equatorial * equatorial) / (polar * polar) - 1.0);  // oblate
+    return (1.0 + e * e) / (e * e * e) * (e - std::atan(e));
+}
+
+}  // namespace murk::exact
