@@ -75,4 +75,13 @@ VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution,
                         const Eigen::Matrix3Xd& points, const QuadratureOptions& options,
                         bool induced_only = false);
 
+// Electric field E = -grad phi (V/m) at arbitrary points off the surfaces. The
+// incident part (sources, uniform field) is differentiated exactly; the part the
+// surfaces add is differentiated by centred differences of potential_at with a
+// step of 1e-3 times the distance to the nearest panel centroid, which keeps the
+// truncation error near 1e-6 of that part. Points must not lie on a surface.
+template <class S>
+Eigen::Matrix<S, 3, Eigen::Dynamic> field_at(const Scene<S>& scene, const Solution<S>& solution,
+                                             const Eigen::Matrix3Xd& points, const QuadratureOptions& options);
+
 }  // namespace murk

@@ -9,4 +9,6 @@ template Solution<Complex> solve_scene(const Scene<Complex>&, const QuadratureOp
 template int enclosing_surface(const Scene<Complex>&, const Vec3&);
 template VectorX<Complex> potential_at(const Scene<Complex>&, const Solution<Complex>&, const Eigen::Matrix3Xd&,
                                   const QuadratureOptions&, bool);
+template Eigen::Matrix<Complex, 3, Eigen::Dynamic> field_at(const Scene<Complex>&, const Solution<Complex>&,
+                                                      const Eigen::Matrix3Xd&, const QuadratureOptions&);
 }  // namespace murk

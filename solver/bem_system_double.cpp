@@ -9,4 +9,6 @@ template Solution<double> solve_scene(const Scene<double>&, const QuadratureOpti
 template int enclosing_surface(const Scene<double>&, const Vec3&);
 template VectorX<double> potential_at(const Scene<double>&, const Solution<double>&, const Eigen::Matrix3Xd&,
                                   const QuadratureOptions&, bool);
+template Eigen::Matrix<double, 3, Eigen::Dynamic> field_at(const Scene<double>&, const Solution<double>&,
+                                                      const Eigen::Matrix3Xd&, const QuadratureOptions&);
 }  // namespace murk

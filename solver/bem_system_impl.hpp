@@ -11,6 +11,7 @@
 
 #include <Eigen/LU>
 #include <cmath>
+#include <limits>
 #include <string>
 
 namespace murk {
@@ -360,6 +361,46 @@ VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, cons
         }
     }
     return phi;
+}
+
+template <class S>
+Eigen::Matrix<S, 3, Eigen::Dynamic> field_at(const Scene<S>& scene, const Solution<S>& solution,
+                                             const Eigen::Matrix3Xd& points, const QuadratureOptions& options) {
+    const Eigen::Index m = points.cols();
+    const std::vector<int> source_region = source_regions(scene);
+    const IncidentField<S> incident = water_incident_field(scene, source_region);
+    // Six displaced copies of every point: +-step along x, y, z.
+    Eigen::Matrix3Xd displaced(3, 6 * m);
+    Eigen::VectorXd step(m);
+    for (Eigen::Index i = 0; i < m; ++i) {
+        const Vec3 x = points.col(i);
+        double nearest = std::numeric_limits<double>::infinity();
+        for (const auto& surface : scene.surfaces)
+            for (std::size_t t = 0; t < surface.mesh.size(); ++t)
+                nearest = std::min(nearest, (surface.mesh.centroid(t) - x).norm());
+        step(i) = 1e-3 * nearest;
+        for (int axis = 0; axis < 3; ++axis) {
+            displaced.col(6 * i + 2 * axis) = x + step(i) * Vec3::Unit(axis);
+            displaced.col(6 * i + 2 * axis + 1) = x - step(i) * Vec3::Unit(axis);
+        }
+    }
+    // Water points: surfaces' part only (the incident part is exact below);
+    // interior points: the whole interior potential.
+    std::vector<int> region(m);
+    for (Eigen::Index i = 0; i < m; ++i) region[i] = enclosing_surface(scene, points.col(i));
+    const VectorX<S> induced = potential_at(scene, solution, displaced, options, true);
+    const VectorX<S> total = potential_at(scene, solution, displaced, options, false);
+    Eigen::Matrix<S, 3, Eigen::Dynamic> field(3, m);
+    for (Eigen::Index i = 0; i < m; ++i) {
+        const VectorX<S>& phi = region[i] < 0 ? induced : total;
+        for (int axis = 0; axis < 3; ++axis) {
+            const S derivative = (phi(6 * i + 2 * axis) - phi(6 * i + 2 * axis + 1)) / (2.0 * step(i));
+            const S incident_derivative =
+                region[i] < 0 ? incident.normal_derivative(points.col(i), Vec3::Unit(axis)) : S(0);
+            field(axis, i) = -(derivative + incident_derivative);
+        }
+    }
+    return field;
 }
 
 }  // namespace murk

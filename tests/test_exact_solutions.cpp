@@ -1,0 +1,52 @@
+// The reference formulas of murk verify, checked against independent values:
+// limits, sums rules and tabulated numbers.
+#include "verify/exact_solutions.hpp"
+
+#include <doctest/doctest.h>
+
+#include <cmath>
+
+using namespace murk::exact;
+
+TEST_CASE("depolarization factors: sphere limit, sum rule and tabulated values") {
+    // Sphere: 1/3 each (Osborn 1945). Sum rule L_axial + 2 L_transverse = 1 holds by construction.
+    CHECK(spheroid_axial_depolarization(1.0, 1.0) == doctest::Approx(1.0 / 3));
+    CHECK(spheroid_axial_depolarization(1.0 + 1e-6, 1.0) == doctest::Approx(1.0 / 3).epsilon(1e-5));
+    CHECK(spheroid_axial_depolarization(1.0 - 1e-6, 1.0) == doctest::Approx(1.0 / 3).epsilon(1e-5));
+    // Prolate, aspect ratio 2: L = 0.1736; oblate, aspect ratio 2 (polar half): L = 0.5272
+    // (from memory; Osborn 1945 tabulates the same functions).
+    CHECK(spheroid_axial_depolarization(2.0, 1.0) == doctest::Approx(0.1736).epsilon(1e-3));
+    CHECK(spheroid_axial_depolarization(1.0, 2.0) == doctest::Approx(0.5272).epsilon(1e-3));
+    // Needle and disc limits: L -> 0 and L -> 1.
+    CHECK(spheroid_axial_depolarization(1000.0, 1.0) < 1e-4);
+    CHECK(spheroid_axial_depolarization(1.0, 1000.0) > 0.998);
+}
+
+TEST_CASE("ellipsoid polarizability of a sphere equals the Clausius-Mossotti form") {
+    // L = 1/3: V (s_in - s_out) / (s_out + (s_in - s_out)/3) = 4 pi a^3 K.
+    const double a = 0.01, V = 4.0 / 3 * M_PI * a * a * a;
+    CHECK(ellipsoid_polarizability(V, 1.0 / 3, 3.0, 1.0) ==
+          doctest::Approx(4 * M_PI * a * a * a * sphere_dipole_factor(3.0, 1.0)));
+    CHECK(sphere_dipole_factor(1e12, 1.0) == doctest::Approx(1.0).epsilon(1e-9));
+    CHECK(sphere_dipole_factor(0.0, 1.0) == doctest::Approx(-0.5));
+}
+
+TEST_CASE("the point-source series tends to its dipole term far away and falls as d^-4") {
+    // Leading term n = 1: (s_out - s_in)/(s_in + 2 s_out) a^3 / d^4 times I / (4 pi s_out).
+    const double a = 0.01, s_in = 0.1, s_out = 0.01, I = 1e-3;
+    const double d = 100 * a;
+    const double dipole = I / (4 * M_PI * s_out) * (s_out - s_in) / (s_in + 2 * s_out) * std::pow(a, 3) / std::pow(d, 4);
+    CHECK(sphere_point_source_perturbation(a, d, s_in, s_out, I) == doctest::Approx(dipole).epsilon(1e-3));
+    const double slope = std::log(sphere_point_source_perturbation(a, 64 * a, s_in, s_out, I) /
+                                  sphere_point_source_perturbation(a, 32 * a, s_in, s_out, I)) / std::log(2.0);
+    CHECK(slope == doctest::Approx(-4.0).epsilon(1e-3));
+    // An insulating sphere deflects current the other way.
+    CHECK(sphere_point_source_perturbation(a, 3 * a, 0.0, s_out, I) > 0);
+}
+
+TEST_CASE("Schwan's equation: impermeable-membrane limit 1.5 E R") {
+    // Schwan's classic result for a non-conducting membrane (Kotnik et al. 1997, eq. for G_m -> 0).
+    CHECK(membrane_voltage_amplitude(100.0, 1e-5, 1e12, 0.3, 1.0) == doctest::Approx(1.5 * 100.0 * 1e-5).epsilon(1e-9));
+    // Leaky membrane: lower than the limit.
+    CHECK(membrane_voltage_amplitude(100.0, 1e-2, 0.1, 0.3, 1.0) < 1.5 * 100.0 * 1e-2);
+}
