@@ -314,8 +314,10 @@ std::vector<AssemblyFigures> bench_layer_blocks() {
         const Eigen::Index n = ps.size();
         const double pairs = static_cast<double>(n) * n;
         Eigen::MatrixXd single, dbl;
-        std::vector<int> thread_counts{1};
-        if (max_threads > 1) thread_counts.push_back(max_threads);
+        // One thread and all threads on the small mesh; all threads only on the large
+        // one, whose naive run takes seconds.
+        std::vector<int> thread_counts{max_threads};
+        if (level == 3 && max_threads > 1) thread_counts.insert(thread_counts.begin(), 1);
         for (int threads : thread_counts) {
             omp_set_num_threads(threads);
             auto time_it = [&](const QuadratureOptions& opt) {
@@ -515,13 +517,21 @@ SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
     std::vector<lapack_int> ipiv(static_cast<std::size_t>(n));
 #endif
     // Eigen and OpenBLAS alternate so that both see the same load on a shared machine.
+    // On a busy machine a size may take far longer than planned: after the time budget
+    // no further repetition starts (the table prints how many were made).
+    const double budget_s = 40.0;
+    const auto lu_start = Clock::now();
     for (int r = 0; r < reps; ++r) {
+        if (r > 0 && seconds_between(lu_start, Clock::now()) > budget_s) {
+            f.reps = r;
+            break;
+        }
         work = sys.matrix;
         settle();
         auto t0 = Clock::now();
         Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>> lu(work);  // in place; same algorithm as solve_dense
         t_eigen.push_back(seconds_between(t0, Clock::now()));
-        if (r == reps - 1) x_eigen = lu.solve(sys.rhs);
+        x_eigen = lu.solve(sys.rhs);  // untimed; every rep, so the last one made is kept
 #ifdef MURK_BENCH_LAPACKE
         work = sys.matrix;
         settle();
@@ -529,10 +539,8 @@ SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
         const lapack_int info = lapacke_getrf(n, work.data(), ipiv.data());
         t_blas.push_back(seconds_between(t0, Clock::now()));
         if (info != 0) std::printf("  warning: getrf returned info = %d at n = %ld\n", info, static_cast<long>(n));
-        if (r == reps - 1) {
-            x_blas = sys.rhs;
-            lapacke_getrs(n, work.data(), ipiv.data(), x_blas.data());
-        }
+        x_blas = sys.rhs;
+        lapacke_getrs(n, work.data(), ipiv.data(), x_blas.data());
 #endif
     }
     f.eigen_s = median(t_eigen);
@@ -562,8 +570,8 @@ void print_size_tables(const std::vector<SizeFigures>& all, bool have_blas) {
                 "  latitude/longitude sphere (make_capsule with zero cylinder) whose panel count is closest to\n"
                 "  half of 1k/2k/4k/8k unknowns, default QuadratureOptions, one point source in the water.\n"
                 "  LU flops: 2/3 n^3 (double), 8/3 n^3 real flops (complex). Medians; reps per row in 'reps'.\n"
-                "  'LU in place' factors a preallocated copy (the timing of the algorithm); 'solve_dense' is one\n"
-                "  call of the solver's own function (fresh copy of the matrix + LU + one solve).\n\n");
+                "  'LU s' factors a preallocated copy in place (solve_dense's algorithm, without allocation);\n"
+                "  'solve_dense s' is one call of the solver's own function (fresh copy + LU + one solve).\n\n");
     std::printf("  %-8s %7s %9s %5s %12s %15s %10s %12s %15s\n", "scalar", "panels", "unknowns", "reps",
                 "assemble s", "of it blocks s", "LU s", "LU GFLOP/s", "solve_dense s");
     for (const auto& f : all)
@@ -608,6 +616,7 @@ int main(int argc, char** argv) {
         }
     }
     const auto start = Clock::now();
+    std::setvbuf(stdout, nullptr, _IOLBF, 0);  // keep the order with the progress lines on stderr
 
     std::printf("murk-bench-core: speed of the boundary-element solver core%s\n",
                 quick ? " (--quick: small sizes only)" : "");

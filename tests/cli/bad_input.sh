@@ -1,0 +1,47 @@
+#!/usr/bin/env bash
+# Bad input gets one clear line on stderr naming the place, and exit status 2;
+# no output file appears. Usage: bad_input.sh MURK SOURCE_DIR
+set -uo pipefail
+murk="$1"; src="$2"
+dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
+failures=0
+
+# expect_bad NAME EXPECTED_TEXT COMMAND...: exit 2, one stderr line containing the text, no result file.
+expect_bad() {
+  local name="$1" text="$2"; shift 2
+  "$@" > "$dir/stdout" 2> "$dir/stderr"
+  local status=$?
+  local lines; lines=$(wc -l < "$dir/stderr")
+  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/stderr" || [ -e "$dir/out.h5" ]; then
+    echo "FAIL $name: status $status, $lines stderr lines, expected text '$text':"; cat "$dir/stderr"
+    failures=$((failures + 1))
+  else
+    echo "ok   $name: $(cat "$dir/stderr")"
+  fi
+}
+
+base="$src/cases/examples/fish_prey.toml"
+write_case() { sed "$1" "$base" > "$dir/$2"; }
+
+expect_bad "missing case file" "no_such.toml" "$murk" solve "$dir/no_such.toml" -o "$dir/out.h5"
+write_case 's/^conductivity = "100 uS\/cm"/conductivity = "100 mA"/' wrong_unit.toml
+expect_bad "wrong dimension" "water.conductivity" "$murk" solve "$dir/wrong_unit.toml" -o "$dir/out.h5"
+write_case 's/^conductivity = "100 uS\/cm"/conductivity = "100"/' no_unit.toml
+expect_bad "number without unit" "water.conductivity" "$murk" solve "$dir/no_unit.toml" -o "$dir/out.h5"
+write_case 's/^length = "15 cm"/length = "15 cm"\ncolour = "blue"/' unknown_key.toml
+expect_bad "unknown key" "colour" "$murk" solve "$dir/unknown_key.toml" -o "$dir/out.h5"
+write_case 's/^radius = "3 mm"/radius = "-3 mm"/' negative.toml
+expect_bad "negative radius" "radius" "$murk" solve "$dir/negative.toml" -o "$dir/out.h5"
+write_case 's/^position = \["3 cm", "3.05 cm", "0 cm"\]/position = ["3 cm", "0.5 cm", "0 cm"]/' overlap.toml
+expect_bad "object touching the body" "prey" "$murk" solve "$dir/overlap.toml" -o "$dir/out.h5"
+write_case 's/^title = .*/title = 5/' bad_toml.toml
+expect_bad "wrong type" "title" "$murk" solve "$dir/bad_toml.toml" -o "$dir/out.h5"
+printf 'title = "x"\n[water\n' > "$dir/syntax.toml"
+expect_bad "TOML syntax error" "syntax.toml:2" "$murk" solve "$dir/syntax.toml" -o "$dir/out.h5"
+expect_bad "output folder missing" "no_such_dir" "$murk" solve "$base" -o "$dir/no_such_dir/out.h5"
+printf 'solid x\nfacet normal 0 0 1\n outer loop\n vertex 0 0 0\n vertex 1 0 0\n endloop\nendfacet\nendsolid\n' > "$dir/broken.stl"
+expect_bad "broken STL" "broken.stl" "$murk" mesh "$dir/broken.stl"
+expect_bad "unknown subcommand" "subcommand" "$murk" frobnicate
+expect_bad "unknown option" "--colour" "$murk" solve "$base" -o "$dir/out.h5" --colour
+
+[ "$failures" -eq 0 ] || { echo "$failures bad-input cases misbehaved"; exit 1; }
