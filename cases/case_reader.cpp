@@ -354,15 +354,36 @@ std::vector<ProfileStation> read_profile(const Section& sec, const toml::node& n
     return stations;
 }
 
-// Checks that the weights describe a current that sums to zero (the organ
-// neither gains nor loses charge) and are not all zero.
-void check_organ_weights(const Section& sec, const std::vector<double>& w) {
+// A whole number from lo to hi (a count of points).
+int read_count(const Section& sec, const std::string& key, const toml::node& n, int lo, int hi) {
+    if (!n.is_integer() || n.as_integer()->get() < lo || n.as_integer()->get() > hi)
+        fail(sec.where(key), "expected a whole number from " + std::to_string(lo) + " to " + std::to_string(hi) +
+                                 ", got " + describe(n));
+    return static_cast<int>(n.as_integer()->get());
+}
+
+// The `weights` of a line of point sources (the organ or a [[source]] line): at
+// least two numbers, not all zero, summing to zero so that the points' currents
+// cancel (a distribution that neither gains nor loses charge).
+std::vector<double> read_weights(const Section& sec) {
+    const toml::node& n = *sec.find("weights");
+    const toml::array* arr = n.as_array();
+    if (!arr || arr->size() < 2)
+        fail(sec.where("weights"), "expected an array of at least 2 numbers, got " +
+                                       (arr ? "an array of " + std::to_string(arr->size()) : describe(n)));
+    std::vector<double> w;
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+        const toml::node& e = *arr->get(i);
+        w.push_back(quantity_at(at(sec.ctx, line_of(e), sec.key_path("weights[" + std::to_string(i + 1) + "]")), e,
+                                Dimension::dimensionless));
+    }
     double sum = 0.0, total = 0.0;
     for (double x : w) sum += x, total += std::abs(x);
     if (!(total > 0.0)) fail(sec.where("weights"), "the weights are all zero");
     if (std::abs(sum) > 1e-9 * total)
-        fail(sec.where("weights"), "the weights must sum to zero (the organ's total current vanishes), got a sum of " +
+        fail(sec.where("weights"), "the weights must sum to zero (the points' currents cancel), got a sum of " +
                                        format_number(sum));
+    return w;
 }
 
 OrganSpec read_organ(const Section& sec) {
@@ -384,17 +405,7 @@ OrganSpec read_organ(const Section& sec) {
         fail(sec.where("weights"), "give either distribution or weights, not both");
     if (weights) {
         if (points) fail(sec.where("points"), "not used with weights: there is one point per weight");
-        const toml::array* arr = weights->as_array();
-        if (!arr || arr->size() < 2)
-            fail(sec.where("weights"), "expected an array of at least 2 numbers, got " +
-                                           (arr ? "an array of " + std::to_string(arr->size()) : describe(*weights)));
-        for (std::size_t i = 0; i < arr->size(); ++i) {
-            const toml::node& e = *arr->get(i);
-            o.weights.push_back(quantity_at(
-                at(sec.ctx, line_of(e), sec.key_path("weights[" + std::to_string(i + 1) + "]")), e,
-                Dimension::dimensionless));
-        }
-        check_organ_weights(sec, o.weights);
+        o.weights = read_weights(sec);
         o.profile = OrganProfile::weights;
         o.points = static_cast<int>(o.weights.size());
     } else {
@@ -407,9 +418,7 @@ OrganSpec read_organ(const Section& sec) {
             if (points) fail(sec.where("points"), "not used with the dipole distribution (always 2 points)");
             o.points = 2;
         } else if (points) {
-            if (!points->is_integer() || points->as_integer()->get() < 2 || points->as_integer()->get() > 1000)
-                fail(sec.where("points"), "expected a whole number from 2 to 1000, got " + describe(*points));
-            o.points = static_cast<int>(points->as_integer()->get());
+            o.points = read_count(sec, "points", *points, 2, 1000);
         }
     }
     o.peak_current_A = required_positive(sec, "current", Dimension::current);
@@ -555,9 +564,161 @@ ObjectSpec read_object(const Section& sec, std::size_t index) {
     return o;
 }
 
+// ---- free sources and probes ---------------------------------------------------
+
+// A current that is not zero: a zero source is almost surely a slip.
+double nonzero_current(const Section& sec, const std::string& key, const std::string& hint) {
+    const toml::node& n = required(sec, key, hint);
+    const double v = read_quantity(sec, key, n, Dimension::current);
+    if (v == 0.0) fail(sec.where(key), "must not be zero, got " + describe(n));
+    return v;
+}
+
+// The two ends of a line (from, to), which must differ.
+void read_ends(const Section& sec, Point3& from, Point3& to) {
+    from = read_lengths3(sec, "from", required(sec, "from", "the first point, [x, y, z]"), false);
+    to = read_lengths3(sec, "to", required(sec, "to", "the last point, [x, y, z]"), false);
+    if (from == to) fail(sec.where("to"), "the same point as from; a line needs two different ends");
+}
+
+SourceSpec read_source(const Section& sec) {
+    const std::string form = read_choice(sec, "form", required(sec, "form", "point or line"), {"point", "line"});
+    SourceSpec s;
+    s.source = source_line(sec);
+    if (form == "point") {
+        check_keys(sec, {"form", "position", "current"});
+        s.form = SourceForm::point;
+        s.position_m = read_lengths3(sec, "position", required(sec, "position", "where the source is, [x, y, z]"), false);
+        s.current_A = nonzero_current(sec, "current", "the current into the water, e.g. current = \"10 uA\"");
+        return s;
+    }
+    check_keys(sec, {"form", "from", "to", "points", "total_current", "weights", "peak_current"});
+    s.form = SourceForm::line;
+    read_ends(sec, s.from_m, s.to_m);
+    if (sec.find("weights")) {
+        if (sec.find("total_current"))
+            fail(sec.where("total_current"), "give total_current (split equally) or weights with peak_current, not both");
+        if (sec.find("points")) fail(sec.where("points"), "not used with weights: there is one point per weight");
+        s.share = LineShare::weights;
+        s.weights = read_weights(sec);
+        s.points = static_cast<int>(s.weights.size());
+        s.peak_current_A = required_positive(sec, "peak_current", Dimension::current);
+        return s;
+    }
+    if (sec.find("peak_current"))
+        fail(sec.where("peak_current"), "only used with weights; for an equal split give total_current");
+    s.share = LineShare::equal;
+    s.points = read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, 1000);
+    s.total_current_A = nonzero_current(
+        sec, "total_current", "split equally over the points; or give weights = [...] with peak_current = \"...\"");
+    return s;
+}
+
+// (1 - t) a + t b: exact at both ends.
+Point3 between(const Point3& a, const Point3& b, double t) {
+    Point3 p{};
+    for (int k = 0; k < 3; ++k) p[k] = (1.0 - t) * a[k] + t * b[k];
+    return p;
+}
+
+// Fraction k / (n - 1) of the way along n evenly spaced points, ends included.
+double fraction(std::size_t k, std::size_t n) { return static_cast<double>(k) / static_cast<double>(n - 1); }
+
+// An edge vector of a grid: not of zero length.
+Point3 read_edge(const Section& sec, const std::string& key) {
+    const Point3 e = read_lengths3(sec, key, required(sec, key, "an edge of the grid from its corner, [dx, dy, dz]"), false);
+    if (e == Point3{0.0, 0.0, 0.0}) fail(sec.where(key), "an edge of zero length; a grid needs two edges");
+    return e;
+}
+
+// True when a and b are not parallel: |a x b| > 1e-9 |a| |b|.
+bool spans_plane(const Point3& a, const Point3& b) {
+    const double cx = a[1] * b[2] - a[2] * b[1], cy = a[2] * b[0] - a[0] * b[2], cz = a[0] * b[1] - a[1] * b[0];
+    const double na = std::hypot(a[0], a[1], a[2]), nb = std::hypot(b[0], b[1], b[2]);
+    return std::hypot(cx, cy, cz) > 1e-9 * na * nb;
+}
+
+// The probe's points in order (see ProbeSpec), labelled for messages.
+std::vector<ProbePoint> probe_points_of(const ProbeSpec& p, std::size_t index) {
+    std::vector<ProbePoint> out;
+    if (p.form == ProbeForm::point) {
+        out.push_back({p.name, p.position_m, index});
+    } else if (p.form == ProbeForm::line) {
+        for (std::size_t k = 0; k < p.shape[0]; ++k)
+            out.push_back({p.name + "[" + std::to_string(k + 1) + "]",
+                           between(p.from_m, p.to_m, fraction(k, p.shape[0])), index});
+    } else {
+        for (std::size_t i = 0; i < p.shape[0]; ++i)
+            for (std::size_t j = 0; j < p.shape[1]; ++j) {
+                const double a = fraction(i, p.shape[0]), b = fraction(j, p.shape[1]);
+                Point3 x{};
+                for (int k = 0; k < 3; ++k) x[k] = p.corner_m[k] + a * p.along_m[k] + b * p.across_m[k];
+                out.push_back({p.name + "[" + std::to_string(i + 1) + "," + std::to_string(j + 1) + "]", x, index});
+            }
+    }
+    return out;
+}
+
+ProbeSpec read_probe(const Section& sec) {
+    const std::string form =
+        read_choice(sec, "form", required(sec, "form", "point, line or grid"), {"point", "line", "grid"});
+    ProbeSpec p;
+    p.source = source_line(sec);
+    if (form == "point") {
+        check_keys(sec, {"name", "form", "position"});
+        p.form = ProbeForm::point;
+        p.position_m = read_lengths3(sec, "position", required(sec, "position", "the point, [x, y, z]"), false);
+        p.shape = {1};
+    } else if (form == "line") {
+        check_keys(sec, {"name", "form", "from", "to", "points"});
+        p.form = ProbeForm::line;
+        read_ends(sec, p.from_m, p.to_m);
+        p.shape = {static_cast<std::size_t>(
+            read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, 1000))};
+    } else {
+        check_keys(sec, {"name", "form", "corner", "along", "across", "points"});
+        p.form = ProbeForm::grid;
+        p.corner_m = read_lengths3(sec, "corner", required(sec, "corner", "a corner of the grid, [x, y, z]"), false);
+        p.along_m = read_edge(sec, "along");
+        p.across_m = read_edge(sec, "across");
+        // Parallel edges span no plane; the tolerance only absorbs rounding.
+        if (!spans_plane(p.along_m, p.across_m))
+            fail(sec.where("across"), "parallel to along; the two edges of a grid must span a plane");
+        p.shape.assign(2, 0);
+        read_array(sec, "points", required(sec, "points", "[points along, points across]"), 2,
+                   "two whole numbers [points along, points across], each 2 to 1000",
+                   [&](const std::string& where, const toml::node& e, std::size_t i) {
+                       if (!e.is_integer() || e.as_integer()->get() < 2 || e.as_integer()->get() > 1000)
+                           fail(where, "expected a whole number from 2 to 1000, got " + describe(e));
+                       p.shape[i] = static_cast<std::size_t>(e.as_integer()->get());
+                   });
+    }
+    p.name = read_string(sec, "name", required(sec, "name", "a name for the probe's output"));
+    if (p.name.empty()) fail(sec.where("name"), "must not be empty");
+    p.point_count = 1;
+    for (std::size_t n : p.shape) p.point_count *= n;
+    return p;
+}
+
+// Reads every table of the array of tables `key` ([[key]]) with read_one(section, index).
+template <class F>
+void read_tables(const Section& sec, const std::string& key, F read_one) {
+    const toml::node* list = sec.find(key);
+    if (!list) return;
+    const toml::array* arr = list->as_array();
+    if (!arr || !arr->is_array_of_tables())
+        fail(sec.where(key), "expected [[" + key + "]] tables (double brackets, one per " + key + "), got " +
+                                 describe(*list));
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+        const toml::node& n = *arr->get(i);
+        read_one(Section{*n.as_table(), sec.key_path(key + "[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx}, i);
+    }
+}
+
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
-    check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object"});
+    check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
+                     "probe"});
     CaseSpec spec;
     spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
     if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
@@ -580,24 +741,30 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const toml::node* fish = sec.find("fish");
     const toml::node* robot = sec.find("robot");
     if (fish && robot) fail(sec.where("robot"), "a case has one sensing body: [fish] or [robot], not both");
-    if (!fish && !robot) fail(sec.where_self(), "missing the sensing body: add a [fish] or a [robot] table");
     if (fish) spec.fish = read_fish(Section{as_table(sec, "fish", *fish), "fish", line_of(*fish), ctx});
     if (robot) spec.robot = read_robot(Section{as_table(sec, "robot", *robot), "robot", line_of(*robot), ctx});
 
-    if (const toml::node* objects = sec.find("object")) {
-        const toml::array* arr = objects->as_array();
-        if (!arr || !arr->is_array_of_tables())
-            fail(sec.where("object"), "expected [[object]] tables (double brackets, one per object), got " +
-                                          describe(*objects));
-        std::set<std::string> names;
-        for (std::size_t i = 0; i < arr->size(); ++i) {
-            const toml::node& n = *arr->get(i);
-            const Section os{*n.as_table(), "object[" + std::to_string(i + 1) + "]", line_of(n), ctx};
-            ObjectSpec o = read_object(os, i);
-            if (!names.insert(o.name).second) fail(os.where("name"), "another object is already named '" + o.name + "'");
-            spec.objects.push_back(std::move(o));
-        }
-    }
+    std::set<std::string> object_names;
+    read_tables(sec, "object", [&](const Section& os, std::size_t i) {
+        ObjectSpec o = read_object(os, i);
+        if (!object_names.insert(o.name).second) fail(os.where("name"), "another object is already named '" + o.name + "'");
+        spec.objects.push_back(std::move(o));
+    });
+    read_tables(sec, "source", [&](const Section& ss, std::size_t) { spec.sources.push_back(read_source(ss)); });
+    std::set<std::string> probe_names;
+    read_tables(sec, "probe", [&](const Section& ps, std::size_t i) {
+        ProbeSpec p = read_probe(ps);
+        if (!probe_names.insert(p.name).second) fail(ps.where("name"), "another probe is already named '" + p.name + "'");
+        p.first_point = spec.probe_points.size();
+        for (ProbePoint& x : probe_points_of(p, i)) spec.probe_points.push_back(std::move(x));
+        spec.probes.push_back(std::move(p));
+    });
+
+    // Without a body nothing drives a current or reads one unless the case has
+    // its own sources and probes: the open-water case of a point-like emitter.
+    if (!fish && !robot && (spec.sources.empty() || spec.probes.empty()))
+        fail(sec.where_self(), "missing the sensing body: add a [fish] or a [robot] table (a case without one needs "
+                               "at least one [[source]] and one [[probe]])");
     return spec;
 }
 

@@ -8,6 +8,8 @@
 
 #include <array>
 #include <optional>
+
+#include "cases/sweep_spec.hpp"
 #include <string>
 #include <vector>
 
@@ -163,6 +165,60 @@ struct ObjectSpec {
     SourceLine source;
 };
 
+// A free current source of [[source]]: one point, or a line of evenly spaced
+// points. Its points go into the water or into the fish, never into an object or
+// the robot hull (checked by the scene builder, which expands it with
+// source_points()).
+enum class SourceForm { point, line };
+
+// How a line source shares its current among its points, from the `from` end.
+enum class LineShare {
+    equal,    // total_current_A split equally over `points` points
+    weights,  // weights scaled so that the largest |current| is peak_current_A
+};
+
+struct SourceSpec {
+    SourceForm form = SourceForm::point;
+    Point3 position_m{};           // point
+    double current_A = 0.0;        // point: its current into the water, signed, not zero
+    Point3 from_m{}, to_m{};       // line: first and last point (distinct)
+    LineShare share = LineShare::equal;  // line
+    int points = 0;                // line: number of points, 2..1000 (weights: one per weight)
+    double total_current_A = 0.0;  // line, equal: signed, not zero
+    std::vector<double> weights;   // line, weights: from the `from` end, summing to zero
+    double peak_current_A = 0.0;   // line, weights: positive
+    SourceLine source;
+};
+
+// A probe of [[probe]]: named points where potential and field are reported.
+// Its points are listed, in order, in CaseSpec::probe_points.
+enum class ProbeForm {
+    point,  // one point
+    line,   // `points` evenly spaced points from `from` to `to`, ends included
+    grid,   // corner + i/(n_along-1) along + j/(n_across-1) across, i outer, j inner
+};
+
+struct ProbeSpec {
+    std::string name;  // unique among probes
+    ProbeForm form = ProbeForm::point;
+    // Array shape of the probe's values, row-major: point {1}, line {points},
+    // grid {n_along, n_across} (so that point (i, j) is entry i * n_across + j).
+    std::vector<std::size_t> shape;
+    std::size_t first_point = 0;  // index of its first point in CaseSpec::probe_points
+    std::size_t point_count = 0;  // product of shape
+    // The definition as written, world frame.
+    Point3 position_m{};                      // point
+    Point3 from_m{}, to_m{};                  // line
+    Point3 corner_m{}, along_m{}, across_m{};  // grid: a corner and the two edges from it
+    SourceLine source;
+};
+
+struct ProbePoint {
+    std::string label;    // for messages: "tip", "axis[3]", "map[2,5]" (counted from 1)
+    Point3 position_m{};  // world frame
+    std::size_t probe = 0;  // index into CaseSpec::probes
+};
+
 struct CaseSpec {
     std::string path;  // the case file as given, or the name used for text
     std::string text;  // the whole case file, written into result files
@@ -171,9 +227,16 @@ struct CaseSpec {
     std::optional<double> frequency_Hz;  // unset: direct current (omega = 0)
     WaterSpec water;
     MeshSpec mesh;
-    std::optional<FishSpec> fish;    // exactly one of fish and robot is set
+    // At most one of fish and robot is set. Neither only when the case has at
+    // least one source and one probe (the body-free case: sources in open water).
+    std::optional<FishSpec> fish;
     std::optional<RobotSpec> robot;
     std::vector<ObjectSpec> objects;
+    std::vector<SourceSpec> sources;      // [[source]] in case order
+    std::vector<ProbeSpec> probes;        // [[probe]] in case order
+    std::vector<ProbePoint> probe_points;  // every probe's points, probe after probe
+    std::optional<SweepSpec> sweep;          // [sweep]: what murk run varies
+    std::optional<DetectionSpec> detection;  // [detection]: noise model and detection criteria
 };
 
 }  // namespace murk

@@ -842,6 +842,12 @@ H5Output::~H5Output() {
     fs::remove(partial_path(path_), error);
 }
 
+void H5Output::suspend() {
+    if (done_) return;
+    file_.close();
+    done_ = true;
+}
+
 H5File& H5Output::file() {
     if (done_) throw std::logic_error(path_ + " is already committed");
     return file_;

@@ -262,6 +262,9 @@ public:
     // If `path` appeared meanwhile and overwrite is off, throws InputError and keeps the
     // partial file, so the work is not lost.
     void commit();
+    // Closes the partial file and keeps it for resume(): a sweep that is interrupted or
+    // fails part-way must not lose the points it finished.
+    void suspend();
 
 private:
     H5Output(std::string path, bool overwrite, std::string exists_hint, H5File file);

@@ -6,6 +6,7 @@
 #include "geometry/mesh_quality.hpp"
 #include "geometry/regions.hpp"
 #include "geometry/shapes.hpp"
+#include "geometry/spatial_index.hpp"
 #include "geometry/transform.hpp"
 #include "geometry/triangle_distance.hpp"
 
@@ -27,8 +28,10 @@ constexpr double kVacuumPermittivity = 8.8541878128e-12;
 // plane, are taken to touch: the mesh cannot resolve a narrower gap.
 constexpr double kMinGapInPanels = 0.1;
 
-// Organ points closer to the skin than this many panel sizes make the
-// collocation at the nearest panels inaccurate.
+// Sources (organ points included) and probe points closer to a surface than this
+// many panel sizes make the collocation at the nearest panels, or the values
+// read there, inaccurate: piecewise-constant panel values cannot follow a
+// potential that changes within a fraction of a panel.
 constexpr double kMinSourceDepthInPanels = 0.25;
 
 std::string format_length(double metres) {
@@ -122,6 +125,8 @@ TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge) {
 
 double default_panel_size(const CaseSpec& spec, const TriangleMesh* hull_mesh) {
     if (spec.mesh.panel_size_m) return *spec.mesh.panel_size_m;
+    // No body, no panel size: nothing but each object's own size limits its panels.
+    if (!spec.fish && !spec.robot) return std::numeric_limits<double>::infinity();
     const double length = spec.fish ? spec.fish->length_m : shape_length(spec.robot->hull, hull_mesh);
     return length / 30.0;
 }
@@ -130,7 +135,8 @@ double default_panel_size(const CaseSpec& spec, const TriangleMesh* hull_mesh) {
 struct Part {
     const TriangleMesh* mesh;
     SourceLine source;
-    std::string label;  // "fish", "robot", "object 'prey'"
+    std::string label;          // "the fish", "the robot", "object 'prey'"
+    bool may_enclose = false;   // sources and probes may lie inside it (the fish)
 };
 
 // ---- sensing bodies -----------------------------------------------------------
@@ -328,6 +334,114 @@ void require_apart(const std::vector<Part>& parts) {
         }
 }
 
+// ---- sources and probes ------------------------------------------------------------
+
+// Two points closer than this (m) are taken to coincide: far below any length a
+// case can resolve, far above the rounding of coordinates of a few metres.
+constexpr double kCoincidentDistance = 1e-9;
+
+std::string format_point(const Vec3& p) {
+    std::ostringstream out;
+    out.precision(4);
+    out << "(" << p.x() << ", " << p.y() << ", " << p.z() << ") m";
+    return out.str();
+}
+
+// A part prepared for many point queries: points far outside its box skip the
+// winding number, and the distance is taken only to panels whose boxes come
+// within the clearance.
+struct PointClearance {
+    const Part* part;
+    double panel_size;  // typical edge (m)
+    double min_gap;     // kMinSourceDepthInPanels panel sizes (m)
+    BgBox box;          // the mesh's box grown by min_gap
+    PanelTree tree;
+
+    explicit PointClearance(const Part& p)
+        : part(&p), panel_size(typical_edge(*p.mesh)), min_gap(kMinSourceDepthInPanels * panel_size),
+          box(grown(mesh_box(*p.mesh), min_gap)), tree(build_panel_tree(*p.mesh)) {}
+
+    static BgBox grown(const BgBox& b, double by) {
+        const BgPoint& lo = b.min_corner();
+        const BgPoint& hi = b.max_corner();
+        return BgBox(BgPoint(lo.get<0>() - by, lo.get<1>() - by, lo.get<2>() - by),
+                     BgPoint(hi.get<0>() + by, hi.get<1>() + by, hi.get<2>() + by));
+    }
+
+    // Least distance (m) from x to the surface, or +infinity when it is above min_gap.
+    double near_distance(const Vec3& x) const {
+        BgBox around(to_bg(x - Vec3::Constant(min_gap)), to_bg(x + Vec3::Constant(min_gap)));
+        double d = std::numeric_limits<double>::infinity();
+        const TriangleMesh& m = *part->mesh;
+        for (auto it = tree.qbegin(bgi::intersects(around)); it != tree.qend(); ++it)
+            d = std::min(d, point_triangle_distance(x, m.corner(it->second, 0), m.corner(it->second, 1),
+                                                    m.corner(it->second, 2)));
+        return d < min_gap ? d : std::numeric_limits<double>::infinity();
+    }
+};
+
+// Refuses a source or probe point that lies beyond the insulating plane, inside
+// a surface other than the fish, or closer to a surface than a quarter of its
+// panel size (where piecewise-constant panel values are not accurate).
+// `where` is "file:line: key", `what` names the point in words.
+void require_free_point(const std::vector<PointClearance>& parts, const std::optional<PlaneSpec>& plane,
+                        const Vec3& x, const std::string& where, const std::string& what, const std::string& allowed) {
+    const std::string head = where + ": " + what + " at " + format_point(x);
+    if (plane && (plane->water_below ? x.z() > plane->height_m : x.z() < plane->height_m))
+        throw InputError(head + " lies " + (plane->water_below ? "above the water surface" : "below the bottom") +
+                         " at z = " + format_length(plane->height_m) + " (" + plane->source.key + "); " + allowed);
+    for (const PointClearance& c : parts) {
+        if (!bg::covered_by(to_bg(x), c.box)) continue;
+        if (!c.part->may_enclose && contains_point(*c.part->mesh, x))
+            throw InputError(head + " lies inside " + c.part->label + "; " + allowed);
+        const double d = c.near_distance(x);
+        if (d < c.min_gap)
+            throw InputError(head + " is " + format_length(d) + " from the surface of " + c.part->label +
+                             ", less than a quarter of its mean panel edge (" + format_length(c.panel_size) +
+                             "); move it at least " + format_length(c.min_gap) + " away or make the panels smaller");
+    }
+}
+
+std::vector<PointClearance> prepare_clearance(const std::vector<Part>& parts) {
+    std::vector<PointClearance> out;
+    for (const Part& p : parts) out.emplace_back(p);
+    return out;
+}
+
+// Adds the points of every [[source]] to the scene after checking each.
+template <class S>
+void add_free_sources(Scene<S>& scene, const CaseSpec& spec, const std::vector<PointClearance>& parts) {
+    for (const SourceSpec& src : spec.sources) {
+        const std::vector<PointSource<double>> points = source_points(src);
+        for (std::size_t k = 0; k < points.size(); ++k) {
+            const std::string what = src.form == SourceForm::point
+                                         ? std::string("the source")
+                                         : "source point " + std::to_string(k + 1) + " of " + std::to_string(points.size());
+            require_free_point(parts, spec.water.plane, points[k].position, src.source.where(), what,
+                               "a source may lie in the water or inside the fish");
+            scene.sources.push_back(PointSource<S>{points[k].position, S(points[k].current)});
+        }
+    }
+}
+
+// Checks every probe point: free like a source, and not on a source point, where
+// the potential is infinite.
+template <class S>
+void check_probes(const Scene<S>& scene, const CaseSpec& spec, const std::vector<PointClearance>& parts) {
+    for (const ProbePoint& pt : spec.probe_points) {
+        const ProbeSpec& probe = spec.probes[pt.probe];
+        const std::string what =
+            "probe '" + probe.name + "'" + (probe.form == ProbeForm::point ? "" : " point " + pt.label);
+        const Vec3 x = to_vec(pt.position_m);
+        require_free_point(parts, spec.water.plane, x, probe.source.where(), what,
+                           "a probe may lie in the water or inside the fish");
+        for (const PointSource<S>& src : scene.sources)
+            if ((src.position - x).norm() < kCoincidentDistance)
+                throw InputError(probe.source.where() + ": " + what + " at " + format_point(x) +
+                                 " is on a source point, where the potential is infinite; put it beside the source");
+    }
+}
+
 // "file:line: key" of the first part of the case that makes conductivities
 // complex (the line of its table), or "".
 std::string complex_reason(const CaseSpec& spec) {
@@ -389,6 +503,26 @@ std::vector<double> organ_fractions(const OrganSpec& organ) {
     return f;
 }
 
+std::vector<PointSource<double>> source_points(const SourceSpec& src) {
+    if (src.form == SourceForm::point) return {PointSource<double>{to_vec(src.position_m), src.current_A}};
+    std::vector<double> currents;
+    if (src.share == LineShare::equal) {
+        currents.assign(static_cast<std::size_t>(src.points), src.total_current_A / src.points);
+    } else {
+        double peak = 0.0;
+        for (double w : src.weights) peak = std::max(peak, std::abs(w));
+        assert(peak > 0.0);  // the reader refuses weights that are all zero
+        for (double w : src.weights) currents.push_back(w * src.peak_current_A / peak);
+    }
+    std::vector<PointSource<double>> out;
+    const std::size_t n = currents.size();
+    for (std::size_t k = 0; k < n; ++k) {
+        const double t = static_cast<double>(k) / static_cast<double>(n - 1);
+        out.push_back({(1.0 - t) * to_vec(src.from_m) + t * to_vec(src.to_m), currents[k]});
+    }
+    return out;
+}
+
 Eigen::Matrix3d orientation_matrix(const Orientation& o) {
     // A positive right-handed rotation about y turns +x toward -z, so nose-up pitch
     // is its negative.
@@ -414,7 +548,10 @@ double object_panel_size(const CaseSpec& spec, const ObjectSpec& o) {
         case ShapeKind::ellipsoid:
             return std::min(body, 0.5 * *std::min_element(s.semi_axes_m.begin(), s.semi_axes_m.end()));
         case ShapeKind::box: return std::min(body, 0.25 * *std::min_element(s.size_m.begin(), s.size_m.end()));
-        case ShapeKind::mesh: return body;
+        case ShapeKind::mesh:
+            if (std::isfinite(body)) return body;
+            // No body and no mesh.panel_size: the file's own panels are all there is.
+            return typical_edge(with_place(o.source.where(), [&] { return make_shape_mesh(s, 0.0); }));
     }
     return body;
 }
@@ -434,7 +571,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
             throw InputError(reason + ": with a frequency this makes conductivities complex; the case must be "
                                       "solved in complex arithmetic");
     }
-    assert(spec.fish.has_value() != spec.robot.has_value());
+    assert(!(spec.fish && spec.robot));
     const double omega = angular_frequency(spec);
     Scene<S> scene;
     scene.water_conductivity =
@@ -448,7 +585,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
 
     if (spec.fish) {
         add_fish(scene, spec, omega, default_panel_size(spec, nullptr));
-    } else {
+    } else if (spec.robot) {
         TriangleMesh hull;
         double panel = 0.0;
         with_place(spec.robot->source.where(), [&] {
@@ -463,18 +600,23 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
         });
         add_robot(scene, spec, std::move(hull));
     }
+    const std::size_t bodies = scene.surfaces.size();  // 1 with a sensing body, else 0
     if (include_objects)
         for (const ObjectSpec& o : spec.objects) add_object(scene, spec, o, omega);
 
     std::vector<Part> parts;
-    const SourceLine& body_source = spec.fish ? spec.fish->source : spec.robot->source;
-    parts.push_back({&scene.surfaces[0].mesh, body_source, spec.fish ? "the fish" : "the robot"});
-    for (std::size_t i = 1; i < scene.surfaces.size(); ++i)
-        parts.push_back({&scene.surfaces[i].mesh, spec.objects[i - 1].source,
-                         "object '" + spec.objects[i - 1].name + "'"});
+    if (spec.fish) parts.push_back({&scene.surfaces[0].mesh, spec.fish->source, "the fish", true});
+    if (spec.robot) parts.push_back({&scene.surfaces[0].mesh, spec.robot->source, "the robot", false});
+    for (std::size_t i = bodies; i < scene.surfaces.size(); ++i)
+        parts.push_back({&scene.surfaces[i].mesh, spec.objects[i - bodies].source,
+                         "object '" + spec.objects[i - bodies].name + "'", false});
     if (spec.water.plane)
         for (const Part& p : parts) require_in_water(p, *spec.water.plane);
     require_apart(parts);
+
+    const std::vector<PointClearance> clearance = prepare_clearance(parts);
+    add_free_sources(scene, spec, clearance);
+    check_probes(scene, spec, clearance);
     return scene;
 }
 

@@ -18,10 +18,21 @@ namespace murk {
 // (direct current) permittivities and capacitances carry no current.
 bool case_needs_complex(const CaseSpec& spec);
 
-// The scene of the case. Surface order: the sensing body first, then the objects
-// in case order (only when include_objects; false gives the baseline scene).
+// The scene of the case. Surface order: the sensing body first when the case has
+// one, then the objects in case order (only when include_objects; false gives
+// the baseline scene). A case without a body (sources and probes only) gives a
+// baseline scene with no surfaces at all, and a full scene with only the objects,
+// possibly none: the solver's assemble_system refuses a scene without surfaces,
+// so callers must treat that case themselves (the potential is then the sources'
+// own, in the water with its plane).
 // Electrode order: the robot's electrodes in case order, then one floating
 // electrode per "conductor" object, named object_electrode_name(object).
+// Source order: the organ's points (head end first), then the points of every
+// [[source]] in case order (source_points()).
+// Sources and probe points are checked against the surfaces of the scene built
+// (so the objects' only when include_objects): each must lie in the water or
+// inside the fish, at least a quarter of the panel size from every surface, on
+// the water side of the plane; no probe point may be on a source point.
 // For S = double, throws InputError when case_needs_complex(spec).
 // Bad geometry throws InputError naming the case file, line and part.
 template <class S>
@@ -46,17 +57,25 @@ std::vector<double> organ_currents(const OrganSpec& organ);
 // nose, head end first: evenly spaced from organ.from_fraction to organ.to_fraction.
 std::vector<double> organ_fractions(const OrganSpec& organ);
 
+// The point sources of a [[source]] table, in order from its `from` end: one
+// point, or `points` evenly spaced points from `from` to `to` (ends included)
+// carrying total_current / points each, or the weights scaled so that the
+// largest magnitude is peak_current.
+std::vector<PointSource<double>> source_points(const SourceSpec& source);
+
 // Rotation of a body or object frame into the world: heading about z, pitch
 // nose-up, roll about the body axis (see Orientation).
 Eigen::Matrix3d orientation_matrix(const Orientation& o);
 
 // Target panel edge (m) of the sensing body: mesh.panel_size, or the body's
-// length / 30 (a mesh hull is read to measure it).
+// length / 30 (a mesh hull is read to measure it). A case without a body has
+// no such length: mesh.panel_size, or +infinity when unset (no limit for objects).
 double body_panel_size(const CaseSpec& spec);
 
 // Target panel edge (m) of an object: its own panel_size, or the smaller of the
 // body's and half the object's smallest radius (a quarter of its smallest box
-// edge; the body's for a mesh).
+// edge; the body's for a mesh, or, with neither body nor mesh.panel_size, the
+// typical edge of the file's own panels).
 double object_panel_size(const CaseSpec& spec, const ObjectSpec& object);
 
 // The accuracy switches of the panel integrals from [mesh].

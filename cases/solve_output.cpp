@@ -11,6 +11,8 @@ std::vector<S> to_vector(const Eigen::Matrix<S, Eigen::Dynamic, 1>& v) {
     return std::vector<S>(v.data(), v.data() + v.size());
 }
 
+}  // namespace
+
 void write_mesh(H5Group&& group, const TriangleMesh& mesh) {
     const hsize_t nv = mesh.vertices.size(), nt = mesh.size();
     std::vector<double> vertices, centroid, normal, area;
@@ -46,6 +48,8 @@ void write_surface_values(H5Group&& group, const Surface<S>& surface, const Surf
         group.write("transdermal_voltage", to_vector(Eigen::Matrix<S, Eigen::Dynamic, 1>(values.inner_potential - values.outer_potential)),
                     "V", "transdermal voltage, inside minus outside, at each panel");
 }
+
+namespace {
 
 template <class S>
 void write_electrodes(H5Group& group, const std::vector<Electrode<S>>& electrodes, const std::vector<S>& potential,
@@ -104,6 +108,8 @@ void write_solve_result(H5Group root, const SolvedCase<S>& solved) {
     write_electrodes(difference, solved.baseline.electrodes, dp, dc);
 }
 
+template void write_surface_values(H5Group&&, const Surface<double>&, const SurfaceSolution<double>&);
+template void write_surface_values(H5Group&&, const Surface<Complex>&, const SurfaceSolution<Complex>&);
 template void write_solve_result(H5Group, const SolvedCase<double>&);
 template void write_solve_result(H5Group, const SolvedCase<Complex>&);
 

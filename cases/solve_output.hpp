@@ -26,4 +26,9 @@ std::string surface_group_name(const std::string& mesh_name);
 template <class S>
 void write_solve_result(H5Group root, const SolvedCase<S>& solved);
 
+// The pieces, for other writers (murk run): a mesh group, and one surface's panel values.
+void write_mesh(H5Group&& group, const TriangleMesh& mesh);
+template <class S>
+void write_surface_values(H5Group&& group, const Surface<S>& surface, const SurfaceSolution<S>& values);
+
 }  // namespace murk

@@ -55,7 +55,8 @@ VectorX<S> solve_dense(LinearSystem<S>& system);
 template <class S>
 Solution<S> unpack_solution(const Scene<S>& scene, const SystemLayout& layout, const VectorX<S>& x);
 
-// All three stages in order.
+// All three stages in order. A scene without surfaces (sources in open water)
+// has nothing to solve for and gives an empty solution.
 template <class S>
 Solution<S> solve_scene(const Scene<S>& scene, const QuadratureOptions& options);
 

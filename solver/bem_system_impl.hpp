@@ -295,6 +295,10 @@ Solution<S> unpack_solution(const Scene<S>& scene, const SystemLayout& layout, c
 
 template <class S>
 Solution<S> solve_scene(const Scene<S>& scene, const QuadratureOptions& options) {
+    if (scene.surfaces.empty()) {  // sources in open water: nothing to solve for
+        (void)source_regions(scene);
+        return Solution<S>{};
+    }
     LinearSystem<S> system = assemble_system(scene, options);
     const VectorX<S> x = solve_dense(system);
     return unpack_solution(scene, system.layout, x);
@@ -378,7 +382,7 @@ Eigen::Matrix<S, 3, Eigen::Dynamic> field_at(const Scene<S>& scene, const Soluti
         for (const auto& surface : scene.surfaces)
             for (std::size_t t = 0; t < surface.mesh.size(); ++t)
                 nearest = std::min(nearest, (surface.mesh.centroid(t) - x).norm());
-        step(i) = 1e-3 * nearest;
+        step(i) = std::isfinite(nearest) ? 1e-3 * nearest : 1.0;  // no surfaces: the induced part is zero
         for (int axis = 0; axis < 3; ++axis) {
             displaced.col(6 * i + 2 * axis) = x + step(i) * Vec3::Unit(axis);
             displaced.col(6 * i + 2 * axis + 1) = x - step(i) * Vec3::Unit(axis);

@@ -476,3 +476,241 @@ TEST_CASE("case reader: robot electrode rules") {
                 "[robot.electrode]\nname = \"E\"\n",
                 "[robot.electrode]", "robot.electrode", "expected [[robot.electrode]] tables");
 }
+
+// ---- [[source]] and [[probe]] ---------------------------------------------------
+
+namespace {
+
+// A case without a sensing body: one source and one probe in open water.
+const std::string kOpenWater = R"(title = "o"
+[water]
+conductivity = "100 uS/cm"
+[[source]]
+form = "point"
+position = ["0 cm", "0 cm", "0 cm"]
+current = "10 uA"
+[[probe]]
+name = "near"
+form = "point"
+position = ["0 cm", "2 mm", "0 cm"]
+)";
+
+const std::string kLineSource = "[[source]]\nform = \"line\"\nfrom = [\"0 cm\", \"0 cm\", \"0 cm\"]\n"
+                                "to = [\"0 cm\", \"0 cm\", \"1 cm\"]\n";
+const std::string kGridProbe = "[[probe]]\nname = \"map\"\nform = \"grid\"\ncorner = [\"0 cm\", \"0 cm\", \"0 cm\"]\n"
+                               "along = [\"1 cm\", \"0 cm\", \"0 cm\"]\n";
+
+}  // namespace
+
+TEST_CASE("case reader: sources of every form") {
+    const std::string text = kFish + R"([[source]]
+form = "point"
+position = ["1 cm", "-2 cm", "3 mm"]
+current = "-20 uA"
+[[source]]
+form = "line"
+from = ["0 cm", "5 cm", "0 cm"]
+to = ["4 cm", "5 cm", "0 cm"]
+points = 5
+total_current = "1 mA"
+[[source]]
+form = "line"
+from = ["0 cm", "-5 cm", "0 cm"]
+to = ["0 cm", "-5 cm", "2 cm"]
+weights = [1, -3, 2]
+peak_current = "6 uA"
+)";
+    const CaseSpec s = read_case_text(text, "case.toml");
+    REQUIRE(s.sources.size() == 3);
+    const SourceSpec& p = s.sources[0];
+    CHECK(p.form == SourceForm::point);
+    CHECK(p.position_m[0] == doctest::Approx(0.01));
+    CHECK(p.position_m[1] == doctest::Approx(-0.02));
+    CHECK(p.position_m[2] == doctest::Approx(0.003));
+    CHECK(p.current_A == doctest::Approx(-2e-5));
+    CHECK(p.source.line == line_with(text, "[[source]]"));
+    CHECK(p.source.key == "source[1]");
+    const SourceSpec& e = s.sources[1];
+    CHECK(e.form == SourceForm::line);
+    CHECK(e.share == LineShare::equal);
+    CHECK(e.from_m[1] == doctest::Approx(0.05));
+    CHECK(e.to_m[0] == doctest::Approx(0.04));
+    CHECK(e.points == 5);
+    CHECK(e.total_current_A == doctest::Approx(1e-3));
+    CHECK(e.source.key == "source[2]");
+    const SourceSpec& w = s.sources[2];
+    CHECK(w.share == LineShare::weights);
+    CHECK(w.weights == std::vector<double>{1, -3, 2});
+    CHECK(w.points == 3);
+    CHECK(w.peak_current_A == doctest::Approx(6e-6));
+    CHECK(w.to_m[2] == doctest::Approx(0.02));
+    CHECK(s.probes.empty());
+    CHECK(s.probe_points.empty());
+}
+
+TEST_CASE("case reader: probe points of a point, a line and a grid") {
+    const std::string text = kFish + R"([[probe]]
+name = "tip"
+form = "point"
+position = ["1 cm", "2 cm", "3 cm"]
+[[probe]]
+name = "axis"
+form = "line"
+from = ["0 cm", "0 cm", "0 cm"]
+to = ["3 cm", "0 cm", "6 cm"]
+points = 4
+[[probe]]
+name = "map"
+form = "grid"
+corner = ["1 cm", "1 cm", "0 cm"]
+along = ["2 cm", "0 cm", "0 cm"]
+across = ["0 cm", "0 cm", "-1 cm"]
+points = [3, 2]
+)";
+    const CaseSpec s = read_case_text(text, "case.toml");
+    REQUIRE(s.probes.size() == 3);
+    REQUIRE(s.probe_points.size() == 1 + 4 + 6);
+    const ProbeSpec& tip = s.probes[0];
+    CHECK(tip.name == "tip");
+    CHECK(tip.form == ProbeForm::point);
+    CHECK(tip.shape == std::vector<std::size_t>{1});
+    CHECK(tip.first_point == 0);
+    CHECK(tip.point_count == 1);
+    CHECK(tip.source.line == line_with(text, "[[probe]]"));
+    CHECK(tip.source.key == "probe[1]");
+    CHECK(s.probe_points[0].label == "tip");
+    CHECK(s.probe_points[0].probe == 0);
+    CHECK(s.probe_points[0].position_m[2] == doctest::Approx(0.03));
+
+    const ProbeSpec& axis = s.probes[1];
+    CHECK(axis.form == ProbeForm::line);
+    CHECK(axis.shape == std::vector<std::size_t>{4});
+    CHECK(axis.first_point == 1);
+    CHECK(axis.point_count == 4);
+    CHECK(axis.to_m[2] == doctest::Approx(0.06));
+    // four points a third of the way apart: (0, 0, 0), (1, 0, 2), (2, 0, 4), (3, 0, 6) cm
+    for (int k = 0; k < 4; ++k) {
+        const ProbePoint& pt = s.probe_points[1 + k];
+        CHECK(pt.label == "axis[" + std::to_string(k + 1) + "]");
+        CHECK(pt.probe == 1);
+        CHECK(pt.position_m[0] == doctest::Approx(0.01 * k));
+        CHECK(pt.position_m[1] == 0.0);
+        CHECK(pt.position_m[2] == doctest::Approx(0.02 * k));
+    }
+
+    const ProbeSpec& map = s.probes[2];
+    CHECK(map.form == ProbeForm::grid);
+    CHECK(map.shape == std::vector<std::size_t>{3, 2});
+    CHECK(map.first_point == 5);
+    CHECK(map.point_count == 6);
+    CHECK(map.corner_m[0] == doctest::Approx(0.01));
+    CHECK(map.along_m[0] == doctest::Approx(0.02));
+    CHECK(map.across_m[2] == doctest::Approx(-0.01));
+    // i along x in 1 cm steps from 1 cm, j down z from 0 to -1 cm; j runs fastest
+    const double expected[6][3] = {{0.01, 0.01, 0.0}, {0.01, 0.01, -0.01}, {0.02, 0.01, 0.0},
+                                   {0.02, 0.01, -0.01}, {0.03, 0.01, 0.0}, {0.03, 0.01, -0.01}};
+    const char* labels[6] = {"map[1,1]", "map[1,2]", "map[2,1]", "map[2,2]", "map[3,1]", "map[3,2]"};
+    for (int k = 0; k < 6; ++k) {
+        const ProbePoint& pt = s.probe_points[5 + k];
+        CHECK(pt.label == labels[k]);
+        CHECK(pt.probe == 2);
+        for (int c = 0; c < 3; ++c) CHECK(pt.position_m[c] == doctest::Approx(expected[k][c]));
+    }
+}
+
+TEST_CASE("case reader: a case without a sensing body needs a source and a probe") {
+    const CaseSpec s = read_case_text(kOpenWater, "case.toml");
+    CHECK(!s.fish);
+    CHECK(!s.robot);
+    CHECK(s.sources.size() == 1);
+    CHECK(s.probes.size() == 1);
+    // a source alone, a probe alone: refused at the top level
+    std::string text = kOpenWater.substr(0, kOpenWater.find("[[probe]]"));
+    check_error(text, "title", "(top level)", "at least one [[source]] and one [[probe]]");
+    text = kOpenWater;
+    text.erase(text.find("[[source]]"), text.find("[[probe]]") - text.find("[[source]]"));
+    check_error(text, "title", "(top level)", "missing the sensing body");
+}
+
+TEST_CASE("case reader: source rules") {
+    check_error(kOpenWater + "[[source]]\nposition = [\"0 m\", \"0 m\", \"0 m\"]\n", "[[source]]", "source[2].form",
+                "missing required key", 2);
+    check_error(kOpenWater + "[[source]]\nform = \"ring\"\n", "ring", "source[2].form",
+                "expected one of point, line, got 'ring'");
+    check_error(kOpenWater + "[[source]]\nform = \"point\"\nposition = [\"0 m\", \"0 m\", \"0 m\"]\ncurrent = \"1 uA\"\n"
+                             "points = 3\n",
+                "points", "source[2].points", "unknown key; allowed here: form, position, current");
+    check_error(kOpenWater + "[[source]]\nform = \"point\"\nposition = [\"0 m\", \"0 m\", \"0 m\"]\ncurrent = \"0 uA\"\n",
+                "\"0 uA\"", "source[2].current", "must not be zero, got '0 uA'");
+    check_error(kOpenWater + "[[source]]\nform = \"point\"\nposition = [\"0 m\", \"0 m\", \"0 m\"]\ncurrent = \"1 uV\"\n",
+                "\"1 uV\"", "source[2].current", "expected a current like");
+    check_error(kOpenWater + "[[source]]\nform = \"point\"\ncurrent = \"1 uA\"\n", "[[source]]", "source[2].position",
+                "missing required key", 2);
+    // line: both ends the same
+    check_error(kOpenWater + "[[source]]\nform = \"line\"\nfrom = [\"0 m\", \"0 m\", \"0 m\"]\n"
+                             "to = [\"0 cm\", \"0 cm\", \"0 cm\"]\npoints = 3\ntotal_current = \"1 uA\"\n",
+                "to = ", "source[2].to", "a line needs two different ends");
+    // line: how the current is shared
+    check_error(kOpenWater + kLineSource + "points = 3\n", "[[source]]", "source[2].total_current",
+                "missing required key", 2);
+    check_error(kOpenWater + kLineSource + "total_current = \"1 uA\"\n", "[[source]]", "source[2].points",
+                "missing required key", 2);
+    check_error(kOpenWater + kLineSource + "points = 3\ntotal_current = \"0 A\"\n", "total_current",
+                "source[2].total_current", "must not be zero");
+    check_error(kOpenWater + kLineSource + "points = 1001\ntotal_current = \"1 uA\"\n", "points",
+                "source[2].points", "expected a whole number from 2 to 1000, got the number 1001");
+    check_error(kOpenWater + kLineSource + "weights = [1, -1]\ntotal_current = \"1 uA\"\npeak_current = \"1 uA\"\n",
+                "total_current", "source[2].total_current", "not both");
+    check_error(kOpenWater + kLineSource + "weights = [1, -1]\npoints = 2\npeak_current = \"1 uA\"\n", "points",
+                "source[2].points", "one point per weight");
+    check_error(kOpenWater + kLineSource + "weights = [1, -2]\npeak_current = \"1 uA\"\n", "weights",
+                "source[2].weights", "must sum to zero");
+    check_error(kOpenWater + kLineSource + "weights = [1, -1]\n", "[[source]]", "source[2].peak_current",
+                "missing required key", 2);
+    check_error(kOpenWater + kLineSource + "weights = [1, -1]\npeak_current = \"-1 uA\"\n", "peak_current",
+                "source[2].peak_current", "must be positive");
+    check_error(kOpenWater + kLineSource + "points = 3\ntotal_current = \"1 uA\"\npeak_current = \"1 uA\"\n",
+                "peak_current", "source[2].peak_current", "only used with weights");
+    check_error(kOpenWater + kLineSource + "points = 3\ntotal_current = \"1 uA\"\nposition = [\"0 m\", \"0 m\", \"0 m\"]\n",
+                "position = [\"0 m", "source[2].position", "allowed here: form, from, to, points, total_current");
+    // a plain table instead of an array of tables
+    check_error(kFish + "[source]\nform = \"point\"\n", "[source]", "source", "expected [[source]] tables");
+}
+
+TEST_CASE("case reader: probe rules") {
+    check_error(kOpenWater + "[[probe]]\nform = \"point\"\nposition = [\"0 m\", \"1 m\", \"0 m\"]\n", "[[probe]]",
+                "probe[2].name", "missing required key", 2);
+    check_error(kOpenWater + "[[probe]]\nname = \"\"\nform = \"point\"\nposition = [\"0 m\", \"1 m\", \"0 m\"]\n",
+                "name = \"\"", "probe[2].name", "must not be empty");
+    check_error(kOpenWater + "[[probe]]\nname = \"near\"\nform = \"point\"\nposition = [\"0 m\", \"1 m\", \"0 m\"]\n",
+                "name = \"near\"", "probe[2].name", "another probe is already named 'near'", 2);
+    check_error(kOpenWater + "[[probe]]\nname = \"p\"\nform = \"cloud\"\n", "cloud", "probe[2].form",
+                "expected one of point, line, grid, got 'cloud'");
+    check_error(kOpenWater + "[[probe]]\nname = \"p\"\nform = \"point\"\nposition = [\"0 m\", \"1 m\", \"0 m\"]\n"
+                             "points = 2\n",
+                "points", "probe[2].points", "unknown key; allowed here: name, form, position");
+    check_error(kOpenWater + "[[probe]]\nname = \"p\"\nform = \"point\"\nposition = [\"0 m\", \"1 m\"]\n", "position = [\"0 m\", \"1",
+                "probe[2].position", "got an array of 2");
+    // line
+    check_error(kOpenWater + "[[probe]]\nname = \"l\"\nform = \"line\"\nfrom = [\"1 m\", \"1 m\", \"0 m\"]\n"
+                             "to = [\"1 m\", \"1 m\", \"0 m\"]\npoints = 5\n",
+                "to = ", "probe[2].to", "a line needs two different ends");
+    check_error(kOpenWater + "[[probe]]\nname = \"l\"\nform = \"line\"\nfrom = [\"1 m\", \"1 m\", \"0 m\"]\n"
+                             "to = [\"2 m\", \"1 m\", \"0 m\"]\npoints = 1\n",
+                "points", "probe[2].points", "from 2 to 1000, got the number 1");
+    check_error(kOpenWater + "[[probe]]\nname = \"l\"\nform = \"line\"\nfrom = [\"1 m\", \"1 m\", \"0 m\"]\n"
+                             "to = [\"2 m\", \"1 m\", \"0 m\"]\n",
+                "[[probe]]", "probe[2].points", "missing required key", 2);
+    // grid
+    check_error(kOpenWater + kGridProbe + "across = [\"2 cm\", \"0 cm\", \"0 cm\"]\npoints = [3, 3]\n", "across",
+                "probe[2].across", "parallel to along");
+    check_error(kOpenWater + kGridProbe + "across = [\"0 cm\", \"0 cm\", \"0 cm\"]\npoints = [3, 3]\n", "across",
+                "probe[2].across", "zero length");
+    check_error(kOpenWater + kGridProbe + "across = [\"0 cm\", \"1 cm\", \"0 cm\"]\npoints = 9\n", "points = 9",
+                "probe[2].points", "expected two whole numbers [points along, points across]");
+    check_error(kOpenWater + kGridProbe + "across = [\"0 cm\", \"1 cm\", \"0 cm\"]\npoints = [3, 1]\n", "points = [",
+                "probe[2].points[2]", "from 2 to 1000, got the number 1");
+    check_error(kOpenWater + kGridProbe + "across = [\"0 cm\", \"1 cm\", \"0 cm\"]\npoints = [3, 3]\nto = [\"0 m\", \"0 m\", \"1 m\"]\n",
+                "to = ", "probe[2].to", "allowed here: name, form, corner, along, across, points");
+    check_error(kOpenWater + kGridProbe + "points = [3, 3]\n", "[[probe]]", "probe[2].across", "missing required key", 2);
+}

@@ -88,18 +88,20 @@ TEST_CASE("scene builder: every example case reads and builds") {
         ++count;
         const CaseSpec spec = read_case_file(entry.path().string());
         std::size_t panels = 0, surfaces = 0;
+        // the sensing body, if the case has one, is the baseline's only surface
+        const std::size_t bodies = spec.fish || spec.robot ? 1 : 0;
         if (case_needs_complex(spec)) {
             const Scene<Complex> scene = build_scene<Complex>(spec, true);
             for (const auto& s : scene.surfaces) panels += s.mesh.size();
             surfaces = scene.surfaces.size();
-            CHECK(build_scene<Complex>(spec, false).surfaces.size() == 1);
+            CHECK(build_scene<Complex>(spec, false).surfaces.size() == bodies);
         } else {
             const Scene<double> scene = build_scene<double>(spec, true);
             for (const auto& s : scene.surfaces) panels += s.mesh.size();
             surfaces = scene.surfaces.size();
-            CHECK(build_scene<double>(spec, false).surfaces.size() == 1);
+            CHECK(build_scene<double>(spec, false).surfaces.size() == bodies);
         }
-        CHECK(surfaces == 1 + spec.objects.size());
+        CHECK(surfaces == bodies + spec.objects.size());
         // Examples must solve in seconds: the limit set for them in the design brief.
         CHECK(panels <= 2500);
         // Each opens with a comment block saying how to run it.
@@ -107,7 +109,7 @@ TEST_CASE("scene builder: every example case reads and builds") {
         CHECK(spec.text.find("build/murk solve cases/examples/" + entry.path().filename().string()) !=
               std::string::npos);
     }
-    CHECK(count >= 3);
+    CHECK(count >= 4);
 }
 
 TEST_CASE("scene builder: organ currents and positions along the organ") {
@@ -562,4 +564,244 @@ TEST_CASE("scene builder: object orientation turns the polar axis") {
     CHECK(max_coordinate(seed, 1) - min_coordinate(seed, 1) == doctest::Approx(0.02).epsilon(0.05));
     CHECK(max_coordinate(seed, 0) - min_coordinate(seed, 0) == doctest::Approx(0.006).epsilon(0.05));
     CHECK(max_coordinate(seed, 2) - min_coordinate(seed, 2) == doctest::Approx(0.006).epsilon(0.05));
+}
+
+// ---- free sources and probes ------------------------------------------------------------
+
+namespace {
+
+// Checks that building `text` fails with one line that starts at the line of the
+// nth `needle` with `key` and contains every one of `words`.
+void check_build_error(const std::string& text, const std::string& needle, const std::string& key,
+                       const std::vector<std::string>& words, int nth = 1, bool include_objects = true) {
+    const std::string m = build_error(text, include_objects);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, needle, nth)) + ": " + key + ": ", 0) == 0);
+    for (const std::string& w : words) CHECK(m.find(w) != std::string::npos);
+    CHECK(m.find('\n') == std::string::npos);
+}
+
+std::string point_source(const std::string& position, const std::string& current = "\"1 uA\"") {
+    return "[[source]]\nform = \"point\"\nposition = " + position + "\ncurrent = " + current + "\n";
+}
+
+std::string point_probe(const std::string& name, const std::string& position) {
+    return "[[probe]]\nname = \"" + name + "\"\nform = \"point\"\nposition = " + position + "\n";
+}
+
+// Open water, no body: one source at the origin and a probe beside it.
+const std::string kOpen = "title = \"o\"\n[water]\nconductivity = \"100 uS/cm\"\n[mesh]\npanel_size = \"2 mm\"\n" +
+                          point_source("[\"0 cm\", \"0 cm\", \"0 cm\"]", "\"10 uA\"") +
+                          point_probe("near", "[\"0 cm\", \"2 mm\", \"0 cm\"]");
+
+}  // namespace
+
+TEST_CASE("scene builder: points and currents of free sources") {
+    SourceSpec point;
+    point.form = SourceForm::point;
+    point.position_m = {0.01, -0.02, 0.03};
+    point.current_A = -5e-6;
+    std::vector<PointSource<double>> p = source_points(point);
+    REQUIRE(p.size() == 1);
+    CHECK(p[0].position == Vec3(0.01, -0.02, 0.03));
+    CHECK(p[0].current == -5e-6);
+
+    // 4 points from (0, 0, 0) to (0.06, 0.03, 0): steps of (0.02, 0.01, 0); 1 mA / 4 each
+    SourceSpec line;
+    line.form = SourceForm::line;
+    line.from_m = {0.0, 0.0, 0.0};
+    line.to_m = {0.06, 0.03, 0.0};
+    line.share = LineShare::equal;
+    line.points = 4;
+    line.total_current_A = 1e-3;
+    p = source_points(line);
+    REQUIRE(p.size() == 4);
+    for (int k = 0; k < 4; ++k) {
+        CHECK(p[k].position.x() == doctest::Approx(0.02 * k));
+        CHECK(p[k].position.y() == doctest::Approx(0.01 * k));
+        CHECK(p[k].position.z() == 0.0);
+        CHECK(p[k].current == doctest::Approx(2.5e-4));
+    }
+
+    // weights 1, -3, 2 with a peak of 6 uA: 2, -6, 4 uA at z = 0, 1, 2 cm
+    line.to_m = {0.0, 0.0, 0.02};
+    line.share = LineShare::weights;
+    line.weights = {1.0, -3.0, 2.0};
+    line.points = 3;
+    line.peak_current_A = 6e-6;
+    p = source_points(line);
+    REQUIRE(p.size() == 3);
+    const double currents[] = {2e-6, -6e-6, 4e-6};
+    for (int k = 0; k < 3; ++k) {
+        CHECK(p[k].position.z() == doctest::Approx(0.01 * k));
+        CHECK(p[k].current == doctest::Approx(currents[k]));
+    }
+}
+
+TEST_CASE("scene builder: free sources follow the organ, in the water and inside the fish") {
+    const std::string text = kFish + point_source("[\"0 cm\", \"5 cm\", \"0 cm\"]", "\"-20 uA\"") +
+                             "[[source]]\nform = \"line\"\nfrom = [\"-3 cm\", \"4 cm\", \"0 cm\"]\n"
+                             "to = [\"3 cm\", \"4 cm\", \"0 cm\"]\npoints = 4\ntotal_current = \"1 uA\"\n"
+                             "[[source]]\nform = \"line\"\nfrom = [\"0 cm\", \"-4 cm\", \"-1 cm\"]\n"
+                             "to = [\"0 cm\", \"-4 cm\", \"1 cm\"]\nweights = [1, -3, 2]\npeak_current = \"6 uA\"\n" +
+                             // on the axis, 1 cm ahead of the middle: the body is about 7 mm wide there
+                             point_source("[\"1 cm\", \"0 cm\", \"0 cm\"]", "\"3 uA\"");
+    const Scene<double> scene = build_scene<double>(spec_of(text), true);
+    REQUIRE(scene.sources.size() == 4 + 1 + 4 + 3 + 1);
+    // the organ's 4 points first (checked above), then the case's sources in order
+    CHECK(scene.sources[0].position.x() == doctest::Approx(0.075 - 0.2 * 0.15));
+    CHECK(scene.sources[4].position == Vec3(0.0, 0.05, 0.0));
+    CHECK(scene.sources[4].current == doctest::Approx(-2e-5));
+    for (int k = 0; k < 4; ++k) {  // x = -3, -1, 1, 3 cm, a quarter of 1 uA each
+        CHECK(scene.sources[5 + k].position.x() == doctest::Approx(-0.03 + 0.02 * k));
+        CHECK(scene.sources[5 + k].position.y() == doctest::Approx(0.04));
+        CHECK(scene.sources[5 + k].current == doctest::Approx(2.5e-7));
+    }
+    const double weighted[] = {2e-6, -6e-6, 4e-6};
+    for (int k = 0; k < 3; ++k) {
+        CHECK(scene.sources[9 + k].position.z() == doctest::Approx(-0.01 + 0.01 * k));
+        CHECK(scene.sources[9 + k].current == doctest::Approx(weighted[k]));
+    }
+    CHECK(scene.sources[12].position == Vec3(0.01, 0.0, 0.0));
+    CHECK(contains_point(scene.surfaces[0].mesh, scene.sources[12].position));
+    CHECK(scene.sources[12].current == doctest::Approx(3e-6));
+}
+
+TEST_CASE("scene builder: a case without a body") {
+    const std::string text =
+        kOpen + sphere_object("ball", "[\"3 cm\", \"0 cm\", \"0 cm\"]", "5 mm", "\"1 S/m\"");
+    const Scene<double> baseline = build_scene<double>(spec_of(text), false);
+    CHECK(baseline.surfaces.empty());
+    CHECK(baseline.electrodes.empty());
+    REQUIRE(baseline.sources.size() == 1);
+    CHECK(baseline.sources[0].position == Vec3::Zero());
+    CHECK(baseline.sources[0].current == doctest::Approx(1e-5));
+    CHECK(baseline.water_conductivity == doctest::Approx(1e-2));  // 100e-6 S / 1e-2 m
+    const Scene<double> full = build_scene<double>(spec_of(text), true);
+    REQUIRE(full.surfaces.size() == 1);
+    CHECK(full.surfaces[0].mesh.name == "ball");
+    CHECK(full.surfaces[0].kind == InterfaceKind::contact);
+    CHECK(full.sources.size() == 1);
+    // the sphere of 5 mm radius is centred at x = 3 cm
+    CHECK(max_coordinate(full.surfaces[0].mesh, 0) + min_coordinate(full.surfaces[0].mesh, 0) ==
+          doctest::Approx(0.06));
+    // panel sizes: mesh.panel_size caps the objects; without it, half the radius
+    CHECK(object_panel_size(spec_of(text), spec_of(text).objects[0]) == doctest::Approx(2e-3));
+    std::string free = text;
+    free.erase(free.find("[mesh]"), std::string("[mesh]\npanel_size = \"2 mm\"\n").size());
+    CHECK(object_panel_size(spec_of(free), spec_of(free).objects[0]) == doctest::Approx(2.5e-3));
+    CHECK(build_scene<double>(spec_of(free), true).surfaces.size() == 1);
+    // no body: mesh.panel_size stands for the body's, and without it there is no limit
+    CHECK(body_panel_size(spec_of(text)) == doctest::Approx(2e-3));
+    CHECK(std::isinf(body_panel_size(spec_of(free))));
+
+    // an imported object with no panel size anywhere: the file's own panels, whose
+    // equilateral edge of the mean area is worked out here from the written mesh
+    const fs::path dir = fs::temp_directory_path() / "murk_test_scene_builder_bodyless";
+    fs::create_directories(dir);
+    const TriangleMesh pebble = make_sphere(4.0, 2.0);  // radius 4 (mm), panels about 2 mm
+    write_stl((dir / "pebble.stl").string(), pebble);
+    double area = 0.0;
+    for (std::size_t t = 0; t < pebble.size(); ++t) area += pebble.area(t);
+    const double mean_edge_mm = std::sqrt(4.0 / std::sqrt(3.0) * area / static_cast<double>(pebble.size()));
+    std::string imported = free;
+    const std::string sphere_keys = "shape = \"sphere\"\nradius = \"5 mm\"";
+    imported.replace(imported.find(sphere_keys), sphere_keys.size(),
+                     "shape = \"mesh\"\nfile = \"pebble.stl\"\nscale = \"1 mm\"");
+    { std::ofstream(dir / "case.toml") << imported; }
+    const CaseSpec spec = read_case_file((dir / "case.toml").string());
+    CHECK(object_panel_size(spec, spec.objects[0]) == doctest::Approx(mean_edge_mm * 1e-3).epsilon(1e-6));
+    fs::remove_all(dir);
+}
+
+TEST_CASE("scene builder: sources inside the robot or an object, or near a surface, are refused") {
+    // inside the robot's capsule (radius 2 cm around its axis at y = 20 cm, z = 30 cm)
+    std::string text = kRobotHead + kElectrodes + point_source("[\"10 cm\", \"20 cm\", \"30 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]", {"the source at (0.1, 0.2, 0.3) m lies inside the robot",
+                                                        "in the water or inside the fish"});
+    // inside an insulating object and inside a conducting one
+    const std::string stone = sphere_object("stone", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"insulator\"");
+    text = kFish + stone + point_source("[\"0 cm\", \"5.2 cm\", \"0 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]", {"lies inside object 'stone'"});
+    text = kFish + sphere_object("snail", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"1 S/m\"") +
+           point_source("[\"0 cm\", \"5.2 cm\", \"0 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]", {"lies inside object 'snail'"});
+    // 0.1 mm outside the 5 mm sphere, whose panels are about 2.5 mm (half its radius)
+    text = kFish + stone + point_source("[\"0 cm\", \"5.51 cm\", \"0 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]",
+                      {"from the surface of object 'stone', less than a quarter of its mean panel edge"});
+    // 0.2 mm outside the fish's flank (half width 0.042 * 15 cm = 6.3 mm at mid-length),
+    // and 0.5 mm under its skin: the fish's panels are several millimetres
+    text = kFish + point_source("[\"0 cm\", \"6.5 mm\", \"0 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]", {"from the surface of the fish"});
+    text = kFish + point_source("[\"0 cm\", \"5.8 mm\", \"0 cm\"]");
+    check_build_error(text, "[[source]]", "source[1]", {"from the surface of the fish"});
+    // one point of a line: the third of 5 (x = 0) lies in the sphere at x = 0
+    text = kFish + stone +
+           "[[source]]\nform = \"line\"\nfrom = [\"-2 cm\", \"5 cm\", \"0 cm\"]\nto = [\"2 cm\", \"5 cm\", \"0 cm\"]\n"
+           "points = 5\ntotal_current = \"1 uA\"\n";
+    check_build_error(text, "[[source]]", "source[1]", {"source point 3 of 5 at (0, 0.05, 0) m lies inside object"});
+    // above the water surface
+    text = kFish + point_source("[\"0 cm\", \"5 cm\", \"4 cm\"]");
+    text.insert(text.find("[mesh]"), "surface_z = \"3 cm\"\n");
+    check_build_error(text, "[[source]]", "source[1]", {"lies above the water surface", "water.surface_z"});
+    // the baseline leaves the objects out, and only checks against what it holds
+    text = kFish + stone + point_source("[\"0 cm\", \"5.2 cm\", \"0 cm\"]");
+    CHECK(build_error(text, false).empty());
+}
+
+TEST_CASE("scene builder: probes inside the robot or an object, near a surface or on a source are refused") {
+    std::string text = kRobotHead + kElectrodes + point_probe("inner", "[\"10 cm\", \"25 cm\", \"30 cm\"]");
+    check_build_error(text, "[[probe]]", "probe[1]", {"probe 'inner' at (0.1, 0.25, 0.3) m lies inside the robot",
+                                                      "a probe may lie in the water or inside the fish"});
+    // a grid over the sphere at (0, 5 cm, 0): x = -1, 0, 1 cm (i), y = 3..7 cm (j); the
+    // first point in order inside the sphere is i = 2, j = 3 (x = 0, y = 5 cm)
+    const std::string stone = sphere_object("stone", "[\"0 cm\", \"5 cm\", \"0 cm\"]", "5 mm", "\"insulator\"");
+    const std::string grid = "[[probe]]\nname = \"map\"\nform = \"grid\"\ncorner = [\"-1 cm\", \"3 cm\", \"0 cm\"]\n"
+                             "along = [\"2 cm\", \"0 cm\", \"0 cm\"]\nacross = [\"0 cm\", \"4 cm\", \"0 cm\"]\n"
+                             "points = [3, 5]\n";
+    text = kFish + stone + grid;
+    check_build_error(text, "[[probe]]", "probe[1]", {"probe 'map' point map[2,3] at (0, 0.05, 0) m lies inside object 'stone'"});
+    CHECK(build_error(text, false).empty());  // no objects in the baseline
+    // a line whose last point is 0.1 mm from the sphere
+    text = kFish + stone + "[[probe]]\nname = \"axis\"\nform = \"line\"\nfrom = [\"0 cm\", \"8 cm\", \"0 cm\"]\n"
+                           "to = [\"0 cm\", \"5.51 cm\", \"0 cm\"]\npoints = 3\n";
+    check_build_error(text, "[[probe]]", "probe[1]", {"probe 'axis' point axis[3]", "from the surface of object 'stone'"});
+    // below the bottom
+    text = kFish + point_probe("deep", "[\"0 cm\", \"0 cm\", \"-6 cm\"]");
+    text.insert(text.find("[mesh]"), "bottom_z = \"-5 cm\"\n");
+    check_build_error(text, "[[probe]]", "probe[1]", {"probe 'deep' at (0, 0, -0.06) m lies below the bottom"});
+    // on a source point: the potential there is infinite
+    text = kOpen + point_probe("on", "[\"0 cm\", \"0 cm\", \"0 cm\"]");
+    check_build_error(text, "[[probe]]", "probe[2]", {"is on a source point"}, 2);
+    // on an organ point (the first, 0.2 of the length behind the nose: x = 4.5 cm)
+    text = kFish + point_probe("organ", "[\"4.5 cm\", \"0 cm\", \"0 cm\"]");
+    check_build_error(text, "[[probe]]", "probe[1]", {"is on a source point"});
+    // inside the fish, clear of the skin, and beside a source: accepted
+    text = kFish + point_probe("inside", "[\"1 cm\", \"0 cm\", \"0 cm\"]") +
+           point_probe("beside", "[\"4.5 cm\", \"1 mm\", \"0 cm\"]");
+    CHECK(build_error(text).empty());
+}
+
+TEST_CASE("scene builder: the point emitter example holds what its comments say") {
+    const CaseSpec spec = read_case_file((fs::path(MURK_SOURCE_DIR) / "cases/examples/point_emitter.toml").string());
+    CHECK(!spec.fish);
+    CHECK(!spec.robot);
+    const Scene<double> baseline = build_scene<double>(spec, false);
+    CHECK(baseline.surfaces.empty());
+    REQUIRE(baseline.sources.size() == 1);
+    CHECK(baseline.sources[0].current == doctest::Approx(1e-5));
+    REQUIRE(spec.probes.size() == 3);
+    // the probe beside the emitter is 2 mm from it
+    const ProbePoint& beside = spec.probe_points[spec.probes[0].first_point];
+    CHECK((Vec3(beside.position_m[0], beside.position_m[1], beside.position_m[2]) - baseline.sources[0].position)
+              .norm() == doctest::Approx(2e-3));
+    // the axis line in 1 mm steps, 1 mm off the axis
+    const ProbeSpec& axis = spec.probes[1];
+    REQUIRE(axis.point_count == 44);
+    for (std::size_t k = 0; k < 44; ++k) {
+        const Point3& x = spec.probe_points[axis.first_point + k].position_m;
+        CHECK(x[0] == doctest::Approx(-0.02 + 1e-3 * static_cast<double>(k)));
+        CHECK(x[1] == doctest::Approx(1e-3));
+    }
 }

@@ -7,15 +7,17 @@
 //   2. system assembly and dense LU for about 1k, 2k, 4k and 8k unknowns, real and
 //      complex;
 //   3. Eigen's PartialPivLU (what solve_dense uses) against OpenBLAS through
-//      LAPACKE getrf on the same matrices, with the residuals of both solutions;
+//      LAPACKE getrf on the same matrices, with the residuals of both solutions,
+//      on all threads and (3b) on one thread each;
 //   4. a summary.
 //
 // Every figure is a median of a few repetitions. The machine may be shared with
 // other builds, so the load average is read before and after each part and printed.
 //
 // Usage: murk-bench-core [--quick | --full]
-//   --quick  small sizes only (a smoke run of a few seconds)
+//   --quick  LU at 1k and 2k unknowns only (a smoke run)
 //   --full   also complex LU at 8k unknowns (adds about a minute)
+
 // GCC 12 reports a false "may be used uninitialized" inside Eigen's AVX-512 GEMM
 // packing (_mm256_undefined_pd in gemm_pack_rhs), instantiated here by the dense LU.
 #pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
@@ -49,6 +51,7 @@
 extern "C" {
 // OpenBLAS's own queries (declared in its cblas.h, which Debian may point elsewhere).
 int openblas_get_num_threads(void);
+void openblas_set_num_threads(int threads);
 char* openblas_get_config(void);
 char* openblas_get_corename(void);
 }
@@ -471,6 +474,49 @@ std::vector<S>& work_buffer(Eigen::Index n) {
     return buffer;
 }
 
+// Times of Eigen's PartialPivLU and of LAPACKE getrf on copies of sys.matrix, and the
+// solutions of each (from the last repetition made).
+template <class S>
+struct LuRuns {
+    std::vector<double> eigen, blas;  // seconds per factorization; blas empty without OpenBLAS
+    VectorX<S> x_eigen, x_blas;
+};
+
+template <class S>
+LuRuns<S> time_lu(const LinearSystem<S>& sys, int reps, double budget_s) {
+    const Eigen::Index n = sys.matrix.rows();
+    std::vector<S>& buffer = work_buffer<S>(n);
+    Eigen::Map<MatrixX<S>> work(buffer.data(), n, n);
+    LuRuns<S> runs;
+#ifdef MURK_BENCH_LAPACKE
+    std::vector<lapack_int> ipiv(static_cast<std::size_t>(n));
+#endif
+    // Eigen and OpenBLAS alternate so that both see the same load on a shared machine.
+    // On a busy machine a size may take far longer than planned: after the time budget
+    // no further repetition starts (the tables print how many were made).
+    const auto lu_start = Clock::now();
+    for (int r = 0; r < reps; ++r) {
+        if (r > 0 && seconds_between(lu_start, Clock::now()) > budget_s) break;
+        work = sys.matrix;
+        settle();
+        auto t0 = Clock::now();
+        Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>> lu(work);  // in place; same algorithm as solve_dense
+        runs.eigen.push_back(seconds_between(t0, Clock::now()));
+        runs.x_eigen = lu.solve(sys.rhs);  // untimed
+#ifdef MURK_BENCH_LAPACKE
+        work = sys.matrix;
+        settle();
+        t0 = Clock::now();
+        const lapack_int info = lapacke_getrf(n, work.data(), ipiv.data());
+        runs.blas.push_back(seconds_between(t0, Clock::now()));
+        if (info != 0) std::printf("  warning: getrf returned info = %d at n = %ld\n", info, static_cast<long>(n));
+        runs.x_blas = sys.rhs;
+        lapacke_getrs(n, work.data(), ipiv.data(), runs.x_blas.data());
+#endif
+    }
+    return runs;
+}
+
 template <class S>
 SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
     const double radius = 0.01;
@@ -509,50 +555,18 @@ SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
     f.n = n;
     f.flops = lu_flops<S>(n);
 
-    std::vector<S>& buffer = work_buffer<S>(n);
-    Eigen::Map<MatrixX<S>> work(buffer.data(), n, n);
-    VectorX<S> x_eigen, x_blas;
-    std::vector<double> t_eigen, t_blas;
-#ifdef MURK_BENCH_LAPACKE
-    std::vector<lapack_int> ipiv(static_cast<std::size_t>(n));
-#endif
-    // Eigen and OpenBLAS alternate so that both see the same load on a shared machine.
-    // On a busy machine a size may take far longer than planned: after the time budget
-    // no further repetition starts (the table prints how many were made).
-    const double budget_s = 40.0;
-    const auto lu_start = Clock::now();
-    for (int r = 0; r < reps; ++r) {
-        if (r > 0 && seconds_between(lu_start, Clock::now()) > budget_s) {
-            f.reps = r;
-            break;
-        }
-        work = sys.matrix;
-        settle();
-        auto t0 = Clock::now();
-        Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>> lu(work);  // in place; same algorithm as solve_dense
-        t_eigen.push_back(seconds_between(t0, Clock::now()));
-        x_eigen = lu.solve(sys.rhs);  // untimed; every rep, so the last one made is kept
-#ifdef MURK_BENCH_LAPACKE
-        work = sys.matrix;
-        settle();
-        t0 = Clock::now();
-        const lapack_int info = lapacke_getrf(n, work.data(), ipiv.data());
-        t_blas.push_back(seconds_between(t0, Clock::now()));
-        if (info != 0) std::printf("  warning: getrf returned info = %d at n = %ld\n", info, static_cast<long>(n));
-        x_blas = sys.rhs;
-        lapacke_getrs(n, work.data(), ipiv.data(), x_blas.data());
-#endif
-    }
-    f.eigen_s = median(t_eigen);
-    f.eigen_min_s = *std::min_element(t_eigen.begin(), t_eigen.end());
-    f.eigen_max_s = *std::max_element(t_eigen.begin(), t_eigen.end());
-    f.resid_eigen = relative_residual<S>(sys.matrix, x_eigen, sys.rhs);
-    if (!t_blas.empty()) {
-        f.blas_s = median(t_blas);
-        f.blas_min_s = *std::min_element(t_blas.begin(), t_blas.end());
-        f.blas_max_s = *std::max_element(t_blas.begin(), t_blas.end());
-        f.resid_blas = relative_residual<S>(sys.matrix, x_blas, sys.rhs);
-        f.solution_diff = (x_blas - x_eigen).norm() / x_eigen.norm();
+    const LuRuns<S> runs = time_lu(sys, reps, 40.0);
+    f.reps = static_cast<int>(runs.eigen.size());
+    f.eigen_s = median(runs.eigen);
+    f.eigen_min_s = *std::min_element(runs.eigen.begin(), runs.eigen.end());
+    f.eigen_max_s = *std::max_element(runs.eigen.begin(), runs.eigen.end());
+    f.resid_eigen = relative_residual<S>(sys.matrix, runs.x_eigen, sys.rhs);
+    if (!runs.blas.empty()) {
+        f.blas_s = median(runs.blas);
+        f.blas_min_s = *std::min_element(runs.blas.begin(), runs.blas.end());
+        f.blas_max_s = *std::max_element(runs.blas.begin(), runs.blas.end());
+        f.resid_blas = relative_residual<S>(sys.matrix, runs.x_blas, sys.rhs);
+        f.solution_diff = (runs.x_blas - runs.x_eigen).norm() / runs.x_eigen.norm();
     }
 
     // The solver's own call once: copy into a fresh matrix, factor, one solve.
@@ -564,12 +578,47 @@ SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
     return f;
 }
 
+// Both back ends restricted to one thread: the per-core efficiency of each, which a
+// busy machine disturbs far less than the two-thread runs.
+struct OneThreadFigures {
+    const char* scalar = "";
+    Eigen::Index n = 0;
+    int reps = 0;
+    double eigen_s = 0, blas_s = 0, flops = 0;
+};
+
+template <class S>
+OneThreadFigures bench_one_thread(Eigen::Index unknowns_goal, int reps) {
+    const double radius = 0.01;
+    const Scene<S> scene = contact_sphere_scene<S>(sphere_near(radius, unknowns_goal), radius);
+    const LinearSystem<S> sys = assemble_system(scene, QuadratureOptions{});
+    const int omp_threads = omp_get_max_threads();
+    omp_set_num_threads(1);
+#ifdef MURK_BENCH_LAPACKE
+    const int blas_threads = openblas_get_num_threads();
+    openblas_set_num_threads(1);
+#endif
+    const LuRuns<S> runs = time_lu(sys, reps, 20.0);
+    omp_set_num_threads(omp_threads);
+#ifdef MURK_BENCH_LAPACKE
+    openblas_set_num_threads(blas_threads);
+#endif
+    OneThreadFigures f;
+    f.scalar = scalar_name<S>();
+    f.n = sys.matrix.rows();
+    f.reps = static_cast<int>(runs.eigen.size());
+    f.flops = lu_flops<S>(f.n);
+    f.eigen_s = median(runs.eigen);
+    f.blas_s = runs.blas.empty() ? 0.0 : median(runs.blas);
+    return f;
+}
+
 void print_size_tables(const std::vector<SizeFigures>& all, bool have_blas) {
     std::printf("\n== 2. System assembly and dense LU (Eigen PartialPivLU, as used by solve_dense) ==\n");
     std::printf("  scene: one contact sphere (object in water, radius 10 mm, 2 unknowns per panel) meshed as a\n"
                 "  latitude/longitude sphere (make_capsule with zero cylinder) whose panel count is closest to\n"
                 "  half of 1k/2k/4k/8k unknowns, default QuadratureOptions, one point source in the water.\n"
-                "  LU flops: 2/3 n^3 (double), 8/3 n^3 real flops (complex). Medians; reps per row in 'reps'.\n"
+                "  LU flops: 2/3 n^3 (double), 8/3 n^3 real flops (complex). Medians; 'reps' = LU repetitions made.\n"
                 "  'LU s' factors a preallocated copy in place (solve_dense's algorithm, without allocation);\n"
                 "  'solve_dense s' is one call of the solver's own function (fresh copy + LU + one solve).\n\n");
     std::printf("  %-8s %7s %9s %5s %12s %15s %10s %12s %15s\n", "scalar", "panels", "unknowns", "reps",
@@ -588,7 +637,7 @@ void print_size_tables(const std::vector<SizeFigures>& all, bool have_blas) {
     std::printf("  same matrices, same work buffer, runs alternated; GFLOP/s as median (range over reps).\n"
                 "  speed-up = Eigen time / OpenBLAS time (> 1: OpenBLAS faster). residual = ||A x - b|| /\n"
                 "  (||A||_F ||x||) of each back end's solution; 'differ' = ||x_OpenBLAS - x_Eigen|| / ||x_Eigen||.\n\n");
-    std::printf("  %-8s %9s %10s %19s %12s %19s %9s %12s %12s %10s\n", "scalar", "unknowns", "Eigen s",
+    std::printf("  %-8s %9s %5s %10s %19s %12s %19s %9s %12s %12s %10s\n", "scalar", "unknowns", "reps", "Eigen s",
                 "Eigen GFLOP/s", "OpenBLAS s", "OpenBLAS GFLOP/s", "speed-up", "resid Eigen", "resid OBLAS",
                 "differ");
     for (const auto& f : all) {
@@ -597,10 +646,19 @@ void print_size_tables(const std::vector<SizeFigures>& all, bool have_blas) {
                       f.flops / f.eigen_max_s * 1e-9, f.flops / f.eigen_min_s * 1e-9);
         std::snprintf(b_rate, sizeof b_rate, "%.1f (%.0f-%.0f)", f.flops / f.blas_s * 1e-9,
                       f.flops / f.blas_max_s * 1e-9, f.flops / f.blas_min_s * 1e-9);
-        std::printf("  %-8s %9ld %10.3f %19s %12.3f %19s %8.2fx %12.1e %12.1e %10.1e\n", f.scalar,
-                    static_cast<long>(f.n), f.eigen_s, e_rate, f.blas_s, b_rate, f.eigen_s / f.blas_s,
+        std::printf("  %-8s %9ld %5d %10.3f %19s %12.3f %19s %8.2fx %12.1e %12.1e %10.1e\n", f.scalar,
+                    static_cast<long>(f.n), f.reps, f.eigen_s, e_rate, f.blas_s, b_rate, f.eigen_s / f.blas_s,
                     f.resid_eigen, f.resid_blas, f.solution_diff);
     }
+}
+
+void print_one_thread_table(const std::vector<OneThreadFigures>& all) {
+    std::printf("\n== 3b. Same comparison with one thread each (per-core efficiency; less sensitive to load) ==\n\n");
+    std::printf("  %-8s %9s %5s %10s %14s %12s %17s %9s\n", "scalar", "unknowns", "reps", "Eigen s", "Eigen GFLOP/s",
+                "OpenBLAS s", "OpenBLAS GFLOP/s", "speed-up");
+    for (const auto& f : all)
+        std::printf("  %-8s %9ld %5d %10.3f %14.1f %12.3f %17.1f %8.2fx\n", f.scalar, static_cast<long>(f.n), f.reps,
+                    f.eigen_s, f.flops / f.eigen_s * 1e-9, f.blas_s, f.flops / f.blas_s * 1e-9, f.eigen_s / f.blas_s);
 }
 
 }  // namespace
@@ -654,11 +712,15 @@ int main(int argc, char** argv) {
         complex_sizes = {{1000, 3}};
     }
     std::vector<SizeFigures> sizes;
+    std::vector<OneThreadFigures> single_thread;
     for (const auto& [goal, reps] : real_sizes) sizes.push_back(bench_size<double>(goal, reps));
+    single_thread.push_back(bench_one_thread<double>(2000, 3));
     work_buffer<double>(0) = std::vector<double>();  // hand the real buffer back before the complex one
     for (const auto& [goal, reps] : complex_sizes) sizes.push_back(bench_size<Complex>(goal, reps));
+    single_thread.push_back(bench_one_thread<Complex>(2000, 3));
     work_buffer<Complex>(0) = std::vector<Complex>();
     print_size_tables(sizes, have_blas);
+    if (have_blas) print_one_thread_table(single_thread);
     print_load("at end");
 
     // ---------------------------------------------------------------- summary
@@ -679,6 +741,11 @@ int main(int argc, char** argv) {
                         f.eigen_s / f.blas_s);
         std::printf("\n");
     }
+    if (have_blas)
+        for (const auto& f : single_thread)
+            std::printf("  %-7s n = %5ld, one thread each: Eigen %.1f GFLOP/s, OpenBLAS %.1f GFLOP/s (%.2fx)\n",
+                        f.scalar, static_cast<long>(f.n), f.flops / f.eigen_s * 1e-9, f.flops / f.blas_s * 1e-9,
+                        f.eigen_s / f.blas_s);
     std::printf("  machine: highest 1-minute load average seen %.2f -> %s\n", max_load,
                 max_load > 1.5 ? "SHARED with other work; figures may be low and noisy"
                                : "quiet (load <= 1.5)");

@@ -46,4 +46,4 @@ grep -q "4" "$dir/tet.txt"
 grep -q "POLYGONS 4" "$dir/tet.vtk" || { echo "VTK file does not hold 4 polygons"; exit 1; }
 "$murk" mesh "$dir/tet.stl" --convert "$dir/tet2.stl" > /dev/null
 "$murk" mesh "$dir/tet2.stl" > "$dir/tet2.txt"
-diff <(grep -i "panel" "$dir/tet.txt") <(grep -i "panel" "$dir/tet2.txt")
+diff <(grep -o "[0-9]* panels, [0-9]* vertices" "$dir/tet.txt") <(grep -o "[0-9]* panels, [0-9]* vertices" "$dir/tet2.txt")

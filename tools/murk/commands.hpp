@@ -30,4 +30,19 @@ struct MeshArgs {
 };
 int mesh_command(const MeshArgs& args);
 
+struct InspectArgs {
+    std::string path;  // a result file of murk run or murk solve
+};
+int inspect_command(const InspectArgs& args);
+
+struct RunArgs {
+    std::string case_path;
+    std::string output_path;
+    int threads = 0;        // 0: OpenMP's default
+    bool resume = false;
+    bool force = false;
+    bool quiet = false;
+};
+int run_command(const RunArgs& args, const std::string& command_line);
+
 }  // namespace murk::cli

@@ -29,6 +29,19 @@ int main(int argc, char** argv) {
     verify_cmd->add_option("--far-ratio", verify.far_ratio, "centroid rule beyond this distance/panel size")
         ->check(CLI::PositiveNumber);
 
+    murk::cli::RunArgs run;
+    auto* run_cmd = app.add_subcommand("run", "solve the case's sweep and write detection maps");
+    run_cmd->add_option("case", run.case_path, "case file (TOML) with a [sweep] section")->required();
+    run_cmd->add_option("-o,--output", run.output_path, "result file (HDF5)")->required();
+    run_cmd->add_flag("--resume", run.resume, "finish the points an interrupted run left in OUT.h5.partial");
+    run_cmd->add_flag("--force", run.force, "replace an existing result file");
+    run_cmd->add_flag("--quiet", run.quiet, "no progress lines");
+    run_cmd->add_option("--threads", run.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+
+    murk::cli::InspectArgs inspect;
+    auto* inspect_cmd = app.add_subcommand("inspect", "a readable summary of a result file");
+    inspect_cmd->add_option("file", inspect.path, "result file (HDF5) of murk run or murk solve")->required();
+
     murk::cli::SolveArgs solve;
     auto* solve_cmd = app.add_subcommand("solve", "solve one configuration of a case: baseline, with objects, difference");
     solve_cmd->add_option("case", solve.case_path, "case file (TOML)")->required();
@@ -53,6 +66,8 @@ int main(int argc, char** argv) {
     }
 
     try {
+        if (*run_cmd) return murk::cli::run_command(run, joined(argc, argv));
+        if (*inspect_cmd) return murk::cli::inspect_command(inspect);
         if (*verify_cmd) return murk::cli::verify_command(verify);
         if (*solve_cmd) return murk::cli::solve_command(solve, joined(argc, argv));
         if (*mesh_cmd) return murk::cli::mesh_command(mesh);

@@ -2,6 +2,7 @@
 // read the case, build the scenes (baseline without objects, and with them),
 // assemble, solve, write, summarize.
 #include "cases/case_reader.hpp"
+#include "cases/probe_output.hpp"
 #include "cases/result_metadata.hpp"
 #include "cases/scene_builder.hpp"
 #include "cases/solve_output.hpp"
@@ -27,6 +28,7 @@ struct StageTimes { double assemble = 0, solve = 0; };
 
 template <class S>
 Solution<S> solve_timed(const Scene<S>& scene, const QuadratureOptions& quad, StageTimes& times) {
+    if (scene.surfaces.empty()) return solve_scene(scene, quad);  // nothing to assemble
     auto t = Clock::now();
     LinearSystem<S> system = assemble_system(scene, quad);
     times.assemble += seconds_since(t);
@@ -55,6 +57,7 @@ void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const Stag
                 std::is_same_v<S, double> ? "real (direct current or no capacitance)" : "complex", unknowns);
     std::printf("time: baseline assemble %.2f s, solve %.2f s; with objects assemble %.2f s, solve %.2f s\n",
                 base.assemble, base.solve, pert.assemble, pert.solve);
+    if (solved.baseline.surfaces.empty()) return;  // no sensing body: the probes tell
     const Surface<S>& body = solved.baseline.surfaces[0];
     if (body.kind == InterfaceKind::membrane) {
         const auto& before = solved.baseline_solution.surfaces[0];
@@ -102,6 +105,10 @@ int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& c
     write_result_metadata(output.root(), spec, command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
     write_solve_result(output.root(), solved);
+    const ProbeValues<S> probes_before = evaluate_probes(spec, solved.baseline, solved.baseline_solution, quad);
+    const ProbeValues<S> probes_after = evaluate_probes(spec, solved.perturbed, solved.perturbed_solution, quad);
+    H5Group root = output.root();
+    write_probes(root, spec, probes_before, probes_after);
     output.commit();
 
     if (!args.quiet) {
@@ -109,6 +116,13 @@ int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& c
         for (const auto& s : solved.perturbed.surfaces)
             unknowns += (s.kind == InterfaceKind::sealed ? 1 : 2) * s.mesh.size();
         print_summary(spec, solved, base, pert, unknowns + solved.perturbed.electrodes.size());
+        for (const ProbeSpec& probe : spec.probes) {
+            double peak = 0;
+            for (std::size_t i = probe.first_point; i < probe.first_point + probe.point_count; ++i)
+                peak = std::max(peak, magnitude(probes_after.potential[i] - probes_before.potential[i]));
+            std::printf("probe %-12s %zu points, largest |change of potential| %.4g V\n", probe.name.c_str(),
+                        probe.point_count, peak);
+        }
         std::printf("wrote %s\n", args.output_path.c_str());
     }
     return 0;

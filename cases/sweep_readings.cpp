@@ -1,0 +1,90 @@
+#include "cases/sweep_readings.hpp"
+
+#include "geometry/input_error.hpp"
+
+#include <Eigen/Eigenvalues>
+#include <cmath>
+
+namespace murk {
+
+template <class S>
+SensorLayout sensor_layout(const Scene<S>& baseline, const std::string& where) {
+    SensorLayout layout;
+    const Surface<S>& body = baseline.surfaces.front();
+    if (body.kind == InterfaceKind::membrane) {
+        layout.skin = true;
+        layout.units = "V";
+        for (std::size_t t = 0; t < body.mesh.size(); ++t) {
+            layout.position.push_back(body.mesh.centroid(t));
+            layout.area.push_back(body.mesh.area(t));
+        }
+        // Long axis: the principal direction of largest spread of the vertices.
+        Vec3 mean = Vec3::Zero();
+        for (const Vec3& v : body.mesh.vertices) mean += v;
+        mean /= double(body.mesh.vertices.size());
+        Eigen::Matrix3d cov = Eigen::Matrix3d::Zero();
+        for (const Vec3& v : body.mesh.vertices) cov += (v - mean) * (v - mean).transpose();
+        Eigen::SelfAdjointEigenSolver<Eigen::Matrix3d> eig(cov);
+        layout.body_axis = eig.eigenvectors().col(2);
+        return layout;
+    }
+    bool voltage = false, current = false;
+    for (std::size_t e = 0; e < baseline.electrodes.size(); ++e) {
+        const ElectrodeDrive d = baseline.electrodes[e].drive;
+        if (d != ElectrodeDrive::floating && d != ElectrodeDrive::fixed_potential) continue;
+        (d == ElectrodeDrive::floating ? voltage : current) = true;
+        layout.electrodes.push_back(static_cast<int>(e));
+        layout.names.push_back(baseline.electrodes[e].name);
+        Vec3 centre = Vec3::Zero();
+        double area = 0;
+        for (std::size_t t = 0; t < body.mesh.size(); ++t)
+            if (body.panel_electrode[t] == static_cast<int>(e))
+                centre += body.mesh.area(t) * body.mesh.centroid(t), area += body.mesh.area(t);
+        layout.position.push_back(centre / area);
+    }
+    if (layout.electrodes.empty()) throw InputError(where + ": the robot has no sensor electrodes to read");
+    if (voltage && current)
+        throw InputError(where + ": a sweep reads one kind of sensor; this robot has both floating "
+                                 "(voltage) and fixed-potential (current) sensors");
+    layout.units = voltage ? "V" : "A";
+    return layout;
+}
+
+template <class S>
+std::vector<S> sensor_readings(const SensorLayout& sensors, const Solution<S>& solution) {
+    std::vector<S> out;
+    if (sensors.skin) {
+        const auto& skin = solution.surfaces.front();
+        for (Eigen::Index k = 0; k < skin.outer_potential.size(); ++k)
+            out.push_back(skin.inner_potential(k) - skin.outer_potential(k));
+        return out;
+    }
+    for (int e : sensors.electrodes)
+        out.push_back(sensors.units == "V" ? solution.electrode_potential[e] : solution.electrode_current[e]);
+    return out;
+}
+
+template <class S>
+ImageSummary summarize_image(const SensorLayout& sensors, const std::vector<S>& change) {
+    ImageSummary s;
+    for (std::size_t k = 0; k < change.size(); ++k)
+        if (std::abs(change[k]) > s.peak) s.peak = std::abs(change[k]), s.peak_sensor = k;
+    if (!sensors.skin || s.peak == 0) return s;
+    double lo = INFINITY, hi = -INFINITY;
+    for (std::size_t k = 0; k < change.size(); ++k)
+        if (std::abs(change[k]) >= 0.5 * s.peak) {
+            const double x = sensors.position[k].dot(sensors.body_axis);
+            lo = std::min(lo, x), hi = std::max(hi, x);
+        }
+    s.width = hi - lo;
+    return s;
+}
+
+template SensorLayout sensor_layout(const Scene<double>&, const std::string&);
+template SensorLayout sensor_layout(const Scene<Complex>&, const std::string&);
+template std::vector<double> sensor_readings(const SensorLayout&, const Solution<double>&);
+template std::vector<Complex> sensor_readings(const SensorLayout&, const Solution<Complex>&);
+template ImageSummary summarize_image(const SensorLayout&, const std::vector<double>&);
+template ImageSummary summarize_image(const SensorLayout&, const std::vector<Complex>&);
+
+}  // namespace murk

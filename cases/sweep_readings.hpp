@@ -1,0 +1,44 @@
+#pragma once
+// What the sensors of the body read at one sweep point, as a change from the
+// baseline: the transdermal voltage of every skin panel of a fish, or the
+// reading of every sensor electrode of a robot (potential of a floating sensor,
+// current of a fixed-potential sensor). Plus the peak and the image width.
+#include "solver/scene.hpp"
+
+#include <string>
+#include <vector>
+
+namespace murk {
+
+struct SensorLayout {
+    bool skin = false;                   // fish: one sensor per skin panel
+    std::vector<int> electrodes;         // robot: sensor electrode indices
+    std::vector<std::string> names;      // robot: sensor names
+    std::string units;                   // "V" or "A"
+    std::vector<Vec3> position;          // panel centroid, or electrode centre
+    std::vector<double> area;            // skin panel area (m2); empty for robots
+    Vec3 body_axis = Vec3::UnitX();      // long axis of the body (image width)
+    std::size_t size() const { return position.size(); }
+};
+
+// Sensors of the baseline scene (surface 0 is the sensing body). A robot with
+// no sensor electrodes, or with both voltage and current sensors, is an
+// InputError (one map holds one kind of reading).
+template <class S>
+SensorLayout sensor_layout(const Scene<S>& baseline, const std::string& where);
+
+template <class S>
+std::vector<S> sensor_readings(const SensorLayout& sensors, const Solution<S>& solution);
+
+struct ImageSummary {
+    double peak = 0;          // largest |change|
+    std::size_t peak_sensor = 0;
+    double width = 0;         // m, full width at half maximum along the body axis (skin only)
+};
+
+// Full width at half maximum: the extent along the body axis of the skin panels
+// whose |change| is at least half the peak (on every side of the body).
+template <class S>
+ImageSummary summarize_image(const SensorLayout& sensors, const std::vector<S>& change);
+
+}  // namespace murk

@@ -1,0 +1,341 @@
+#include "cases/sweep_runner.hpp"
+
+#include "cases/detectability.hpp"
+#include "cases/hdf5_file.hpp"
+#include "cases/result_metadata.hpp"
+#include "cases/scene_builder.hpp"
+#include "cases/solve_output.hpp"
+#include "cases/sweep_analysis.hpp"
+#include "cases/sweep_axes.hpp"
+#include "cases/sweep_point.hpp"
+#include "cases/sweep_readings.hpp"
+#include "geometry/input_error.hpp"
+#include "solver/bem_system.hpp"
+
+#include <unistd.h>
+
+#include <atomic>
+#include <optional>
+#include <chrono>
+#include <csignal>
+#include <cstdio>
+
+namespace murk {
+
+namespace {
+
+std::atomic<bool> g_stop_requested{false};
+extern "C" void request_stop(int) { g_stop_requested = true; }
+
+using Clock = std::chrono::steady_clock;
+
+constexpr std::uint8_t kNotComputed = 0, kComputed = 1, kMasked = 2;
+
+// Progress on stderr: a live line on a terminal, a plain line every 10 s otherwise.
+class Progress {
+public:
+    Progress(std::size_t total, std::size_t already, bool quiet)
+        : total_(total), done_(already), start_done_(already), quiet_(quiet), tty_(isatty(STDERR_FILENO)) {}
+    void point_done() {
+        ++done_;
+        if (quiet_) return;
+        const double elapsed = std::chrono::duration<double>(Clock::now() - start_).count();
+        if (!tty_ && elapsed - last_print_ < 10.0 && done_ < total_) return;
+        last_print_ = elapsed;
+        const double rate = (done_ - start_done_) / std::max(elapsed, 1e-9);
+        const double left = rate > 0 ? (total_ - done_) / rate : 0.0;
+        std::fprintf(stderr, "%spoints %zu/%zu, %.2f points/s, %.0f s left%s", tty_ ? "\r" : "", done_, total_,
+                     rate, left, tty_ ? "   " : "\n");
+        if (tty_ && done_ == total_) std::fprintf(stderr, "\n");
+    }
+
+private:
+    std::size_t total_, done_, start_done_;
+    bool quiet_, tty_;
+    Clock::time_point start_ = Clock::now();
+    double last_print_ = -1e9;
+};
+
+NoiseModel noise_model(const DetectionSpec& d) {
+    NoiseModel m;
+    switch (d.noise) {
+        case DetectionSpec::Noise::receptors:
+            m.kind = NoiseKind::receptors;
+            m.receptor_noise_V = d.receptor_noise_V;
+            break;
+        case DetectionSpec::Noise::voltage_amplifier:
+            m.kind = NoiseKind::voltage_amplifier;
+            m.voltage_noise_density_V_per_rtHz = d.noise_density;
+            m.noise_bandwidth_Hz = noise_bandwidth_of_average(d.integration_time_s);
+            break;
+        case DetectionSpec::Noise::current_amplifier:
+            m.kind = NoiseKind::current_amplifier;
+            m.current_noise_density_A_per_rtHz = d.noise_density;
+            m.noise_bandwidth_Hz = noise_bandwidth_of_average(d.integration_time_s);
+            break;
+    }
+    return m;
+}
+
+H5Shape with(const std::vector<std::size_t>& shape, std::initializer_list<hsize_t> tail = {}) {
+    H5Shape s(shape.begin(), shape.end());
+    s.insert(s.end(), tail);
+    return s;
+}
+
+template <class S>
+class SweepRun {
+public:
+    SweepRun(const CaseSpec& spec, const RunOptions& options) : spec_(spec), options_(options) {}
+
+    RunOutcome run() {
+        plan();
+        solve_baselines();
+        open_output();
+        try {
+            compute_points();
+        } catch (...) {
+            output_->suspend();  // keep every finished point for --resume
+            throw;
+        }
+        if (g_stop_requested) {
+            output_->suspend();
+            std::fprintf(stderr,
+                         "murk: interrupted; %zu of %zu points are kept in %s; run again with --resume to finish\n",
+                         finished_, total_, H5Output::partial_path(options_.output_path).c_str());
+            return RunOutcome::interrupted;
+        }
+        analyse_and_commit();
+        return RunOutcome::complete;
+    }
+
+private:
+    // ---- stage: plan
+    void plan() {
+        sweep_ = *spec_.sweep;
+        where_ = spec_.path + ":" + std::to_string(sweep_.line) + ": sweep";
+        axes_ = sweep_axes(sweep_);
+        shape_ = axis_shape(axes_);
+        total_ = point_count(axes_);
+        (void)swept_object_index(spec_, sweep_);
+        if (find_axis(axes_, AxisKind::distance) >= 0 && sweep_.grid)
+            throw InputError(where_ + ": a sweep moves the object either by distance or on a grid, not both");
+    }
+
+    // ---- stage: baseline, one per water conductivity
+    void solve_baselines() {
+        const int w = find_axis(axes_, AxisKind::water_conductivity);
+        waters_ = w >= 0 ? axes_[w].values : std::vector<double>{spec_.water.conductivity_S_per_m};
+        const QuadratureOptions quad = quadrature_options(spec_);
+        for (double sigma : waters_) {
+            CaseSpec s = spec_;
+            s.water.conductivity_S_per_m = sigma;
+            baseline_scenes_.push_back(build_scene<S>(s, false));
+            baseline_solutions_.push_back(solve_scene(baseline_scenes_.back(), quad));
+        }
+        sensors_ = sensor_layout(baseline_scenes_.front(), where_);
+        for (const auto& sol : baseline_solutions_) baseline_readings_.push_back(sensor_readings(sensors_, sol));
+        if (spec_.detection) {
+            noise_ = noise_model(*spec_.detection);
+            if (sensors_.skin) {
+                if (noise_.kind != NoiseKind::receptors)
+                    throw InputError(where_ + ": a fish's skin needs the receptor noise model");
+                for (double a : sensors_.area) receptors_.push_back(a * spec_.detection->receptor_density_per_m2);
+            } else if (noise_.kind == NoiseKind::receptors) {
+                throw InputError(where_ + ": a robot's sensors need an amplifier noise model");
+            }
+        }
+    }
+
+    // ---- stage: open the result file (new, or the partial file of an interrupted run)
+    void open_output() {
+        const char* hint = "pass --force to replace it";
+        if (options_.resume) {
+            output_.emplace(H5Output::resume(options_.output_path, options_.force, hint));
+            H5Group root = output_->root();
+            if (root.string_attribute("case_sha256") != sha256_hex(spec_.text))
+                throw InputError(H5Output::partial_path(options_.output_path) +
+                                 ": was started from a different case file; refusing to resume it with " + spec_.path);
+            const auto status = root.read<std::uint8_t>("sweep/status");
+            status_ = status.values;
+            for (auto s : status_) finished_ += s != kNotComputed;
+            return;
+        }
+        output_.emplace(options_.output_path, options_.force, hint);
+        H5Group root = output_->root();
+        write_result_metadata(root, spec_, options_.command_line,
+                              "full boundary-element solve at every point (no approximation beyond the discretization)",
+                              quadrature_options(spec_));
+        const Surface<S>& body = baseline_scenes_.front().surfaces.front();
+        const std::string body_name = surface_group_name(body.mesh.name);
+        root.set_attribute("body", body_name);
+        write_mesh(root.group("mesh/" + body_name), body.mesh);
+        write_surface_values(root.group("baseline/" + body_name), body, baseline_solutions_.front().surfaces.front());
+        H5Group sweep = root.group("sweep");
+        std::vector<H5Dataset> scales;
+        for (const SweepAxis& a : axes_) {
+            H5Dataset d = sweep.write(a.name, a.values, a.units, a.long_name);
+            d.make_scale(a.name);
+            scales.push_back(d);
+        }
+        if (sweep_.grid) {
+            H5Dataset u = sweep.dataset("grid_u");
+            const auto v3 = [](const std::array<double, 3>& p) { return std::vector<double>(p.begin(), p.end()); };
+            u.set_attribute("grid_origin", v3(sweep_.grid->origin_m));
+            u.set_attribute("grid_u_direction", v3(sweep_.grid->u_direction));
+            u.set_attribute("grid_v_direction", v3(sweep_.grid->v_direction));
+        }
+        std::vector<std::int32_t> sensor_index(sensors_.size());
+        for (std::size_t k = 0; k < sensor_index.size(); ++k) sensor_index[k] = static_cast<std::int32_t>(k);
+        H5Dataset sensor = sweep.write("sensor", sensor_index, "1",
+                                       sensors_.skin ? "skin panel index" : "sensor electrode index");
+        sensor.make_scale("sensor");
+        if (!sensors_.skin) {
+            std::string names;
+            for (std::size_t k = 0; k < sensors_.names.size(); ++k) names += (k ? "," : "") + sensors_.names[k];
+            sensor.set_attribute("sensor_names", names);
+        }
+        scales.push_back(sensor);
+        sweep.write("baseline_reading", flatten(baseline_readings_),
+                    {hsize_t(baseline_readings_.size()), hsize_t(sensors_.size())}, sensors_.units,
+                    sensors_.skin ? "baseline transdermal voltage per skin panel, per water conductivity"
+                                  : "baseline sensor reading, per water conductivity");
+
+        const H5Layout chunked = H5Layout::compressed(4);
+        const std::string kind = sensors_.skin ? "transdermal voltage" : "sensor reading";
+        auto attach = [&](H5Dataset d, bool sensor_dim) {
+            for (std::size_t a = 0; a < axes_.size(); ++a) d.attach_scale(scales[a], unsigned(a));
+            if (sensor_dim) d.attach_scale(scales.back(), unsigned(axes_.size()));
+        };
+        attach(sweep.create_extendible<std::uint8_t>("status", with(shape_), "1",
+                                                     "0 not computed, 1 computed, 2 masked (object would touch the body, "
+                                                     "another object or the plane)", chunked), false);
+        attach(sweep.create_extendible<S>("perturbation", with(shape_, {hsize_t(sensors_.size())}), sensors_.units,
+                                          "change of the " + kind + " caused by the object", chunked), true);
+        attach(sweep.create_extendible<double>("peak_perturbation", with(shape_), sensors_.units,
+                                               "largest magnitude of the change over the sensors", chunked), false);
+        attach(sweep.create_extendible<std::int32_t>("peak_sensor", with(shape_), "1",
+                                                     "sensor index of the peak", chunked), false);
+        sweep.create_extendible<double>("peak_position", with(shape_, {3}), "m", "position of the peak sensor", chunked);
+        sweep.create_extendible<double>("object_position", with(shape_, {3}), "m", "object centre", chunked);
+        if (sensors_.skin)
+            attach(sweep.create_extendible<double>("image_width", with(shape_), "m",
+                                                   "full width at half maximum of the electric image along the body axis "
+                                                   "(resolution: one panel)", chunked), false);
+        if (spec_.detection) {
+            attach(sweep.create_extendible<double>("snr", with(shape_), "1",
+                                                   "ideal-observer signal-to-noise ratio d' (amplitude)", chunked), false);
+            attach(sweep.create_extendible<double>("detection_probability", with(shape_), "1",
+                                                   "Neyman-Pearson detection probability", chunked), false);
+        }
+        status_.assign(total_, kNotComputed);
+        output_->file().flush();
+    }
+
+    // ---- stage: every point not yet computed
+    void compute_points() {
+        Progress progress(total_, finished_, options_.quiet);
+        const QuadratureOptions quad = quadrature_options(spec_);
+        const int water_axis = find_axis(axes_, AxisKind::water_conductivity);
+        H5Group sweep = output_->root().open_group("sweep");
+        for (std::size_t p = 0; p < total_ && !g_stop_requested; ++p) {
+            if (status_[p] != kNotComputed) continue;
+            const std::vector<std::size_t> index = unflatten(p, axes_);
+            const std::size_t w = water_axis >= 0 ? index[water_axis] : 0;
+            const TriangleMesh& body = baseline_scenes_[w].surfaces.front().mesh;
+            PointSetup setup = configure_point(spec_, sweep_, axes_, index, body);
+            std::optional<Scene<S>> scene;
+            if (!setup.masked) {
+                try {
+                    scene = build_scene<S>(setup.spec, true);
+                } catch (const InputError& e) {  // touches another object, or leaves the water
+                    setup.masked = true, setup.mask_reason = e.what();
+                }
+            }
+            H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
+            const Vec3 c = setup.object_centre;
+            write(sweep, "object_position", offset, count, {3}, std::vector<double>{c.x(), c.y(), c.z()});
+            if (setup.masked) {
+                status_[p] = kMasked;
+            } else {
+                const Solution<S> solution = solve_scene(*scene, quad);
+                std::vector<S> change = sensor_readings(sensors_, solution);
+                for (std::size_t k = 0; k < change.size(); ++k) change[k] -= baseline_readings_[w][k];
+                const ImageSummary image = summarize_image(sensors_, change);
+                write(sweep, "perturbation", offset, count, {hsize_t(change.size())}, change);
+                write(sweep, "peak_perturbation", offset, count, {}, std::vector<double>{image.peak});
+                write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{std::int32_t(image.peak_sensor)});
+                const Vec3 at = sensors_.position[image.peak_sensor];
+                write(sweep, "peak_position", offset, count, {3}, std::vector<double>{at.x(), at.y(), at.z()});
+                if (sensors_.skin) write(sweep, "image_width", offset, count, {}, std::vector<double>{image.width});
+                if (spec_.detection) {
+                    const double snr = detectability_index(noise_, change, receptors_);
+                    const double pd = detection_probability(snr, spec_.detection->false_alarm_probability);
+                    write(sweep, "snr", offset, count, {}, std::vector<double>{snr});
+                    write(sweep, "detection_probability", offset, count, {}, std::vector<double>{pd});
+                }
+                status_[p] = kComputed;
+            }
+            // The status is written last and flushed: a point counts as done only
+            // once all its values are on disk.
+            write(sweep, "status", offset, count, {}, std::vector<std::uint8_t>{status_[p]});
+            output_->file().flush();
+            ++finished_;
+            progress.point_done();
+        }
+    }
+
+    // ---- stage: detection range and falloff, sidecar, commit
+    void analyse_and_commit() {
+        H5Group root = output_->root();
+        write_sweep_analysis(root, axes_, spec_.detection);
+        output_->commit();
+        if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), total_);
+    }
+
+    template <class T>
+    static void write(H5Group& sweep, const char* name, const H5Shape& offset, const H5Shape& count,
+                      std::initializer_list<hsize_t> tail, const std::vector<T>& values) {
+        H5Shape o = offset, c = count;
+        for (hsize_t t : tail) o.push_back(0), c.push_back(t);
+        sweep.dataset(name).write_slab(o, c, values);
+    }
+
+    static std::vector<S> flatten(const std::vector<std::vector<S>>& rows) {
+        std::vector<S> out;
+        for (const auto& r : rows) out.insert(out.end(), r.begin(), r.end());
+        return out;
+    }
+
+    const CaseSpec& spec_;
+    const RunOptions& options_;
+    SweepSpec sweep_;
+    std::string where_;
+    std::vector<SweepAxis> axes_;
+    std::vector<std::size_t> shape_;
+    std::size_t total_ = 0, finished_ = 0;
+    std::vector<double> waters_;
+    std::vector<Scene<S>> baseline_scenes_;
+    std::vector<Solution<S>> baseline_solutions_;
+    std::vector<std::vector<S>> baseline_readings_;
+    SensorLayout sensors_;
+    NoiseModel noise_;
+    std::vector<double> receptors_;
+    std::optional<H5Output> output_;
+    std::vector<std::uint8_t> status_;
+};
+
+}  // namespace
+
+void install_stop_handlers() {
+    std::signal(SIGINT, request_stop);
+    std::signal(SIGTERM, request_stop);
+}
+
+RunOutcome run_sweep(const CaseSpec& spec, const RunOptions& options) {
+    if (!spec.sweep) throw InputError(spec.path + ": murk run needs a [sweep] section (murk solve runs one configuration)");
+    if (case_needs_complex(spec)) return SweepRun<Complex>(spec, options).run();
+    return SweepRun<double>(spec, options).run();
+}
+
+}  // namespace murk

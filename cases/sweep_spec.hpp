@@ -1,0 +1,49 @@
+#pragma once
+// The [sweep] and [detection] sections of a case: which object changes, along
+// which axes, and the noise model that turns perturbations into detectability.
+// Plain data in SI units; read by the case reader, expanded by sweep_axes.
+#include <array>
+#include <limits>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace murk {
+
+// A planar grid of object centre positions: origin + u * u_direction + v * v_direction.
+struct SweepGridSpec {
+    std::array<double, 3> origin_m{};
+    std::array<double, 3> u_direction{1, 0, 0};  // unit vectors, not parallel
+    std::array<double, 3> v_direction{0, 1, 0};
+    std::vector<double> u_m, v_m;
+};
+
+// Conductivity axis values: 0 means "insulator", +infinity means "conductor".
+constexpr double kInsulatorConductivity = 0.0;
+constexpr double kConductorConductivity = std::numeric_limits<double>::infinity();
+
+struct SweepSpec {
+    std::string object;                        // the object that moves or changes (default: the first)
+    std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
+    std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
+    std::vector<double> size_m;                // axis; sphere radius, or the largest half-extent
+    std::vector<double> distance_m;            // axis; clearance between object and body surfaces
+    std::optional<std::array<double, 3>> direction;  // distance axis: unit direction of travel
+                                                     // (default: away from the nearest body point)
+    std::optional<SweepGridSpec> grid;         // axes grid_u, grid_v (not together with distance)
+    int line = 0;                              // line of [sweep] in the case file
+};
+
+struct DetectionSpec {
+    enum class Noise { receptors, voltage_amplifier, current_amplifier };
+    Noise noise = Noise::receptors;
+    double receptor_noise_V = 0.0;            // fish: rms noise per receptor
+    double receptor_density_per_m2 = 0.0;     // fish: receptors per skin area
+    double noise_density = 0.0;               // robot: V/sqrt(Hz) or A/sqrt(Hz)
+    double integration_time_s = 0.0;          // robot: lock-in averaging time
+    double false_alarm_probability = 1e-3;
+    double probability_level = 0.5;           // detection range: where P_D crosses this
+    int line = 0;
+};
+
+}  // namespace murk

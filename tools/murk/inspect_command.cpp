@@ -1,0 +1,553 @@
+// `murk inspect OUT.h5`: a readable summary of a result file of `murk run` or `murk solve`,
+// read through murk's own HDF5 layer against the layout of cases/RESULT_LAYOUT.md.
+// The file decides which summary it gets: a /sweep group means `murk run`.
+//
+// Sweep axes are found from the dimension scales attached to /sweep/status (the layout's way
+// of naming dimensions), so the summary follows whatever axes and order a run chose. The same
+// holds for /detection and /falloff, whose datasets lie over the axes other than distance.
+// Anything the layout requires that is missing or malformed is an InputError naming the
+// file and the dataset, never a guess.
+#include "cases/hdf5_file.hpp"
+#include "geometry/input_error.hpp"
+#include "tools/murk/commands.hpp"
+
+#include <H5DSpublic.h>
+#include <hdf5.h>
+
+#include <algorithm>
+#include <cmath>
+#include <complex>
+#include <cstdarg>
+#include <cstdint>
+#include <cstdio>
+#include <limits>
+#include <string>
+#include <vector>
+
+namespace murk::cli {
+
+namespace {
+
+// ---- formatting -----------------------------------------------------------------------
+
+std::string format(const char* pattern, ...) __attribute__((format(printf, 1, 2)));
+std::string format(const char* pattern, ...) {
+    char buffer[512];
+    va_list args;
+    va_start(args, pattern);
+    std::vsnprintf(buffer, sizeof buffer, pattern, args);
+    va_end(args);
+    return buffer;
+}
+
+// Volts and amperes span fifteen decades between a baseline and a faint image: an SI prefix
+// keeps them readable ("0.35 uV"). ASCII "u", as in murk's case files.
+std::string with_prefix(double value, const std::string& unit) {
+    // Zero, and rounding noise below a femto-unit (the net current of a floating electrode),
+    // read best without a prefix.
+    if (!std::isfinite(value) || std::abs(value) < 1e-15) return format("%.3g %s", value, unit.c_str());
+    static const struct { double scale; const char* prefix; } prefixes[] = {
+        {1e6, "M"}, {1e3, "k"}, {1e0, ""}, {1e-3, "m"}, {1e-6, "u"}, {1e-9, "n"}, {1e-12, "p"}, {1e-15, "f"}};
+    const double size = std::abs(value);
+    // 0.9995 of the step: "%.3g" would print 999.96 u as "1e+03 u"; that is 1.00 m.
+    for (const auto& p : prefixes)
+        if (size >= 0.9995 * p.scale) return format("%.3g %s%s", value / p.scale, p.prefix, unit.c_str());
+    return format("%.3g %s", value, unit.c_str());
+}
+
+// Distances and sizes of millimetres to decimetres: one decimal of a millimetre.
+std::string millimetres(double metres) { return format("%.1f mm", metres * 1e3); }
+
+// A conductivity axis uses 0 for an insulator and infinity for a perfect conductor.
+std::string conductivity_text(double s_per_m) {
+    if (s_per_m == 0) return "0 (insulator)";
+    if (std::isinf(s_per_m)) return "inf (conductor)";
+    return format("%g", s_per_m);
+}
+
+std::string shape_text(const H5Shape& shape) {
+    std::string s = "(";
+    for (std::size_t k = 0; k < shape.size(); ++k) s += (k ? ", " : "") + std::to_string(shape[k]);
+    return s + ")";
+}
+
+std::vector<std::string> split_commas(const std::string& text) {
+    std::vector<std::string> parts;
+    std::size_t start = 0;
+    while (true) {
+        const std::size_t comma = text.find(',', start);
+        parts.push_back(text.substr(start, comma - start));
+        if (comma == std::string::npos) return parts;
+        start = comma + 1;
+    }
+}
+
+// Columns padded to their widest cell, two spaces apart.
+class Table {
+public:
+    explicit Table(std::vector<std::string> header) : rows_{std::move(header)} {}
+    void add(std::vector<std::string> row) { rows_.push_back(std::move(row)); }
+    void print(const char* indent) const {
+        std::vector<std::size_t> width(rows_.front().size(), 0);
+        for (const auto& row : rows_)
+            for (std::size_t c = 0; c < row.size(); ++c) width[c] = std::max(width[c], row[c].size());
+        for (const auto& row : rows_) {
+            std::string line = indent;
+            for (std::size_t c = 0; c < row.size(); ++c)
+                line += row[c] + (c + 1 < row.size() ? std::string(width[c] - row[c].size() + 2, ' ') : "");
+            std::printf("%s\n", line.c_str());
+        }
+    }
+
+private:
+    std::vector<std::vector<std::string>> rows_;
+};
+
+// ---- reading helpers ------------------------------------------------------------------
+
+[[noreturn]] void malformed(const H5Object& object, const std::string& what) {
+    throw InputError(object.file_name() + ": " + object.path() + " " + what);
+}
+
+// Names of a group's members, in name order. Our layer opens paths but does not list them.
+std::vector<std::string> members(const H5Group& group) {
+    std::vector<std::string> names;
+    const auto collect = [](hid_t, const char* name, const H5L_info_t*, void* out) -> herr_t {
+        static_cast<std::vector<std::string>*>(out)->push_back(name);
+        return 0;
+    };
+    if (H5Literate(group.id(), H5_INDEX_NAME, H5_ITER_INC, nullptr, collect, &names) < 0)
+        throw InputError(group.file_name() + ": cannot list the members of " + group.path());
+    return names;
+}
+
+// The axis name of each dimension: the last path component of the dimension scale attached
+// to it, or "" where none is.
+std::vector<std::string> scale_names(const H5Dataset& d) {
+    const H5Shape shape = d.shape();
+    std::vector<std::string> names(shape.size());
+    for (unsigned dim = 0; dim < shape.size(); ++dim) {
+        if (H5DSget_num_scales(d.id(), dim) <= 0) continue;
+        // A scale whose link was deleted has no path left, but keeps the name make_scale gave
+        // it: that is the axis a reader will then report missing.
+        const auto visit = [](hid_t, unsigned, hid_t scale, void* out) -> herr_t {
+            char text[1024] = "";
+            std::string name;
+            if (H5Iget_name(scale, text, sizeof text) > 0) {
+                name = text;
+                name = name.substr(name.rfind('/') + 1);
+            } else if (H5DSget_scale_name(scale, text, sizeof text) > 0) {
+                name = text;
+            }
+            *static_cast<std::string*>(out) = name.empty() ? "?" : name;
+            return 1;  // the first scale is the axis
+        };
+        H5DSiterate_scales(d.id(), dim, nullptr, visit, &names[dim]);
+    }
+    return names;
+}
+
+std::string units_of(const H5Dataset& d) { return d.string_attribute("units"); }
+
+// Magnitudes of a real or complex dataset: images may be complex (a frequency with
+// capacitances), and their size is what a summary reports.
+std::vector<double> magnitudes(const H5Dataset& d) {
+    if (d.kind() == H5Kind::complex) {
+        std::vector<double> out;
+        for (const auto& z : d.read<std::complex<double>>().values) out.push_back(std::abs(z));
+        return out;
+    }
+    if (d.kind() != H5Kind::real) malformed(d, "holds neither real nor complex numbers");
+    auto values = d.read<double>().values;
+    for (double& v : values) v = std::abs(v);
+    return values;
+}
+
+std::vector<double> as_doubles(const std::vector<std::uint8_t>& codes) { return {codes.begin(), codes.end()}; }
+
+// ---- the header shared by both kinds of file --------------------------------------------
+
+void print_header(const H5File& file, const H5Group& root) {
+    if (!root.has_attribute("murk_version"))
+        throw InputError(file.path() + ": not a murk result file (no murk_version attribute at the root)");
+    const std::string sha = root.string_attribute("case_sha256");
+    const double frequency = root.double_attribute("frequency_Hz");
+    std::printf("%s\n", file.path().c_str());
+    std::printf("  title:          %s\n", root.string_attribute("title").c_str());
+    std::printf("  murk version:   %s\n", root.string_attribute("murk_version").c_str());
+    std::printf("  created (UTC):  %s\n", root.string_attribute("created_utc").c_str());
+    std::printf("  command:        %s\n", root.string_attribute("command").c_str());
+    std::printf("  approximation:  %s\n", root.string_attribute("approximation").c_str());
+    std::printf("  case SHA-256:   %s...%s\n", sha.substr(0, 12).c_str(),
+                root.has_attribute("case_path") ? (" (" + root.string_attribute("case_path") + ")").c_str() : "");
+    std::printf("  frequency:      %s\n", frequency == 0 ? "0 Hz (direct current)" : with_prefix(frequency, "Hz").c_str());
+}
+
+// ---- murk solve -----------------------------------------------------------------------
+
+std::size_t panel_count(const H5Group& root, const std::string& surface) {
+    const H5Dataset triangles = root.dataset("mesh/" + surface + "/triangles");
+    const H5Shape shape = triangles.shape();
+    if (shape.size() != 2 || shape[1] != 3) malformed(triangles, "has shape " + shape_text(shape) + ", expected (t, 3)");
+    return shape[0];
+}
+
+// "peak 0.31 uV at panel 17 (30.2, 7.1, 0.0) mm", from the change of transdermal voltage.
+std::string image_peak(const H5Group& root, const std::string& surface, std::size_t panels) {
+    const H5Dataset change = root.dataset("difference/" + surface + "/transdermal_voltage");
+    const std::vector<double> size = magnitudes(change);
+    if (size.size() != panels) malformed(change, "has " + std::to_string(size.size()) + " values for " +
+                                                     std::to_string(panels) + " panels");
+    const std::size_t at = std::max_element(size.begin(), size.end()) - size.begin();
+    std::string text = "change of transdermal voltage: peak " + with_prefix(size[at], units_of(change)) +
+                       " at panel " + std::to_string(at);
+    if (root.exists("mesh/" + surface + "/centroid")) {
+        const H5Array<double> c = root.read<double>("mesh/" + surface + "/centroid");
+        if (c.shape != H5Shape{panels, 3}) malformed(root.dataset("mesh/" + surface + "/centroid"), "is not (t, 3)");
+        text += format(" (%.1f, %.1f, %.1f) mm", c.values[3 * at] * 1e3, c.values[3 * at + 1] * 1e3,
+                       c.values[3 * at + 2] * 1e3);
+    }
+    return text;
+}
+
+void print_surfaces(const H5Group& root) {
+    std::printf("surfaces:\n");
+    Table table({"surface", "panels", "electric image"});
+    for (const std::string& surface : members(root.open_group("mesh"))) {
+        const std::size_t panels = panel_count(root, surface);
+        const bool has_image = root.exists("difference/" + surface + "/transdermal_voltage");
+        table.add({surface, std::to_string(panels), has_image ? image_peak(root, surface, panels) : "-"});
+    }
+    table.print("  ");
+}
+
+// Real values keep their sign; complex ones are shown as magnitudes.
+std::vector<std::string> readable_values(const H5Dataset& d) {
+    std::vector<std::string> out;
+    const std::string units = units_of(d);
+    if (d.kind() == H5Kind::real) {
+        for (double v : d.read<double>().values) out.push_back(with_prefix(v, units));
+    } else {
+        for (double v : magnitudes(d)) out.push_back("|" + with_prefix(v, units) + "|");
+    }
+    return out;
+}
+
+void print_electrodes(const H5Group& root) {
+    if (!root.exists("difference/electrodes")) return;
+    const H5Dataset potential = root.dataset("difference/electrodes/potential");
+    const H5Dataset current = root.dataset("difference/electrodes/current");
+    const std::vector<std::string> dv = readable_values(potential), di = readable_values(current);
+    std::vector<std::string> names;
+    if (potential.has_attribute("electrode_names")) names = split_commas(potential.string_attribute("electrode_names"));
+    if (di.size() != dv.size()) malformed(current, "has " + std::to_string(di.size()) + " values, potential has " +
+                                                       std::to_string(dv.size()));
+    if (!names.empty() && names.size() != dv.size())
+        malformed(potential, "names " + std::to_string(names.size()) + " electrodes in electrode_names but holds " +
+                                 std::to_string(dv.size()) + " values");
+    std::printf("electrodes, change caused by the objects:\n");
+    Table table({"electrode", "potential", "current"});
+    for (std::size_t e = 0; e < dv.size(); ++e)
+        table.add({names.empty() ? std::to_string(e) : names[e], dv[e], di[e]});
+    table.print("  ");
+}
+
+void print_solve(const H5Group& root) {
+    std::printf("kind:             murk solve (one configuration)\n");
+    print_surfaces(root);
+    print_electrodes(root);
+}
+
+// ---- murk run: axes and points ----------------------------------------------------------
+
+struct Axis {
+    std::string name, units;
+    std::vector<double> values;
+    std::vector<std::string> labels;  // object axis: names from object_names
+
+    std::string header() const {
+        if (units == "m") return name + " (mm)";
+        if (units == "S m-1") return name + " (S/m)";
+        return units == "1" || units.empty() ? name : name + " (" + units + ")";
+    }
+    std::string cell(std::size_t i) const {
+        if (!labels.empty() && i < labels.size()) return labels[i];
+        if (units == "m") return format("%g", values[i] * 1e3);
+        if (units == "S m-1") return conductivity_text(values[i]);
+        return format("%g", values[i]);
+    }
+    std::string range() const {
+        if (values.size() <= 6) {
+            std::string s;
+            for (std::size_t i = 0; i < values.size(); ++i) s += (i ? ", " : "") + cell(i);
+            return s;
+        }
+        return cell(0) + " .. " + cell(values.size() - 1);
+    }
+};
+
+std::vector<Axis> read_axes(const H5Group& sweep, const H5Dataset& status) {
+    const H5Shape shape = status.shape();
+    const std::vector<std::string> names = scale_names(status);
+    std::vector<Axis> axes;
+    for (std::size_t k = 0; k < shape.size(); ++k) {
+        if (names[k].empty())
+            malformed(status, "has no axis attached to dimension " + std::to_string(k) +
+                                  " (expected a dimension scale from /sweep/<axis>)");
+        const H5Dataset d = sweep.dataset(names[k]);
+        Axis a{names[k], units_of(d), d.read<double>().values, {}};
+        if (a.values.size() != shape[k])
+            malformed(d, "has " + std::to_string(a.values.size()) + " values but /sweep/status has " +
+                             std::to_string(shape[k]) + " along dimension " + std::to_string(k));
+        if (d.has_attribute("object_names")) a.labels = split_commas(d.string_attribute("object_names"));
+        axes.push_back(std::move(a));
+    }
+    return axes;
+}
+
+int axis_named(const std::vector<Axis>& axes, const std::string& name) {
+    for (std::size_t a = 0; a < axes.size(); ++a)
+        if (axes[a].name == name) return static_cast<int>(a);
+    return -1;
+}
+
+// Point codes of /sweep/status: 0 not computed, 1 computed, 2 masked.
+std::vector<std::uint8_t> read_status(const H5Dataset& status) {
+    std::vector<std::uint8_t> codes = status.read<std::uint8_t>().values;
+    for (std::size_t p = 0; p < codes.size(); ++p)
+        if (codes[p] > 2)
+            malformed(status, "holds " + std::to_string(codes[p]) + " at point " + std::to_string(p) +
+                                  ", expected 0 (not computed), 1 (computed) or 2 (masked)");
+    return codes;
+}
+
+void print_axes(const std::vector<Axis>& axes) {
+    std::printf("sweep axes:\n");
+    Table table({"axis", "count", "values"});
+    for (const Axis& a : axes) table.add({a.header(), std::to_string(a.values.size()), a.range()});
+    table.print("  ");
+}
+
+void print_points(const std::vector<std::uint8_t>& status) {
+    std::size_t count[3] = {0, 0, 0};
+    for (std::uint8_t s : status) ++count[s];
+    std::printf("points:           %zu in all: %zu computed, %zu masked, %zu missing (not computed)\n", status.size(),
+                count[1], count[2], count[0]);
+}
+
+void print_sensors(const H5Group& root, const H5Group& sweep) {
+    const H5Dataset sensor = sweep.dataset("sensor");
+    const std::size_t n = sensor.shape().empty() ? 1 : sensor.shape()[0];
+    if (sensor.has_attribute("sensor_names")) {
+        std::printf("sensors:          %zu channels: %s\n", n, sensor.string_attribute("sensor_names").c_str());
+        return;
+    }
+    // The runner names the body in a root attribute; the layout alone has it as the only mesh.
+    std::string body = root.has_attribute("body") ? root.string_attribute("body") : "";
+    if (body.empty() && root.exists("mesh")) {
+        const std::vector<std::string> meshes = members(root.open_group("mesh"));
+        if (meshes.size() == 1) body = meshes.front();
+    }
+    std::printf("sensors:          %zu skin panels%s\n", n, body.empty() ? "" : (" of " + body).c_str());
+}
+
+void print_peak_range(const H5Group& sweep) {
+    const H5Dataset peak = sweep.dataset("peak_perturbation");
+    double lo = std::numeric_limits<double>::infinity(), hi = 0;
+    for (double v : peak.read<double>().values)
+        if (std::isfinite(v)) lo = std::min(lo, std::abs(v)), hi = std::max(hi, std::abs(v));
+    if (hi == 0 && std::isinf(lo)) return;
+    const std::string units = units_of(peak);
+    std::printf("peak perturbation: %s .. %s over the computed points\n", with_prefix(lo, units).c_str(),
+                with_prefix(hi, units).c_str());
+}
+
+// ---- murk run: detection and falloff ----------------------------------------------------
+
+// A dataset over some of the sweep axes (those other than distance), with the sweep axis
+// of each of its dimensions.
+struct OverAxes {
+    std::vector<int> axis_of_dim;
+    H5Shape shape;
+    std::vector<double> values;
+
+    double at(const std::vector<std::size_t>& index) const {
+        std::size_t flat = 0;
+        for (std::size_t k = 0; k < shape.size(); ++k) flat = flat * shape[k] + index[axis_of_dim[k]];
+        return values[flat];
+    }
+};
+
+// Finds which axes a dataset lies over: from its dimension scales, or, where none are
+// attached, by assuming all of `candidates` in sweep order (a sweep over distance alone
+// has a single row, shape (1)).
+std::vector<int> dims_over(const H5Dataset& d, const std::vector<Axis>& axes, const std::vector<int>& candidates) {
+    const H5Shape shape = d.shape();
+    const std::vector<std::string> names = scale_names(d);
+    const bool any = std::any_of(names.begin(), names.end(), [](const std::string& n) { return !n.empty(); });
+    std::vector<int> dims;
+    if (any) {
+        for (std::size_t k = 0; k < names.size(); ++k) {
+            const int a = names[k].empty() ? -1 : axis_named(axes, names[k]);
+            if (a < 0 || std::find(candidates.begin(), candidates.end(), a) == candidates.end())
+                malformed(d, "dimension " + std::to_string(k) + " is not one of the sweep axes other than distance");
+            if (axes[a].values.size() != shape[k]) malformed(d, "does not match the length of axis " + axes[a].name);
+            dims.push_back(a);
+        }
+        return dims;
+    }
+    if (candidates.empty() && shape == H5Shape{1}) return {};
+    H5Shape expected;
+    for (int a : candidates) expected.push_back(axes[a].values.size());
+    if (shape != expected) malformed(d, "has shape " + shape_text(shape) + ", expected " + shape_text(expected) +
+                                            " over the sweep axes other than distance");
+    return candidates;
+}
+
+OverAxes read_over_axes(const H5Dataset& d, const std::vector<Axis>& axes, const std::vector<int>& others) {
+    OverAxes o{dims_over(d, axes, others), d.shape(), {}};
+    if (o.axis_of_dim.empty()) o.shape.clear();
+    o.values = d.kind() == H5Kind::integer ? as_doubles(d.read<std::uint8_t>().values) : d.read<double>().values;
+    return o;
+}
+
+struct Falloff {
+    OverAxes exponent, from, to, r_squared;
+};
+
+struct Detection {
+    OverAxes range, status;
+    double level, false_alarm;
+};
+
+// Distances of the computed points of one row (every axis but distance fixed).
+std::vector<double> computed_distances(const std::vector<Axis>& axes, const std::vector<std::uint8_t>& status,
+                                       std::vector<std::size_t> index, int d) {
+    std::vector<double> out;
+    for (std::size_t k = 0; k < axes[d].values.size(); ++k) {
+        index[d] = k;
+        std::size_t flat = 0;
+        for (std::size_t a = 0; a < axes.size(); ++a) flat = flat * axes[a].values.size() + index[a];
+        if (status[flat] == 1) out.push_back(axes[d].values[k]);
+    }
+    return out;
+}
+
+std::string range_text(const Detection& det, const H5Dataset& status_ds, const std::vector<std::size_t>& index,
+                       const std::vector<double>& computed) {
+    const int code = static_cast<int>(det.status.at(index));
+    const double range = det.range.at(index);
+    switch (code) {
+    case 0: return "no point computed";
+    case 1:
+        if (!std::isfinite(range)) malformed(status_ds, "says 1 (crossed) where /detection/range is not a number");
+        return millimetres(range);
+    case 2: return "beyond the sweep (> " + (computed.empty() ? "?" : millimetres(computed.back())) + ")";
+    case 3: return "not detectable within the sweep (< " + (computed.empty() ? "?" : millimetres(computed.front())) + ")";
+    default:
+        malformed(status_ds, "holds " + std::to_string(code) +
+                                 ", expected 1 (crossed), 2 (beyond the sweep) or 3 (never detectable)");
+    }
+}
+
+std::vector<std::string> falloff_cells(const Falloff& f, const std::vector<std::size_t>& index) {
+    const double n = f.exponent.at(index);
+    if (!std::isfinite(n)) return {"-", "-", "-", "-"};
+    return {format("%.2f", n), format("%.1f .. %.1f mm", f.from.at(index) * 1e3, f.to.at(index) * 1e3),
+            format("%.4f", f.r_squared.at(index)), std::abs(n + 4) <= 0.5 ? "yes" : "no"};
+}
+
+Falloff read_falloff(const H5Group& root, const std::vector<Axis>& axes, const std::vector<int>& others) {
+    const H5Group g = root.open_group("falloff");
+    return {read_over_axes(g.dataset("exponent"), axes, others), read_over_axes(g.dataset("fit_from"), axes, others),
+            read_over_axes(g.dataset("fit_to"), axes, others), read_over_axes(g.dataset("r_squared"), axes, others)};
+}
+
+Detection read_detection(const H5Group& root, const std::vector<Axis>& axes, const std::vector<int>& others) {
+    const H5Group g = root.open_group("detection");
+    return {read_over_axes(g.dataset("range"), axes, others), read_over_axes(g.dataset("status"), axes, others),
+            g.double_attribute("probability_level"), g.double_attribute("false_alarm_probability")};
+}
+
+// Advances a multi-index over `axes` (the distance axis `skip` held at 0); false at the end.
+bool next_row(std::vector<std::size_t>& index, const std::vector<Axis>& axes, int skip) {
+    for (int a = static_cast<int>(axes.size()) - 1; a >= 0; --a) {
+        if (a == skip) continue;
+        if (++index[a] < axes[a].values.size()) return true;
+        index[a] = 0;
+    }
+    return false;
+}
+
+constexpr std::size_t kMaxRows = 60;  // a terminal's worth; the file holds the rest
+
+void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const std::vector<std::uint8_t>& status) {
+    const int d = axis_named(axes, "distance");
+    if (d < 0) {
+        std::printf("no distance axis: no detection ranges and no falloff fit\n");
+        return;
+    }
+    std::vector<int> others;
+    for (int a = 0; a < static_cast<int>(axes.size()); ++a)
+        if (a != d) others.push_back(a);
+    const Falloff falloff = read_falloff(root, axes, others);
+    const bool has_detection = root.exists("detection");
+    Detection detection{};
+    if (has_detection) {
+        detection = read_detection(root, axes, others);
+        std::printf("detection range: where the detection probability falls below %g (false-alarm probability %g)\n",
+                    detection.level, detection.false_alarm);
+    } else {
+        std::printf("no /detection group: %s\n", root.has_attribute("analysis_note")
+                                                     ? root.string_attribute("analysis_note").c_str()
+                                                     : "the case has no noise model");
+    }
+    std::printf("falloff: peak perturbation ~ distance^exponent, least squares over the fit range\n");
+    std::vector<std::string> header;
+    for (int a : others) header.push_back(axes[a].header());
+    for (const char* h : {"detection range", "exponent", "fit range", "R^2", "within 0.5 of -4"})
+        if (has_detection || std::string(h) != "detection range") header.push_back(h);
+    Table table(header);
+    const H5Dataset status_ds = has_detection ? root.dataset("detection/status") : root.dataset("sweep/status");
+    std::vector<std::size_t> index(axes.size(), 0);
+    std::size_t rows = 0;
+    do {
+        if (++rows > kMaxRows) continue;
+        std::vector<std::string> row;
+        for (int a : others) row.push_back(axes[a].cell(index[a]));
+        if (has_detection)
+            row.push_back(range_text(detection, status_ds, index, computed_distances(axes, status, index, d)));
+        for (std::string& cell : falloff_cells(falloff, index)) row.push_back(std::move(cell));
+        table.add(std::move(row));
+    } while (next_row(index, axes, d));
+    table.print("  ");
+    if (rows > kMaxRows) std::printf("  ... %zu more rows (see /detection and /falloff)\n", rows - kMaxRows);
+}
+
+void print_run(const H5Group& root) {
+    std::printf("kind:             murk run (sweep)\n");
+    const H5Group sweep = root.open_group("sweep");
+    const H5Dataset status_ds = sweep.dataset("status");
+    const std::vector<Axis> axes = read_axes(sweep, status_ds);
+    const std::vector<std::uint8_t> status = read_status(status_ds);
+    print_axes(axes);
+    print_points(status);
+    print_sensors(root, sweep);
+    print_peak_range(sweep);
+    print_analysis(root, axes, status);
+}
+
+}  // namespace
+
+int inspect_command(const InspectArgs& args) {
+    const H5File file = H5File::open_readonly(args.path);
+    const H5Group root = file.root();
+    print_header(file, root);
+    if (root.exists("sweep"))
+        print_run(root);
+    else
+        print_solve(root);
+    return 0;
+}
+
+}  // namespace murk::cli

@@ -1,0 +1,739 @@
+#!/usr/bin/python3
+"""Figures of a murk result file, as PNG images.
+
+Usage: plot_results.py OUT.h5 [-o DIR] [--points AXIS=INDEX[,AXIS=INDEX...] ...]
+
+Reads OUT.h5 with h5py (no murk needed), laid out as cases/RESULT_LAYOUT.md says, and writes
+into DIR (default: the folder of OUT.h5), each figure titled with the case's title:
+
+  <name>_detection_map.png     signal-to-noise ratio over two sweep axes (distance and size when
+                               the sweep has both), with the detection-range contour
+  <name>_electric_image_K.png  the perturbation over the unrolled skin of a fish (or per sensor
+                               channel of a robot) at chosen sweep points
+  <name>_falloff.png           peak perturbation against distance (log-log), the fitted exponent
+                               and a distance^-4 reference
+  <name>_grid_map.png          detection probability over a planar grid of object positions,
+                               with the body's outline
+
+Figures that do not apply to the file are skipped with a one-line note. --points picks the
+sweep points of the electric image by index along named axes (negative counts from the end;
+axes not named are at index 0), e.g. --points distance=0 distance=-1,size=2. By default: the
+nearest and the farthest computed distance at the first index of every other axis.
+
+Run it with /usr/bin/python3 (Debian's h5py, numpy and matplotlib). Bad input gets one line
+on stderr and exit status 2.
+"""
+import argparse
+import math
+import os
+import sys
+
+DPI = 100  # figure sizes below are in inches: pixels = inches * DPI
+
+
+class BadInput(Exception):
+    """A problem with the user's file or options; its text is the whole message."""
+
+
+class Skip(Exception):
+    """A figure that does not apply to this file; its text says why."""
+
+
+# ------------------------------------------------------------------ reading the file
+
+class Axis:
+    def __init__(self, name, values, units):
+        self.name, self.values, self.units = name, values, units
+
+    def label(self):
+        return {"m": f"{self.name} (mm)", "S m-1": f"{self.name} (S/m)"}.get(self.units, self.name)
+
+    def shown(self, values):
+        """Values in the units of label(): lengths in millimetres."""
+        return values * 1e3 if self.units == "m" else values
+
+    def text(self, i):
+        v = self.values[i]
+        if self.units == "m":
+            return f"{self.name} {v * 1e3:g} mm"
+        if self.units == "S m-1":
+            return f"{self.name} " + ("0 S/m (insulator)" if v == 0 else
+                                       "inf (perfect conductor)" if math.isinf(v) else f"{v:g} S/m")
+        return f"{self.name} {v:g}"
+
+
+class Result:
+    """A murk result file opened with h5py; every missing piece is a BadInput naming it."""
+
+    def __init__(self, path):
+        import h5py
+        if not os.path.exists(path):
+            raise BadInput(f"{path}: no such file")
+        try:
+            self.file = h5py.File(path, "r")
+        except OSError:
+            raise BadInput(f"{path}: not an HDF5 file (or it cannot be read)") from None
+        self.path = path
+        if "murk_version" not in self.file.attrs:
+            raise BadInput(f"{path}: not a murk result file (no murk_version attribute at the root)")
+        self.title = str(self.file.attrs.get("title", os.path.basename(path)))
+        self.is_sweep = "sweep" in self.file
+        if self.is_sweep:
+            self.axes = self._axes()
+
+    def has(self, name):
+        return name in self.file
+
+    def dataset(self, name):
+        import h5py
+        if name not in self.file or not isinstance(self.file[name], h5py.Dataset):
+            raise BadInput(f"{self.path}: no dataset /{name}")
+        return self.file[name]
+
+    def array(self, name, shape=None):
+        """The dataset's values as floats (magnitudes for complex ones are left to the caller)."""
+        d = self.dataset(name)
+        if d.dtype.kind not in "fiuc":
+            raise BadInput(f"{self.path}: dataset /{name} holds {d.dtype}, expected numbers")
+        if shape is not None and d.shape != tuple(shape):
+            raise BadInput(f"{self.path}: dataset /{name} has shape {d.shape}, expected {tuple(shape)}")
+        return d[()]
+
+    def attribute(self, name, key):
+        obj = self.file[name] if name in self.file else None
+        if obj is None or key not in obj.attrs:
+            raise BadInput(f"{self.path}: /{name} has no attribute {key}")
+        return obj.attrs[key]
+
+    def _axes(self):
+        """Sweep axes, in the order of /sweep/status, from its dimension scales."""
+        status = self.dataset("sweep/status")
+        axes = []
+        for k, dim in enumerate(status.dims):
+            if len(dim) == 0:
+                raise BadInput(f"{self.path}: dataset /sweep/status has no axis attached to dimension {k} "
+                               "(expected a dimension scale from /sweep/<axis>)")
+            # A scale whose link was deleted keeps the name make_scale gave it (its NAME).
+            name = dim[0].name.split("/")[-1] if dim[0].name else (list(dim.keys()) or ["?"])[0]
+            values = self.array(f"sweep/{name}", (status.shape[k],)).astype(float)
+            units = str(self.file[f"sweep/{name}"].attrs.get("units", ""))
+            axes.append(Axis(name, values, units))
+        return axes
+
+    def axis_index(self, name):
+        return next((k for k, a in enumerate(self.axes) if a.name == name), None)
+
+    def shape(self):
+        return tuple(len(a.values) for a in self.axes)
+
+    def status(self):
+        return self.array("sweep/status", self.shape())
+
+    def body(self):
+        """Name of the sensing body's mesh: the runner's `body` attribute, or the only mesh."""
+        if "body" in self.file.attrs:
+            return str(self.file.attrs["body"])
+        meshes = list(self.file["mesh"]) if "mesh" in self.file else []
+        if len(meshes) != 1:
+            raise BadInput(f"{self.path}: cannot tell the body's mesh: /mesh holds {meshes} and no body attribute")
+        return meshes[0]
+
+    def centroids(self, body):
+        if self.has(f"mesh/{body}/centroid"):
+            return self.array(f"mesh/{body}/centroid")
+        v, t = self.mesh(body)
+        return v[t].mean(axis=1)
+
+    def mesh(self, body):
+        v = self.array(f"mesh/{body}/vertices")
+        t = self.array(f"mesh/{body}/triangles")
+        if v.ndim != 2 or v.shape[1] != 3 or t.ndim != 2 or t.shape[1] != 3:
+            raise BadInput(f"{self.path}: /mesh/{body} vertices or triangles are not (n, 3)")
+        if t.min() < 0 or t.max() >= len(v):
+            raise BadInput(f"{self.path}: dataset /mesh/{body}/triangles indexes missing vertices")
+        return v, t
+
+    def probability_level(self):
+        """The detection level: stored on /detection, else on /sweep/detection_probability."""
+        for name in ("detection", "sweep/detection_probability"):
+            if name in self.file and "probability_level" in self.file[name].attrs:
+                return float(self.file[name].attrs["probability_level"]), True
+        return 0.5, False
+
+    def point_text(self, index, skip=()):
+        return ", ".join(a.text(i) for k, (a, i) in enumerate(zip(self.axes, index)) if k not in skip)
+
+
+# ------------------------------------------------------------------ small helpers
+
+def voltage_scale(values, units):
+    """A factor and a label unit that put the largest value between 1 and 1000 (V -> µV)."""
+    import numpy as np
+    size = np.abs(np.asarray(values))
+    size = size[np.isfinite(size)]
+    big = float(size.max()) if size.size else 0.0
+    for factor, prefix in ((1, ""), (1e3, "m"), (1e6, "µ"), (1e9, "n"), (1e12, "p")):
+        if big * factor >= 1:
+            return factor, prefix + units
+    return 1e15, "f" + units
+
+
+def edges(centres, log):
+    """Cell edges around centres (geometric midpoints on a log axis)."""
+    import numpy as np
+    c = np.asarray(centres, dtype=float)
+    if len(c) == 1:
+        return np.array([c[0] * 0.9, c[0] * 1.1]) if log else np.array([c[0] - 0.5, c[0] + 0.5])
+    if log:
+        mid = np.sqrt(c[1:] * c[:-1])
+        return np.concatenate([[c[0] ** 2 / mid[0]], mid, [c[-1] ** 2 / mid[-1]]])
+    mid = 0.5 * (c[1:] + c[:-1])
+    return np.concatenate([[2 * c[0] - mid[0]], mid, [2 * c[-1] - mid[-1]]])
+
+
+def wants_log(axis):
+    """Sweeps of distance and size are usually geometric: a log axis gives them even cells."""
+    v = axis.values
+    return bool(len(v) >= 2 and np_all_finite_positive(v) and v.max() / v.min() >= 4)
+
+
+def np_all_finite_positive(v):
+    import numpy as np
+    return bool(np.isfinite(v).all() and (v > 0).all())
+
+
+def nice_log_ticks(lo, hi):
+    """1-2-5 steps inside [lo, hi]: plain numbers a reader can place (not 10^1 alone)."""
+    ticks = [m * 10.0 ** e for e in range(math.floor(math.log10(lo)) - 1, math.ceil(math.log10(hi)) + 1)
+             for m in (1, 2, 5)]
+    inside = [t for t in ticks if lo * (1 - 1e-9) <= t <= hi * (1 + 1e-9)]
+    return inside if len(inside) >= 3 else [t * f for t in inside for f in (1, 1.5, 3)] or [lo, hi]
+
+
+def plain_log_axis(axis_obj, lo, hi):
+    """Labels a log axis (matplotlib's x or y axis object) with plain numbers."""
+    from matplotlib.ticker import FixedLocator, FuncFormatter, NullFormatter
+    axis_obj.set_major_locator(FixedLocator(nice_log_ticks(lo, hi)))
+    axis_obj.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+    axis_obj.set_minor_formatter(NullFormatter())
+
+
+def finite_axis_values(axis):
+    """Values a plot axis can show: an infinite conductivity is drawn one step past the largest."""
+    import numpy as np
+    v = axis.values.copy()
+    if np.isinf(v).any():
+        finite = v[np.isfinite(v)]
+        v[np.isinf(v)] = finite.max() * 10 if finite.size and finite.max() > 0 else 1.0
+    return v
+
+
+def new_figure(size, title):
+    import matplotlib.pyplot as plt
+    fig = plt.figure(figsize=size, dpi=DPI, layout="constrained")
+    fig.suptitle(title, fontsize=12)
+    return fig
+
+
+def save(fig, path):
+    import matplotlib.pyplot as plt
+    fig.savefig(path, dpi=DPI)
+    plt.close(fig)
+    return path
+
+
+def slice_at(array, index, keep):
+    """array[index] with the axes in `keep` left whole."""
+    return array[tuple(slice(None) if k in keep else i for k, i in enumerate(index))]
+
+
+def held_text(result, keep):
+    others = [k for k in range(len(result.axes)) if k not in keep and len(result.axes[k].values) > 1]
+    if not others:
+        return ""
+    return "held at " + ", ".join(result.axes[k].text(0) for k in others)
+
+
+def outline_effect():
+    """A dark rim under a light line: visible on both ends of the colour map."""
+    import matplotlib.patheffects as pe
+    return [pe.Stroke(linewidth=4, foreground="black"), pe.Normal()]
+
+
+# ------------------------------------------------------------------ (a) detection map
+
+def map_axes(result):
+    """(x axis, y axis): distance and size when both vary, else the first two that vary."""
+    varying = [k for k, a in enumerate(result.axes) if len(a.values) > 1]
+    d, s = result.axis_index("distance"), result.axis_index("size")
+    if d in varying and s in varying:
+        return d, s
+    if len(varying) < 2:
+        raise Skip("fewer than two sweep axes with more than one value")
+    return varying[0], varying[1]
+
+
+def detection_map(result, out_dir, stem):
+    import numpy as np
+    from matplotlib.colors import LogNorm
+    if not result.is_sweep:
+        raise Skip("not a sweep (a murk solve file)")
+    if not result.has("sweep/snr"):
+        raise Skip("no /sweep/snr (the case has no noise model)")
+    xk, yk = map_axes(result)
+    xa, ya = result.axes[xk], result.axes[yk]
+    start = [0] * len(result.axes)
+    snr = slice_at(result.array("sweep/snr", result.shape()), start, (xk, yk))
+    pd = slice_at(result.array("sweep/detection_probability", result.shape()), start, (xk, yk))
+    if xk > yk:
+        snr, pd = snr.T, pd.T
+    level, stored = result.probability_level()
+    held = held_text(result, (xk, yk))
+    fig = new_figure((8, 6.5), f"{result.title}\nsignal-to-noise ratio" + (f", {held}" if held else ""))
+    ax = fig.add_subplot()
+    xv, yv = xa.shown(finite_axis_values(xa)), ya.shown(finite_axis_values(ya))
+    xlog, ylog = wants_log(xa), wants_log(ya)
+    positive = snr[np.isfinite(snr) & (snr > 0)]
+    if positive.size == 0:
+        raise Skip("no computed point with a positive signal-to-noise ratio in this slice")
+    cmap = colour_map("viridis")
+    image = ax.pcolormesh(edges(xv, xlog), edges(yv, ylog), np.ma.masked_invalid(snr.T), cmap=cmap,
+                          norm=LogNorm(positive.min(), positive.max()), shading="flat")
+    fig.colorbar(image, ax=ax, label="signal-to-noise ratio d' (amplitude)")
+    draw_level_contour(ax, xv, yv, pd.T, level, stored)
+    if xa.name == "distance":
+        draw_ranges(result, ax, xk, yk, yv, xv)
+    set_scales(ax, xa, ya, xlog, ylog)
+    ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.11), ncol=2, fontsize=9, frameon=False)
+    return [save(fig, os.path.join(out_dir, f"{stem}_detection_map.png"))]
+
+
+def colour_map(name):
+    import matplotlib
+    cmap = matplotlib.colormaps[name].copy()
+    cmap.set_bad("0.85")  # light grey: masked or not computed
+    return cmap
+
+
+def draw_level_contour(ax, xv, yv, pd_grid, level, stored):
+    import numpy as np
+    finite = np.isfinite(pd_grid)
+    label = f"detection probability {level:g}" + ("" if stored else " (level not stored in the file)")
+    if finite.sum() >= 4 and np.nanmin(pd_grid) < level < np.nanmax(pd_grid) and min(pd_grid.shape) >= 2:
+        cs = ax.contour(xv, yv, np.ma.masked_invalid(pd_grid), levels=[level], colors="white", linewidths=2)
+        for artist in getattr(cs, "collections", [cs]):
+            artist.set_path_effects(outline_effect())
+        ax.plot([], [], color="white", linewidth=2, path_effects=outline_effect(), label=label)
+    if not finite.all():
+        ax.plot([], [], marker="s", linestyle="none", color="0.85", markeredgecolor="0.5",
+                label="masked or not computed")
+
+
+def draw_ranges(result, ax, xk, yk, yv, xv):
+    """The file's own detection ranges (/detection/range) as markers along the distance axis."""
+    import numpy as np
+    if not result.has("detection/range"):
+        return
+    rng, status = detection_slice(result, xk, yk)
+    crossed = np.isfinite(rng) & (status == 1)
+    if crossed.any():
+        ax.plot(rng[crossed] * 1e3, yv[crossed], "o", color="white", markeredgecolor="black", markersize=8,
+                label="detection range (/detection/range)")
+    for code, x, marker, text in ((2, xv.max(), ">", "detectable at every distance computed"),
+                                  (3, xv.min(), "<", "not detectable at any distance computed")):
+        hit = status == code
+        if hit.any():
+            ax.plot(np.full(hit.sum(), x), yv[hit], marker, color="white", markeredgecolor="black",
+                    markersize=10, linestyle="none", label=text)
+
+
+def detection_slice(result, dk, yk):
+    """/detection/range and status along axis yk, other axes at index 0 (scales name the dims)."""
+    import numpy as np
+    out = []
+    for name in ("detection/range", "detection/status"):
+        d = result.dataset(name)
+        names = [dim[0].name.split("/")[-1] if len(dim) else None for dim in d.dims]
+        others = [a.name for k, a in enumerate(result.axes) if k != dk]
+        if None in names:
+            names = others if d.shape == tuple(len(result.axes[k].values) for k in range(len(result.axes))
+                                               if k != dk) else None
+        if names is None or result.axes[yk].name not in names:
+            raise BadInput(f"{result.path}: cannot tell which sweep axes /{name} lies over")
+        index = tuple(slice(None) if n == result.axes[yk].name else 0 for n in names)
+        out.append(np.asarray(d[()], dtype=float)[index])
+    return out
+
+
+def set_scales(ax, xa, ya, xlog, ylog):
+    ax.set_xscale("log" if xlog else "linear")
+    ax.set_yscale("log" if ylog else "linear")
+    ax.set_xlabel(xa.label())
+    ax.set_ylabel(ya.label())
+    for a, log, axis_obj, set_ticks in ((xa, xlog, ax.xaxis, ax.set_xticks), (ya, ylog, ax.yaxis, ax.set_yticks)):
+        shown = a.shown(finite_axis_values(a))
+        if len(a.values) <= 8:
+            set_ticks(shown, [tick_text(a, v) for v in a.values], minor=False)
+            set_ticks([], minor=True)
+        elif log:
+            plain_log_axis(axis_obj, shown.min(), shown.max())
+    if {xa.name, ya.name} == {"grid_u", "grid_v"}:
+        ax.set_aspect("equal")
+
+
+def tick_text(axis, v):
+    if axis.units == "S m-1" and math.isinf(v):
+        return "inf"
+    return f"{axis.shown(v):.3g}"
+
+
+# ------------------------------------------------------------------ (b) electric image
+
+def parse_point(result, spec):
+    index = [0] * len(result.axes)
+    for part in spec.split(","):
+        name, _, value = part.partition("=")
+        k = result.axis_index(name.strip())
+        if k is None:
+            raise BadInput(f"--points {spec}: no sweep axis '{name.strip()}' (axes: "
+                           f"{', '.join(a.name for a in result.axes)})")
+        try:
+            i = int(value)
+        except ValueError:
+            raise BadInput(f"--points {spec}: '{value}' is not an index along {name.strip()}") from None
+        n = len(result.axes[k].values)
+        if not -n <= i < n:
+            raise BadInput(f"--points {spec}: index {i} is outside axis {name.strip()} of {n} values")
+        index[k] = i % n
+    return tuple(index)
+
+
+def default_points(result, status):
+    """Nearest and farthest computed distance, every other axis at index 0; without a distance
+    axis, the computed points of largest and smallest peak perturbation."""
+    import numpy as np
+    d = result.axis_index("distance")
+    if d is not None:
+        line = slice_at(status, [0] * len(result.axes), (d,))
+        done = np.flatnonzero(line == 1)
+        picks = sorted({done[0], done[-1]}) if done.size else []
+        return [tuple(int(k) if j == d else 0 for j in range(len(result.axes))) for k in picks]
+    peak = result.array("sweep/peak_perturbation", result.shape())
+    peak = np.where(status == 1, np.abs(peak), np.nan)
+    if not np.isfinite(peak).any():
+        return []
+    picks = [np.nanargmax(peak), np.nanargmin(peak)]
+    return [tuple(int(i) for i in np.unravel_index(p, peak.shape)) for p in dict.fromkeys(picks)]
+
+
+def electric_images(result, out_dir, stem, point_specs):
+    if not result.is_sweep:
+        return solve_image(result, out_dir, stem)
+    status = result.status()
+    points = [parse_point(result, s) for s in point_specs] if point_specs else default_points(result, status)
+    if not points:
+        raise Skip("no computed point")
+    sensor = result.dataset("sweep/sensor")
+    n_sensors = sensor.shape[0]
+    perturbation = result.dataset("sweep/perturbation")
+    if perturbation.shape != result.shape() + (n_sensors,):
+        raise BadInput(f"{result.path}: dataset /sweep/perturbation has shape {perturbation.shape}, "
+                       f"expected {result.shape() + (n_sensors,)}")
+    units = str(perturbation.attrs.get("units", "V"))
+    written = []
+    for number, index in enumerate(points, start=1):
+        if status[index] != 1:
+            note(f"skipped electric image at {result.point_text(index)}: point "
+                 f"{'masked' if status[index] == 2 else 'not computed'}")
+            continue
+        values = perturbation[index]
+        where = result.point_text(index)
+        path = os.path.join(out_dir, f"{stem}_electric_image_{number}.png")
+        if "sensor_names" in sensor.attrs:
+            names = str(sensor.attrs["sensor_names"]).split(",")
+            written.append(channel_bars(result, values, units, names, where, path))
+        else:
+            written.append(skin_image(result, result.body(), values, units, where, path))
+    return written
+
+
+def solve_image(result, out_dir, stem):
+    """A murk solve file: the change of transdermal voltage of the first surface that has one,
+    else the change of every electrode's potential."""
+    path = os.path.join(out_dir, f"{stem}_electric_image_1.png")
+    where = "the configuration of the case (murk solve)"
+    for surface in result.file["mesh"] if result.has("mesh") else []:
+        name = f"difference/{surface}/transdermal_voltage"
+        if result.has(name):
+            units = str(result.dataset(name).attrs.get("units", "V"))
+            return [skin_image(result, surface, result.array(name), units, where, path)]
+    name = "difference/electrodes/potential"
+    if result.has(name):
+        d = result.dataset(name)
+        names = str(d.attrs.get("electrode_names", ",".join(str(k) for k in range(d.shape[0])))).split(",")
+        return [channel_bars(result, d[()], str(d.attrs.get("units", "V")), names, where, path, "electrode")]
+    raise Skip("no /difference/<surface>/transdermal_voltage or /difference/electrodes in this murk solve file")
+
+
+def skin_image(result, body, values, units, where, path):
+    """Perturbation per skin panel against the panel's position along the body axis (x) and its
+    angle around that axis, so that the whole skin shows at once."""
+    import numpy as np
+    c = result.centroids(body)
+    if len(c) != len(values):
+        raise BadInput(f"{result.path}: {len(values)} sensors but /mesh/{body} has {len(c)} panels")
+    complex_values = np.iscomplexobj(values)
+    shown = np.abs(values) if complex_values else np.asarray(values, dtype=float)
+    factor, unit = voltage_scale(shown, units)
+    what = ("|change of transdermal voltage|" if complex_values else "change of transdermal voltage") + f" ({unit})"
+    x = c[:, 0] * 1e3
+    centre = 0.5 * (c.min(axis=0) + c.max(axis=0))
+    angle = np.degrees(np.arctan2(c[:, 2] - centre[2], c[:, 1] - centre[1]))
+    fig = new_figure((12, 5), f"{result.title}\nelectric image: {where}")
+    left, right = fig.subplots(1, 2, width_ratios=[1, 1.3])
+    left.scatter(x, shown * factor, s=10, color="0.15")
+    left.axhline(0, color="0.6", linewidth=0.8)
+    left.set_xlabel("position along the body axis x (mm)")
+    left.set_ylabel(what)
+    left.set_title("every skin panel", fontsize=10)
+    points = right.scatter(x, angle, c=shown * factor, cmap="viridis", s=28, edgecolors="none")
+    peak = int(np.nanargmax(np.abs(shown)))
+    right.plot(x[peak], angle[peak], "o", markersize=13, markerfacecolor="none", markeredgecolor="black",
+               markeredgewidth=1.5, label="peak panel")
+    right.set_xlabel("position along the body axis x (mm)")
+    right.set_ylabel("angle around the body axis, atan2(z, y) (degrees)")
+    right.set_yticks(range(-180, 181, 90))
+    right.set_title("unrolled skin (90° = up, ±180° = the -y side)", fontsize=10)
+    right.legend(loc="upper right", fontsize=9)
+    fig.colorbar(points, ax=right, label=what)
+    return save(fig, path)
+
+
+def channel_bars(result, values, units, names, where, path, kind="sensor channel"):
+    import numpy as np
+    if len(names) != len(values):
+        raise BadInput(f"{result.path}: {len(names)} {kind} names for {len(values)} values")
+    complex_values = np.iscomplexobj(values)
+    shown = np.abs(values) if complex_values else np.asarray(values, dtype=float)
+    factor, unit = voltage_scale(shown, units)
+    fig = new_figure((8, 5), f"{result.title}\nchange of each {kind}'s reading: {where}")
+    ax = fig.add_subplot()
+    ax.bar(range(len(names)), shown * factor, color="0.35", edgecolor="black")
+    ax.axhline(0, color="black", linewidth=0.8)
+    ax.set_xticks(range(len(names)), names, rotation=30, ha="right")
+    ax.set_xlabel(kind)
+    ax.set_ylabel(("|change of reading|" if complex_values else "change of reading") + f" ({unit})")
+    return save(fig, path)
+
+
+# ------------------------------------------------------------------ (c) falloff
+
+MARKERS = ["o", "s", "^", "D", "v", "P"]
+
+
+def falloff(result, out_dir, stem):
+    import matplotlib
+    import numpy as np
+    if not result.is_sweep:
+        raise Skip("not a sweep (a murk solve file)")
+    d = result.axis_index("distance")
+    if d is None or len(result.axes[d].values) < 2:
+        raise Skip("no distance axis with two or more values")
+    peak = np.abs(result.array("sweep/peak_perturbation", result.shape()))
+    status = result.status()
+    units = str(result.dataset("sweep/peak_perturbation").attrs.get("units", "V"))
+    curve_axis = pick_curve_axis(result, d)
+    keep = (d,) if curve_axis is None else (d, curve_axis)
+    held = held_text(result, keep)
+    fig = new_figure((8, 6), f"{result.title}\nfalloff of the peak perturbation" + (f", {held}" if held else ""))
+    ax = fig.add_subplot()
+    distances = result.axes[d].values
+    factor, unit = voltage_scale(peak[status == 1], units)
+    count = 1 if curve_axis is None else min(len(result.axes[curve_axis].values), len(MARKERS))
+    colours = [matplotlib.colormaps["viridis"](t) for t in np.linspace(0, 0.85, count)]
+    anchor = None
+    for c in range(count):
+        index = [0] * len(result.axes)
+        if curve_axis is not None:
+            index[curve_axis] = c
+        line = slice_at(peak, index, (d,))
+        ok = (slice_at(status, index, (d,)) == 1) & np.isfinite(line) & (line > 0)
+        label = result.axes[curve_axis].text(c) if curve_axis is not None else "peak perturbation"
+        fit = fitted_line(result, index, d, distances[ok], line[ok])
+        if fit:
+            label += f": exponent {fit[0]:.2f} (R² {fit[3]:.4f})"
+        ax.plot(distances[ok] * 1e3, line[ok] * factor, marker=MARKERS[c], color=colours[c], linestyle="-",
+                linewidth=0.8, markeredgecolor="black", markeredgewidth=0.5, label=label, zorder=3)
+        if fit:
+            # A wide pale band under the points: the fitted line would hide under them otherwise.
+            exponent, lo, hi, _, intercept = fit
+            xs = np.geomspace(lo, hi, 20)
+            ax.plot(xs * 1e3, np.exp(intercept) * xs ** exponent * factor, color=colours[c], linewidth=9,
+                    alpha=0.3, solid_capstyle="butt", zorder=2)
+            anchor = anchor or (lo, np.exp(intercept) * lo ** exponent)
+    draw_fourth_power(ax, distances, anchor, factor)
+    ax.plot([], [], color="0.3", linewidth=9, alpha=0.3, label="fitted power law, over its fit range")
+    ax.set_xscale("log")
+    ax.set_yscale("log")
+    shown = distances * 1e3
+    plain_log_axis(ax.xaxis, shown.min(), shown.max())
+    ax.set_xlabel("distance: clearance between object and body (mm)")
+    ax.set_ylabel(f"peak |perturbation| ({unit})")
+    ax.grid(True, which="both", color="0.9")
+    ax.legend(fontsize=8.5, loc="lower left")
+    return [save(fig, os.path.join(out_dir, f"{stem}_falloff.png"))]
+
+
+def pick_curve_axis(result, d):
+    """One curve per size when sizes vary, else per the first other axis that varies."""
+    varying = [k for k, a in enumerate(result.axes) if k != d and len(a.values) > 1]
+    s = result.axis_index("size")
+    return s if s in varying else (varying[0] if varying else None)
+
+
+def fitted_line(result, index, d, distances, peaks):
+    """(exponent, fit_from, fit_to, R^2, intercept) of /falloff at this row, or None. The file
+    stores no intercept: it is the least-squares one for the stored slope over the fit range."""
+    import numpy as np
+    if not result.has("falloff/exponent"):
+        return None
+    row = [i for k, i in enumerate(index) if k != d]
+    shape = tuple(len(a.values) for k, a in enumerate(result.axes) if k != d)
+    values = []
+    for name in ("exponent", "fit_from", "fit_to", "r_squared"):
+        a = np.asarray(result.array(f"falloff/{name}"), dtype=float)
+        if a.shape != shape and not (shape == () and a.size == 1):
+            raise BadInput(f"{result.path}: dataset /falloff/{name} has shape {a.shape}, expected {shape} "
+                           "over the sweep axes other than distance")
+        values.append(float(a[tuple(row)]) if row else float(a.ravel()[0]))
+    exponent, lo, hi, r2 = values
+    inside = (distances >= lo * (1 - 1e-9)) & (distances <= hi * (1 + 1e-9))
+    if not np.isfinite(exponent) or not inside.any():
+        return None
+    intercept = np.mean(np.log(peaks[inside]) - exponent * np.log(distances[inside]))
+    return exponent, lo, hi, r2, intercept
+
+
+def draw_fourth_power(ax, distances, anchor, factor):
+    import numpy as np
+    if anchor is None:
+        return
+    d0, p0 = anchor
+    xs = np.geomspace(distances.min(), distances.max(), 20)
+    ax.plot(xs * 1e3, p0 * (xs / d0) ** -4 * factor, color="0.45", linestyle=":", linewidth=2,
+            label="distance$^{-4}$ reference (rule of thumb)")
+
+
+# ------------------------------------------------------------------ (d) planar grid map
+
+def grid_map(result, out_dir, stem):
+    import numpy as np
+    if not result.is_sweep:
+        raise Skip("not a sweep (a murk solve file)")
+    u, v = result.axis_index("grid_u"), result.axis_index("grid_v")
+    if u is None or v is None:
+        raise Skip("no grid_u and grid_v axes")
+    if not result.has("sweep/detection_probability"):
+        raise Skip("no /sweep/detection_probability (the case has no noise model)")
+    origin, ud, vd = (np.asarray(result.attribute("sweep/grid_u", key), dtype=float)
+                      for key in ("grid_origin", "grid_u_direction", "grid_v_direction"))
+    for key, vec in (("grid_origin", origin), ("grid_u_direction", ud), ("grid_v_direction", vd)):
+        if vec.shape != (3,):
+            raise BadInput(f"{result.path}: attribute {key} of /sweep/grid_u is not a 3-vector (m)")
+    pd = slice_at(result.array("sweep/detection_probability", result.shape()), [0] * len(result.axes), (u, v))
+    if u > v:
+        pd = pd.T
+    level, stored = result.probability_level()
+    held = held_text(result, (u, v))
+    fig = new_figure((9.5, 5.6), f"{result.title}\ndetection probability around the body" + (f", {held}" if held else ""))
+    ax = fig.add_subplot()
+    uv, vv = result.axes[u].values * 1e3, result.axes[v].values * 1e3
+    image = ax.pcolormesh(edges(uv, False), edges(vv, False), np.ma.masked_invalid(pd.T), cmap=colour_map("cividis"),
+                          vmin=0, vmax=1, shading="flat")
+    fig.colorbar(image, ax=ax, label="detection probability")
+    draw_level_contour(ax, uv, vv, pd.T, level, stored)
+    vertices, _ = result.mesh(result.body())
+    hull = convex_hull(np.stack([(vertices - origin) @ ud, (vertices - origin) @ vd], axis=1) * 1e3)
+    ax.fill(hull[:, 0], hull[:, 1], facecolor="none", edgecolor="black", linewidth=2, hatch="//",
+            label="body (outline projected on the grid plane)")
+    ax.set_aspect("equal")
+    ax.set_xlabel("grid_u: along " + vector_text(ud) + " from the grid origin (mm)")
+    ax.set_ylabel("grid_v: along " + vector_text(vd) + " (mm)")
+    ax.legend(loc="upper right", fontsize=8.5, framealpha=0.9)
+    return [save(fig, os.path.join(out_dir, f"{stem}_grid_map.png"))]
+
+
+def vector_text(vec):
+    return "(" + ", ".join(f"{x:.2g}" for x in vec) + ")"
+
+
+def convex_hull(points):
+    """Outline of the projected body (Andrew's monotone chain), closed."""
+    import numpy as np
+    pts = sorted(set(map(tuple, np.round(points, 9))))
+    if len(pts) < 3:
+        return np.array(pts + pts[:1])
+
+    def half(seq):
+        chain = []
+        for p in seq:
+            while len(chain) >= 2 and ((chain[-1][0] - chain[-2][0]) * (p[1] - chain[-2][1]) -
+                                       (chain[-1][1] - chain[-2][1]) * (p[0] - chain[-2][0])) <= 0:
+                chain.pop()
+            chain.append(p)
+        return chain[:-1]
+
+    ring = half(pts) + half(reversed(pts))
+    return np.array(ring + ring[:1])
+
+
+# ------------------------------------------------------------------ driver
+
+def note(text):
+    print(text)
+
+
+def make_figures(args):
+    import matplotlib
+    matplotlib.use("Agg")
+    result = Result(args.result)
+    out_dir = args.output_dir or os.path.dirname(os.path.abspath(args.result))
+    if not os.path.isdir(out_dir):
+        raise BadInput(f"{out_dir}: no such folder")
+    stem = os.path.splitext(os.path.basename(args.result))[0]
+    figures = [("detection map", lambda: detection_map(result, out_dir, stem)),
+               ("electric image", lambda: electric_images(result, out_dir, stem, args.points)),
+               ("falloff", lambda: falloff(result, out_dir, stem)),
+               ("grid map", lambda: grid_map(result, out_dir, stem))]
+    for name, make in figures:
+        try:
+            for path in make():
+                print(path)
+        except Skip as why:
+            note(f"skipped {name}: {why}")
+
+
+def main():
+    parser = argparse.ArgumentParser(description="Figures (PNG) of a murk result file.",
+                                     epilog="See the top of this script for the figures and --points.")
+    parser.add_argument("result", help="result file of murk run or murk solve (HDF5)")
+    parser.add_argument("-o", "--output-dir", help="folder for the PNG files (default: beside the result)")
+    parser.add_argument("--points", nargs="+", metavar="AXIS=INDEX[,AXIS=INDEX]",
+                        help="sweep points for the electric image, by index along named axes")
+    args = parser.parse_args()
+    try:
+        make_figures(args)
+    except ImportError as missing:
+        print(f"plot_results.py: {missing.name} is missing; run with /usr/bin/python3 or install "
+              "python3-h5py python3-numpy python3-matplotlib", file=sys.stderr)
+        sys.exit(1)
+    except BadInput as problem:
+        print(f"plot_results.py: {problem}", file=sys.stderr)
+        sys.exit(2)
+    except Exception as failure:  # a bug or a file broken in a way not foreseen: still one line
+        print(f"plot_results.py: failed on {args.result}: {type(failure).__name__}: {failure}", file=sys.stderr)
+        sys.exit(1)
+
+
+if __name__ == "__main__":
+    main()
