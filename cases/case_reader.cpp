@@ -715,10 +715,134 @@ void read_tables(const Section& sec, const std::string& key, F read_one) {
     }
 }
 
+// ---- sweep and detection ---------------------------------------------------
+
+// Values of one sweep axis: an array of quantities, or a range table
+// { from, to, count, spacing = "linear" | "log" }. With `words`, "insulator" and
+// "conductor" stand for conductivities 0 and infinity.
+std::vector<double> read_axis_values(const Section& sec, const std::string& key, Dimension d, bool words = false) {
+    const toml::node& n = *sec.find(key);
+    std::vector<double> values;
+    if (const toml::array* arr = n.as_array()) {
+        if (arr->empty()) fail(sec.where(key), "expected at least one value");
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& e = *arr->get(i);
+            const std::string where = at(sec.ctx, line_of(e), sec.key_path(key) + "[" + std::to_string(i + 1) + "]");
+            if (words && e.is_string() && e.as_string()->get() == "insulator") values.push_back(kInsulatorConductivity);
+            else if (words && e.is_string() && e.as_string()->get() == "conductor") values.push_back(kConductorConductivity);
+            else {
+                const double v = quantity_at(where, e, d);
+                if (!(v > 0.0)) fail(where, "must be positive, got " + describe(e));
+                values.push_back(v);
+            }
+        }
+    } else if (n.is_table()) {
+        const Section range{*n.as_table(), sec.key_path(key), line_of(n), sec.ctx};
+        check_keys(range, {"from", "to", "count", "spacing"});
+        const double from = required_positive(range, "from", d), to = required_positive(range, "to", d);
+        const int count = read_count(range, "count", required(range, "count"), 1, 100000);
+        std::string spacing = "linear";
+        if (const toml::node* sp = range.find("spacing")) spacing = read_choice(range, "spacing", *sp, {"linear", "log"});
+        if (count > 1 && !(to > from)) fail(range.where("to"), "must be larger than 'from'");
+        for (int i = 0; i < count; ++i) {
+            const double t = count == 1 ? 0.0 : double(i) / (count - 1);
+            values.push_back(spacing == "log" ? from * std::pow(to / from, t) : from + t * (to - from));
+        }
+    } else {
+        fail(sec.where(key), "expected an array of values or a range table {from, to, count, spacing}, got " + describe(n));
+    }
+    for (std::size_t i = 1; i < values.size(); ++i)
+        if (!(values[i] > values[i - 1]))
+            fail(sec.where(key), "values must increase strictly (insulator first, conductor last)");
+    return values;
+}
+
+// A direction: three plain numbers, normalized; zero is refused.
+std::array<double, 3> read_direction(const Section& sec, const std::string& key) {
+    std::array<double, 3> v{};
+    read_array(sec, key, *sec.find(key), 3, "three numbers like [0, 1, 0]",
+               [&](const std::string& where, const toml::node& e, std::size_t i) {
+                   v[i] = quantity_at(where, e, Dimension::dimensionless);
+               });
+    const double norm = std::sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
+    if (!(norm > 0.0)) fail(sec.where(key), "a direction cannot be zero");
+    for (double& x : v) x /= norm;
+    return v;
+}
+
+SweepSpec read_sweep(const Section& sec) {
+    check_keys(sec, {"object", "distance", "direction", "size", "conductivity", "water_conductivity", "grid"});
+    SweepSpec s;
+    s.line = sec.line;
+    if (const toml::node* o = sec.find("object")) s.object = read_string(sec, "object", *o);
+    if (sec.find("distance")) s.distance_m = read_axis_values(sec, "distance", Dimension::length);
+    if (sec.find("direction")) s.direction = read_direction(sec, "direction");
+    if (sec.find("size")) s.size_m = read_axis_values(sec, "size", Dimension::length);
+    if (sec.find("conductivity")) s.conductivity_S_per_m = read_axis_values(sec, "conductivity", Dimension::conductivity, true);
+    if (sec.find("water_conductivity"))
+        s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
+    if (const toml::node* g = sec.find("grid")) {
+        const Section grid{as_table(sec, "grid", *g), sec.key_path("grid"), line_of(*g), sec.ctx};
+        check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v"});
+        SweepGridSpec spec;
+        spec.origin_m = read_lengths3(grid, "origin", required(grid, "origin"), false);
+        (void)required(grid, "u_direction"), (void)required(grid, "v_direction");
+        spec.u_direction = read_direction(grid, "u_direction");
+        spec.v_direction = read_direction(grid, "v_direction");
+        const double dot = spec.u_direction[0] * spec.v_direction[0] + spec.u_direction[1] * spec.v_direction[1] +
+                           spec.u_direction[2] * spec.v_direction[2];
+        if (std::abs(dot) > 0.999) fail(grid.where("v_direction"), "must not be parallel to u_direction");
+        (void)required(grid, "u"), (void)required(grid, "v");
+        spec.u_m = read_axis_values(grid, "u", Dimension::length);
+        spec.v_m = read_axis_values(grid, "v", Dimension::length);
+        s.grid = spec;
+    }
+    if (s.grid && !s.distance_m.empty())
+        fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
+    if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
+    if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
+        s.water_conductivity_S_per_m.empty())
+        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity or grid");
+    return s;
+}
+
+DetectionSpec read_detection(const Section& sec) {
+    check_keys(sec, {"receptor_noise", "receptor_density", "amplifier_noise", "amplifier_current_noise",
+                     "integration_time", "false_alarm_probability", "probability_level"});
+    DetectionSpec d;
+    d.line = sec.line;
+    const bool receptors = sec.find("receptor_noise") != nullptr;
+    const bool voltage = sec.find("amplifier_noise") != nullptr;
+    const bool current = sec.find("amplifier_current_noise") != nullptr;
+    if (int(receptors) + int(voltage) + int(current) != 1)
+        fail(sec.where_self(), "give exactly one noise level: receptor_noise (fish), amplifier_noise (robot voltage "
+                               "sensors) or amplifier_current_noise (robot current sensors)");
+    if (receptors) {
+        d.noise = DetectionSpec::Noise::receptors;
+        d.receptor_noise_V = required_positive(sec, "receptor_noise", Dimension::voltage);
+        d.receptor_density_per_m2 = required_positive(sec, "receptor_density", Dimension::areal_density);
+    } else {
+        d.noise = voltage ? DetectionSpec::Noise::voltage_amplifier : DetectionSpec::Noise::current_amplifier;
+        d.noise_density = voltage ? required_positive(sec, "amplifier_noise", Dimension::voltage_noise_density)
+                                  : required_positive(sec, "amplifier_current_noise", Dimension::current_noise_density);
+        d.integration_time_s = required_positive(sec, "integration_time", Dimension::time);
+    }
+    auto probability = [&](const char* key, double fallback) {
+        const toml::node* n = sec.find(key);
+        if (!n) return fallback;
+        const double p = read_quantity(sec, key, *n, Dimension::dimensionless);
+        if (!(p > 0.0 && p < 1.0)) fail(sec.where(key), "a probability strictly between 0 and 1, got " + describe(*n));
+        return p;
+    };
+    d.false_alarm_probability = probability("false_alarm_probability", 1e-3);
+    d.probability_level = probability("probability_level", 0.5);
+    return d;
+}
+
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
-                     "probe"});
+                     "probe", "sweep", "detection"});
     CaseSpec spec;
     spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
     if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
@@ -759,6 +883,13 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
         for (ProbePoint& x : probe_points_of(p, i)) spec.probe_points.push_back(std::move(x));
         spec.probes.push_back(std::move(p));
     });
+
+    if (const toml::node* sw = sec.find("sweep"))
+        spec.sweep = read_sweep(Section{as_table(sec, "sweep", *sw), "sweep", line_of(*sw), ctx});
+    if (const toml::node* de = sec.find("detection"))
+        spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
+    if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.sweep && !fish && !robot) fail(sec.where("sweep"), "a sweep needs a sensing body ([fish] or [robot])");
 
     // Without a body nothing drives a current or reads one unless the case has
     // its own sources and probes: the open-water case of a point-like emitter.

@@ -59,7 +59,8 @@ void write_sweep_analysis(H5Group& root, const std::vector<SweepAxis>& axes, con
     const Lines lines = distance_lines(axes, d);
     const std::vector<double>& distances = axes[d].values;
     const std::vector<double> peak = root.read<double>("sweep/peak_perturbation").values;
-    H5Shape full(axis_shape(axes).begin(), axis_shape(axes).end());
+    const std::vector<std::size_t> shape = axis_shape(axes);
+    const H5Shape full(shape.begin(), shape.end());
     const std::size_t n_lines = lines.starts.size();
 
     // Falloff of the peak perturbation.

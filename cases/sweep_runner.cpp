@@ -9,6 +9,7 @@
 #include "cases/sweep_axes.hpp"
 #include "cases/sweep_point.hpp"
 #include "cases/sweep_readings.hpp"
+#include "cases/xdmf_writer.hpp"
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
 
@@ -18,6 +19,7 @@
 #include <optional>
 #include <chrono>
 #include <csignal>
+#include <filesystem>
 #include <cstdio>
 
 namespace murk {
@@ -94,6 +96,7 @@ public:
         open_output();
         try {
             compute_points();
+            if (!g_stop_requested) analyse_and_commit();
         } catch (...) {
             output_->suspend();  // keep every finished point for --resume
             throw;
@@ -105,7 +108,6 @@ public:
                          finished_, total_, H5Output::partial_path(options_.output_path).c_str());
             return RunOutcome::interrupted;
         }
-        analyse_and_commit();
         return RunOutcome::complete;
     }
 
@@ -161,6 +163,7 @@ private:
             for (auto s : status_) finished_ += s != kNotComputed;
             return;
         }
+        check_xdmf_file_name(std::filesystem::path(options_.output_path).filename().string());
         output_.emplace(options_.output_path, options_.force, hint);
         H5Group root = output_->root();
         write_result_metadata(root, spec_, options_.command_line,
@@ -225,8 +228,11 @@ private:
         if (spec_.detection) {
             attach(sweep.create_extendible<double>("snr", with(shape_), "1",
                                                    "ideal-observer signal-to-noise ratio d' (amplitude)", chunked), false);
-            attach(sweep.create_extendible<double>("detection_probability", with(shape_), "1",
-                                                   "Neyman-Pearson detection probability", chunked), false);
+            H5Dataset pd = sweep.create_extendible<double>("detection_probability", with(shape_), "1",
+                                                           "Neyman-Pearson detection probability", chunked);
+            pd.set_attribute("probability_level", spec_.detection->probability_level);
+            pd.set_attribute("false_alarm_probability", spec_.detection->false_alarm_probability);
+            attach(pd, false);
         }
         status_.assign(total_, kNotComputed);
         output_->file().flush();
@@ -289,8 +295,53 @@ private:
     void analyse_and_commit() {
         H5Group root = output_->root();
         write_sweep_analysis(root, axes_, spec_.detection);
+        const std::vector<XdmfAttribute> surface_fields = write_surface_magnitudes(root);
         output_->commit();
-        if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), total_);
+        const Surface<S>& body = baseline_scenes_.front().surfaces.front();
+        const std::string name = surface_group_name(body.mesh.name);
+        const std::string h5_name = std::filesystem::path(options_.output_path).filename().string();
+        write_xdmf_sidecar(xdmf_sidecar_path(options_.output_path), h5_name,
+                           {{"/mesh/" + name, body.mesh.vertices.size(), body.mesh.size(), surface_fields}});
+        if (!options_.quiet)
+            std::printf("wrote %s (%zu points) and %s\n", options_.output_path.c_str(), total_,
+                        xdmf_sidecar_path(options_.output_path).c_str());
+    }
+
+    // Real-valued panel fields of the body for the XDMF sidecar (ParaView reads
+    // real cell data): the baseline and, for a fish, the electric image at the
+    // point with the largest peak.
+    std::vector<XdmfAttribute> write_surface_magnitudes(H5Group& root) {
+        const Surface<S>& body = baseline_scenes_.front().surfaces.front();
+        const SurfaceSolution<S>& base = baseline_solutions_.front().surfaces.front();
+        const std::string group = "/baseline/" + surface_group_name(body.mesh.name);
+        std::vector<XdmfAttribute> fields;
+        std::vector<double> values;
+        for (Eigen::Index k = 0; k < base.outer_potential.size(); ++k) values.push_back(std::abs(base.outer_potential(k)));
+        root.write(group + "/outer_potential_magnitude", values, "V", "magnitude of the baseline water-side potential");
+        fields.push_back({"baseline |potential| (V)", group + "/outer_potential_magnitude"});
+        if (!sensors_.skin) return fields;
+        values.clear();
+        for (Eigen::Index k = 0; k < base.outer_potential.size(); ++k)
+            values.push_back(std::abs(base.inner_potential(k) - base.outer_potential(k)));
+        root.write(group + "/transdermal_voltage_magnitude", values, "V", "magnitude of the baseline transdermal voltage");
+        fields.push_back({"baseline |transdermal voltage| (V)", group + "/transdermal_voltage_magnitude"});
+
+        const std::vector<double> peak = root.read<double>("sweep/peak_perturbation").values;
+        std::size_t best = total_;
+        for (std::size_t p = 0; p < total_; ++p)
+            if (status_[p] == kComputed && (best == total_ || peak[p] > peak[best])) best = p;
+        if (best == total_) return fields;
+        const std::vector<std::size_t> index = unflatten(best, axes_);
+        H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
+        offset.push_back(0), count.push_back(sensors_.size());
+        const std::vector<S> image = root.dataset("sweep/perturbation").read_slab<S>(offset, count);
+        values.clear();
+        for (const S& v : image) values.push_back(std::abs(v));
+        H5Dataset strongest = root.write("sweep/strongest_image", values, "V",
+                                         "magnitude of the electric image at the sweep point with the largest peak");
+        strongest.set_attribute("point", static_cast<std::int64_t>(best));
+        fields.push_back({"strongest electric image |dV| (V)", "/sweep/strongest_image"});
+        return fields;
     }
 
     template <class T>

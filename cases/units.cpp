@@ -83,6 +83,7 @@ std::string reference_expression(Dimension d) {
         case Dimension::current_noise_density: return "A";
         case Dimension::time: return "s";
         case Dimension::angle: return "rad";
+        case Dimension::areal_density: return "m^-2";
         case Dimension::dimensionless: return "1";
     }
     return "1";
@@ -269,6 +270,7 @@ std::string dimension_name(Dimension d) {
         case Dimension::current_noise_density: return "a current noise density";
         case Dimension::time: return "a time";
         case Dimension::angle: return "an angle";
+        case Dimension::areal_density: return "a number per area";
         case Dimension::dimensionless: return "a dimensionless number";
     }
     return "a quantity";
@@ -297,6 +299,7 @@ std::string example_quantity(Dimension d) {
         case Dimension::current_noise_density: return "1 pA/sqrt(Hz)";
         case Dimension::time: return "1 ms";
         case Dimension::angle: return "30 deg";
+        case Dimension::areal_density: return "200 cm^-2";
         case Dimension::dimensionless: return "0.5";
     }
     return "1";

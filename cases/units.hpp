@@ -23,6 +23,7 @@ enum class Dimension {
     current_noise_density,   // A/sqrt(Hz)
     time,                    // s
     angle,                   // rad
+    areal_density,           // 1/m^2 (receptors per skin area)
     dimensionless,           // 1
 };
 

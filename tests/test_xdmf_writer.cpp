@@ -160,7 +160,7 @@ TEST_CASE("xdmf: names that XML reserves are escaped") {
     CHECK(text.find("Name=\"|dV| &lt;peak&gt; &amp; &quot;more&quot;\"") != std::string::npos);
 }
 
-TEST_CASE("xdmf: a sidecar replaces an older one; bad names and folders are input errors") {
+TEST_CASE("xdmf: a sidecar replaces an older one, and bad names and folders are input errors") {
     TempDir dir;
     std::ofstream(dir / "r.xdmf") << "old";
     write_xdmf_sidecar(dir / "r.xdmf", "r.h5", {octahedron("fish")});

@@ -163,7 +163,13 @@ std::vector<double> magnitudes(const H5Dataset& d) {
     return values;
 }
 
-std::vector<double> as_doubles(const std::vector<std::uint8_t>& codes) { return {codes.begin(), codes.end()}; }
+// Real or integer values as doubles: an object axis holds indices, status codes are integers.
+std::vector<double> numbers(const H5Dataset& d) {
+    if (d.kind() == H5Kind::real) return d.read<double>().values;
+    if (d.kind() != H5Kind::integer) malformed(d, "holds neither real numbers nor integers");
+    const std::vector<std::int64_t> whole = d.read<std::int64_t>().values;
+    return {whole.begin(), whole.end()};
+}
 
 // ---- the header shared by both kinds of file --------------------------------------------
 
@@ -295,7 +301,7 @@ std::vector<Axis> read_axes(const H5Group& sweep, const H5Dataset& status) {
             malformed(status, "has no axis attached to dimension " + std::to_string(k) +
                                   " (expected a dimension scale from /sweep/<axis>)");
         const H5Dataset d = sweep.dataset(names[k]);
-        Axis a{names[k], units_of(d), d.read<double>().values, {}};
+        Axis a{names[k], units_of(d), numbers(d), {}};
         if (a.values.size() != shape[k])
             malformed(d, "has " + std::to_string(a.values.size()) + " values but /sweep/status has " +
                              std::to_string(shape[k]) + " along dimension " + std::to_string(k));
@@ -407,7 +413,7 @@ std::vector<int> dims_over(const H5Dataset& d, const std::vector<Axis>& axes, co
 OverAxes read_over_axes(const H5Dataset& d, const std::vector<Axis>& axes, const std::vector<int>& others) {
     OverAxes o{dims_over(d, axes, others), d.shape(), {}};
     if (o.axis_of_dim.empty()) o.shape.clear();
-    o.values = d.kind() == H5Kind::integer ? as_doubles(d.read<std::uint8_t>().values) : d.read<double>().values;
+    o.values = numbers(d);
     return o;
 }
 
