@@ -297,9 +297,9 @@ TEST_CASE("case reader: unknown keys are refused with the allowed ones") {
     // misspelt key
     std::string text = fish_with("[water]", "conductivty = \"1 S/m\"");
     check_error(text, "conductivty", "water.conductivty", "unknown key; allowed here: conductivity, permittivity");
-    // the planned [sweep] section is not there yet
+    // a sweep changes an object, so a case without one cannot have a sweep
     text = kFish + "[sweep]\ndistance = [\"1 cm\"]\n";
-    check_error(text, "[sweep]", "sweep", "unknown key; allowed here: title,");
+    check_error(text, "[sweep]", "sweep", "the case has none");
     // unknown key inside an array of tables
     text = kFish + "[[object]]\nshape = \"sphere\"\nradius = \"1 mm\"\ncolour = \"red\"\n"
                    "position = [\"0 m\", \"1 m\", \"0 m\"]\nconductivity = \"insulator\"\n";

@@ -106,8 +106,9 @@ TEST_CASE("scene builder: every example case reads and builds") {
         CHECK(panels <= 2500);
         // Each opens with a comment block saying how to run it.
         CHECK(spec.text.rfind("# ", 0) == 0);
-        CHECK(spec.text.find("build/murk solve cases/examples/" + entry.path().filename().string()) !=
-              std::string::npos);
+        const std::string name = entry.path().filename().string();
+        CHECK((spec.text.find("build/murk solve cases/examples/" + name) != std::string::npos ||
+               spec.text.find("build/murk run cases/examples/" + name) != std::string::npos));
     }
     CHECK(count >= 4);
 }
