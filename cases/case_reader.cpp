@@ -889,7 +889,6 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
-    if (spec.sweep && !fish && !robot) fail(sec.where("sweep"), "a sweep needs a sensing body ([fish] or [robot])");
 
     // Without a body nothing drives a current or reads one unless the case has
     // its own sources and probes: the open-water case of a point-like emitter.

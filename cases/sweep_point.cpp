@@ -5,6 +5,7 @@
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"
 #include "geometry/transform.hpp"
+#include "geometry/triangle_distance.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -58,12 +59,12 @@ TriangleMesh object_mesh(const CaseSpec& spec, std::size_t k) {
 // `distance`. Clearance changes at most as fast as the object moves (it is
 // 1-Lipschitz in the displacement), so stepping by the remaining difference
 // never overshoots from above; from below the object first steps outward.
-bool place_at_distance(const TriangleMesh& body, const TriangleMesh& object, const Vec3& direction, double distance,
-                       double& t) {
+bool place_at_distance(const DistanceReference& reference, const TriangleMesh& object, const Vec3& direction,
+                       double distance, double& t) {
     auto clearance = [&](double s) {
         TriangleMesh moved = object;
         translate(moved, s * direction);
-        return min_distance(body, moved);
+        return reference.clearance(moved);
     };
     t = 0.0;
     double c = clearance(t);
@@ -84,6 +85,23 @@ bool place_at_distance(const TriangleMesh& body, const TriangleMesh& object, con
 
 }  // namespace
 
+double DistanceReference::clearance(const TriangleMesh& object) const {
+    if (body) return min_distance(*body, object);
+    if (contains_point(object, point)) return 0.0;
+    double d = INFINITY;
+    for (std::size_t t = 0; t < object.size(); ++t)
+        d = std::min(d, point_triangle_distance(point, object.corner(t, 0), object.corner(t, 1), object.corner(t, 2)));
+    return d;
+}
+
+Vec3 DistanceReference::nearest_to(const Vec3& x) const {
+    if (!body) return point;
+    Vec3 nearest = body->vertices.front();
+    for (const Vec3& v : body->vertices)
+        if ((v - x).squaredNorm() < (nearest - x).squaredNorm()) nearest = v;
+    return nearest;
+}
+
 std::size_t swept_object_index(const CaseSpec& spec, const SweepSpec& sweep) {
     if (spec.objects.empty())
         throw InputError(spec.path + ":" + std::to_string(sweep.line) + ": sweep: the case has no [[object]] to sweep");
@@ -95,7 +113,7 @@ std::size_t swept_object_index(const CaseSpec& spec, const SweepSpec& sweep) {
 }
 
 PointSetup configure_point(const CaseSpec& spec, const SweepSpec& sweep, const std::vector<SweepAxis>& axes,
-                           const std::vector<std::size_t>& index, const TriangleMesh& body) {
+                           const std::vector<std::size_t>& index, const DistanceReference& reference) {
     PointSetup p;
     p.spec = spec;
     const std::size_t k = swept_object_index(spec, sweep);
@@ -132,14 +150,11 @@ PointSetup configure_point(const CaseSpec& spec, const SweepSpec& sweep, const s
         Vec3 direction;
         if (sweep.direction) {
             direction = to_vec(*sweep.direction).normalized();
-        } else {  // away from the body vertex nearest to the object's centre
-            Vec3 nearest = body.vertices.front();
-            for (const Vec3& v : body.vertices)
-                if ((v - centre).squaredNorm() < (nearest - centre).squaredNorm()) nearest = v;
-            direction = (centre - nearest).normalized();
+        } else {  // away from the reference point nearest to the object's centre
+            direction = (centre - reference.nearest_to(centre)).normalized();
         }
         double t = 0.0;
-        if (!place_at_distance(body, mesh, direction, distance, t)) {
+        if (!place_at_distance(reference, mesh, direction, distance, t)) {
             p.masked = true, p.mask_reason = "cannot reach the clearance along the sweep direction";
             return p;
         }

@@ -23,8 +23,18 @@ struct PointSetup {
 // InputError when the case has no such object.
 std::size_t swept_object_index(const CaseSpec& spec, const SweepSpec& sweep);
 
-// `body` is the sensing body's mesh as placed in the scene.
+// What the distance axis measures from: the sensing body's surface, or, in a
+// case without a body, the first source point (a point-like emitter).
+struct DistanceReference {
+    const TriangleMesh* body = nullptr;  // as placed in the scene; null without a body
+    Vec3 point = Vec3::Zero();           // used when body is null
+
+    double clearance(const TriangleMesh& object) const;
+    Vec3 nearest_to(const Vec3& x) const;  // a point of the reference near x
+};
+
+// The case at one point of the sweep.
 PointSetup configure_point(const CaseSpec& spec, const SweepSpec& sweep, const std::vector<SweepAxis>& axes,
-                           const std::vector<std::size_t>& index, const TriangleMesh& body);
+                           const std::vector<std::size_t>& index, const DistanceReference& reference);
 
 }  // namespace murk

@@ -1,6 +1,7 @@
 #include "cases/sweep_readings.hpp"
 
 #include "geometry/input_error.hpp"
+#include "solver/bem_system.hpp"
 
 #include <Eigen/Eigenvalues>
 #include <cmath>
@@ -8,8 +9,17 @@
 namespace murk {
 
 template <class S>
-SensorLayout sensor_layout(const Scene<S>& baseline, const std::string& where) {
+SensorLayout sensor_layout(const CaseSpec& spec, const Scene<S>& baseline, const std::string& where) {
     SensorLayout layout;
+    if (!spec.fish && !spec.robot) {
+        layout.probes = true;
+        layout.units = "V";
+        for (const ProbePoint& p : spec.probe_points) {
+            layout.position.push_back(Vec3(p.position_m[0], p.position_m[1], p.position_m[2]));
+            layout.names.push_back(p.label);
+        }
+        return layout;
+    }
     const Surface<S>& body = baseline.surfaces.front();
     if (body.kind == InterfaceKind::membrane) {
         layout.skin = true;
@@ -51,8 +61,15 @@ SensorLayout sensor_layout(const Scene<S>& baseline, const std::string& where) {
 }
 
 template <class S>
-std::vector<S> sensor_readings(const SensorLayout& sensors, const Solution<S>& solution) {
+std::vector<S> sensor_readings(const SensorLayout& sensors, const Scene<S>& scene, const Solution<S>& solution,
+                               const QuadratureOptions& quad) {
     std::vector<S> out;
+    if (sensors.probes) {
+        Eigen::Matrix3Xd points(3, sensors.size());
+        for (std::size_t k = 0; k < sensors.size(); ++k) points.col(k) = sensors.position[k];
+        const auto phi = potential_at(scene, solution, points, quad);
+        return std::vector<S>(phi.data(), phi.data() + phi.size());
+    }
     if (sensors.skin) {
         const auto& skin = solution.surfaces.front();
         for (Eigen::Index k = 0; k < skin.outer_potential.size(); ++k)
@@ -80,10 +97,12 @@ ImageSummary summarize_image(const SensorLayout& sensors, const std::vector<S>& 
     return s;
 }
 
-template SensorLayout sensor_layout(const Scene<double>&, const std::string&);
-template SensorLayout sensor_layout(const Scene<Complex>&, const std::string&);
-template std::vector<double> sensor_readings(const SensorLayout&, const Solution<double>&);
-template std::vector<Complex> sensor_readings(const SensorLayout&, const Solution<Complex>&);
+template SensorLayout sensor_layout(const CaseSpec&, const Scene<double>&, const std::string&);
+template SensorLayout sensor_layout(const CaseSpec&, const Scene<Complex>&, const std::string&);
+template std::vector<double> sensor_readings(const SensorLayout&, const Scene<double>&, const Solution<double>&,
+                                             const QuadratureOptions&);
+template std::vector<Complex> sensor_readings(const SensorLayout&, const Scene<Complex>&, const Solution<Complex>&,
+                                              const QuadratureOptions&);
 template ImageSummary summarize_image(const SensorLayout&, const std::vector<double>&);
 template ImageSummary summarize_image(const SensorLayout&, const std::vector<Complex>&);
 

@@ -1,8 +1,11 @@
 #pragma once
-// What the sensors of the body read at one sweep point, as a change from the
-// baseline: the transdermal voltage of every skin panel of a fish, or the
-// reading of every sensor electrode of a robot (potential of a floating sensor,
-// current of a fixed-potential sensor). Plus the peak and the image width.
+// What the sensors read at one sweep point, as a change from the baseline: the
+// transdermal voltage of every skin panel of a fish, or the reading of every
+// sensor electrode of a robot (potential of a floating sensor, current of a
+// fixed-potential sensor), or, in a case without a body, the potential at every
+// probe point. Plus the peak and the image width.
+#include "cases/case_spec.hpp"
+#include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 
 #include <string>
@@ -12,6 +15,7 @@ namespace murk {
 
 struct SensorLayout {
     bool skin = false;                   // fish: one sensor per skin panel
+    bool probes = false;                 // no body: one sensor per probe point
     std::vector<int> electrodes;         // robot: sensor electrode indices
     std::vector<std::string> names;      // robot: sensor names
     std::string units;                   // "V" or "A"
@@ -21,14 +25,16 @@ struct SensorLayout {
     std::size_t size() const { return position.size(); }
 };
 
-// Sensors of the baseline scene (surface 0 is the sensing body). A robot with
-// no sensor electrodes, or with both voltage and current sensors, is an
-// InputError (one map holds one kind of reading).
+// Sensors of the case: the body's (surface 0 of the baseline scene), or the
+// probe points when the case has no body. A robot with no sensor electrodes, or
+// with both voltage and current sensors, is an InputError (one map holds one
+// kind of reading).
 template <class S>
-SensorLayout sensor_layout(const Scene<S>& baseline, const std::string& where);
+SensorLayout sensor_layout(const CaseSpec& spec, const Scene<S>& baseline, const std::string& where);
 
 template <class S>
-std::vector<S> sensor_readings(const SensorLayout& sensors, const Solution<S>& solution);
+std::vector<S> sensor_readings(const SensorLayout& sensors, const Scene<S>& scene, const Solution<S>& solution,
+                               const QuadratureOptions& quad);
 
 struct ImageSummary {
     double peak = 0;          // largest |change|

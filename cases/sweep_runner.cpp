@@ -135,8 +135,13 @@ private:
             baseline_scenes_.push_back(build_scene<S>(s, false));
             baseline_solutions_.push_back(solve_scene(baseline_scenes_.back(), quad));
         }
-        sensors_ = sensor_layout(baseline_scenes_.front(), where_);
-        for (const auto& sol : baseline_solutions_) baseline_readings_.push_back(sensor_readings(sensors_, sol));
+        sensors_ = sensor_layout(spec_, baseline_scenes_.front(), where_);
+        for (std::size_t w = 0; w < waters_.size(); ++w)
+            baseline_readings_.push_back(sensor_readings(sensors_, baseline_scenes_[w], baseline_solutions_[w], quad));
+        if (sensors_.probes) {  // no body: distances are measured from the emitter
+            const auto points = source_points(spec_.sources.front());
+            reference_point_ = points.front().position;
+        }
         if (spec_.detection) {
             noise_ = noise_model(*spec_.detection);
             if (sensors_.skin) {
@@ -144,7 +149,7 @@ private:
                     throw InputError(where_ + ": a fish's skin needs the receptor noise model");
                 for (double a : sensors_.area) receptors_.push_back(a * spec_.detection->receptor_density_per_m2);
             } else if (noise_.kind == NoiseKind::receptors) {
-                throw InputError(where_ + ": a robot's sensors need an amplifier noise model");
+                throw InputError(where_ + ": electrodes and probes need an amplifier noise model");
             }
         }
     }
@@ -169,11 +174,13 @@ private:
         write_result_metadata(root, spec_, options_.command_line,
                               "full boundary-element solve at every point (no approximation beyond the discretization)",
                               quadrature_options(spec_));
-        const Surface<S>& body = baseline_scenes_.front().surfaces.front();
-        const std::string body_name = surface_group_name(body.mesh.name);
-        root.set_attribute("body", body_name);
-        write_mesh(root.group("mesh/" + body_name), body.mesh);
-        write_surface_values(root.group("baseline/" + body_name), body, baseline_solutions_.front().surfaces.front());
+        if (!sensors_.probes) {
+            const Surface<S>& body = baseline_scenes_.front().surfaces.front();
+            const std::string body_name = surface_group_name(body.mesh.name);
+            root.set_attribute("body", body_name);
+            write_mesh(root.group("mesh/" + body_name), body.mesh);
+            write_surface_values(root.group("baseline/" + body_name), body, baseline_solutions_.front().surfaces.front());
+        }
         H5Group sweep = root.group("sweep");
         std::vector<H5Dataset> scales;
         for (const SweepAxis& a : axes_) {
@@ -191,8 +198,14 @@ private:
         std::vector<std::int32_t> sensor_index(sensors_.size());
         for (std::size_t k = 0; k < sensor_index.size(); ++k) sensor_index[k] = static_cast<std::int32_t>(k);
         H5Dataset sensor = sweep.write("sensor", sensor_index, "1",
-                                       sensors_.skin ? "skin panel index" : "sensor electrode index");
+                                       sensors_.skin ? "skin panel index"
+                                                     : sensors_.probes ? "probe point index" : "sensor electrode index");
         sensor.make_scale("sensor");
+        if (sensors_.probes) {
+            std::vector<double> xyz;
+            for (const Vec3& x : sensors_.position) xyz.insert(xyz.end(), {x.x(), x.y(), x.z()});
+            sweep.write("sensor_position", xyz, {hsize_t(sensors_.size()), 3}, "m", "probe point position");
+        }
         if (!sensors_.skin) {
             std::string names;
             for (std::size_t k = 0; k < sensors_.names.size(); ++k) names += (k ? "," : "") + sensors_.names[k];
@@ -248,8 +261,10 @@ private:
             if (status_[p] != kNotComputed) continue;
             const std::vector<std::size_t> index = unflatten(p, axes_);
             const std::size_t w = water_axis >= 0 ? index[water_axis] : 0;
-            const TriangleMesh& body = baseline_scenes_[w].surfaces.front().mesh;
-            PointSetup setup = configure_point(spec_, sweep_, axes_, index, body);
+            DistanceReference reference;
+            if (sensors_.probes) reference.point = reference_point_;
+            else reference.body = &baseline_scenes_[w].surfaces.front().mesh;
+            PointSetup setup = configure_point(spec_, sweep_, axes_, index, reference);
             std::optional<Scene<S>> scene;
             if (!setup.masked) {
                 try {
@@ -265,7 +280,7 @@ private:
                 status_[p] = kMasked;
             } else {
                 const Solution<S> solution = solve_scene(*scene, quad);
-                std::vector<S> change = sensor_readings(sensors_, solution);
+                std::vector<S> change = sensor_readings(sensors_, *scene, solution, quad);
                 for (std::size_t k = 0; k < change.size(); ++k) change[k] -= baseline_readings_[w][k];
                 const ImageSummary image = summarize_image(sensors_, change);
                 write(sweep, "perturbation", offset, count, {hsize_t(change.size())}, change);
@@ -295,8 +310,13 @@ private:
     void analyse_and_commit() {
         H5Group root = output_->root();
         write_sweep_analysis(root, axes_, spec_.detection);
-        const std::vector<XdmfAttribute> surface_fields = write_surface_magnitudes(root);
+        const std::vector<XdmfAttribute> surface_fields =
+            sensors_.probes ? std::vector<XdmfAttribute>{} : write_surface_magnitudes(root);
         output_->commit();
+        if (sensors_.probes) {  // no surface to show
+            if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), total_);
+            return;
+        }
         const Surface<S>& body = baseline_scenes_.front().surfaces.front();
         const std::string name = surface_group_name(body.mesh.name);
         const std::string h5_name = std::filesystem::path(options_.output_path).filename().string();
@@ -372,6 +392,7 @@ private:
     SensorLayout sensors_;
     NoiseModel noise_;
     std::vector<double> receptors_;
+    Vec3 reference_point_ = Vec3::Zero();
     std::optional<H5Output> output_;
     std::vector<std::uint8_t> status_;
 };
