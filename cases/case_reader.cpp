@@ -771,10 +771,22 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 }
 
 SweepSpec read_sweep(const Section& sec) {
-    check_keys(sec, {"object", "distance", "direction", "size", "conductivity", "water_conductivity", "grid"});
+    check_keys(sec, {"object", "objects", "distance", "direction", "size", "conductivity", "water_conductivity", "grid"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* o = sec.find("object")) s.object = read_string(sec, "object", *o);
+    if (const toml::node* list = sec.find("objects")) {
+        const toml::array* arr = list->as_array();
+        if (!arr || arr->empty()) fail(sec.where("objects"), "expected an array of object names, got " + describe(*list));
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& e = *arr->get(i);
+            if (!e.is_string())
+                fail(at(sec.ctx, line_of(e), "sweep.objects[" + std::to_string(i + 1) + "]"),
+                     "expected an object name in quotes, got " + describe(e));
+            s.objects.push_back(e.as_string()->get());
+        }
+        if (sec.find("object")) fail(sec.where("objects"), "give either object (one) or objects (alternatives), not both");
+    }
     if (sec.find("distance")) s.distance_m = read_axis_values(sec, "distance", Dimension::length);
     if (sec.find("direction")) s.direction = read_direction(sec, "direction");
     if (sec.find("size")) s.size_m = read_axis_values(sec, "size", Dimension::length);
@@ -801,8 +813,8 @@ SweepSpec read_sweep(const Section& sec) {
         fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
-        s.water_conductivity_S_per_m.empty())
-        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity or grid");
+        s.water_conductivity_S_per_m.empty() && s.objects.empty())
+        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, objects or grid");
     return s;
 }
 
@@ -889,6 +901,14 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.sweep) {
+        const Section sw{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx};
+        std::vector<std::string> names = spec.sweep->objects;
+        if (!spec.sweep->object.empty()) names.push_back(spec.sweep->object);
+        for (const std::string& n : names)
+            if (!object_names.count(n))
+                fail(sw.where(spec.sweep->objects.empty() ? "object" : "objects"), "no [[object]] is named '" + n + "'");
+    }
 
     // Without a body nothing drives a current or reads one unless the case has
     // its own sources and probes: the open-water case of a point-like emitter.

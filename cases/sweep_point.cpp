@@ -116,7 +116,19 @@ PointSetup configure_point(const CaseSpec& spec, const SweepSpec& sweep, const s
                            const std::vector<std::size_t>& index, const DistanceReference& reference) {
     PointSetup p;
     p.spec = spec;
-    const std::size_t k = swept_object_index(spec, sweep);
+    // An object axis picks one of several alternative objects; the others it
+    // lists leave the water.
+    const int object_axis = find_axis(axes, AxisKind::object);
+    if (object_axis >= 0) {
+        const std::string chosen = sweep.objects[index[object_axis]];
+        std::vector<ObjectSpec> kept;
+        for (const ObjectSpec& o : spec.objects)
+            if (o.name == chosen || std::find(sweep.objects.begin(), sweep.objects.end(), o.name) == sweep.objects.end())
+                kept.push_back(o);
+        p.spec.objects = kept;
+        p.spec.sweep->object = chosen;
+    }
+    const std::size_t k = swept_object_index(p.spec, *p.spec.sweep);
     ObjectSpec& object = p.spec.objects[k];
     Vec3 centre = to_vec(object.position_m);
     bool has_distance = false;
@@ -125,6 +137,7 @@ PointSetup configure_point(const CaseSpec& spec, const SweepSpec& sweep, const s
         const double v = axes[a].values[index[a]];
         switch (axes[a].kind) {
             case AxisKind::water_conductivity: p.spec.water.conductivity_S_per_m = v; break;
+            case AxisKind::object: break;  // chosen above
             case AxisKind::conductivity: set_material(object, v); break;
             case AxisKind::size: {
                 const double factor = v / half_extent(object.shape);

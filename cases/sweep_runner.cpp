@@ -119,7 +119,7 @@ private:
         axes_ = sweep_axes(sweep_);
         shape_ = axis_shape(axes_);
         total_ = point_count(axes_);
-        (void)swept_object_index(spec_, sweep_);
+        if (sweep_.objects.empty()) (void)swept_object_index(spec_, sweep_);
         if (find_axis(axes_, AxisKind::distance) >= 0 && sweep_.grid)
             throw InputError(where_ + ": a sweep moves the object either by distance or on a grid, not both");
     }
@@ -187,6 +187,11 @@ private:
             H5Dataset d = sweep.write(a.name, a.values, a.units, a.long_name);
             d.make_scale(a.name);
             scales.push_back(d);
+        }
+        if (!sweep_.objects.empty()) {
+            std::string names;
+            for (std::size_t k = 0; k < sweep_.objects.size(); ++k) names += (k ? "," : "") + sweep_.objects[k];
+            sweep.dataset("object").set_attribute("object_names", names);
         }
         if (sweep_.grid) {
             H5Dataset u = sweep.dataset("grid_u");

@@ -24,6 +24,8 @@ constexpr double kConductorConductivity = std::numeric_limits<double>::infinity(
 
 struct SweepSpec {
     std::string object;                        // the object that moves or changes (default: the first)
+    std::vector<std::string> objects;          // axis of alternative objects (shapes): at each point
+                                               // only the one named is in the water
     std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
     std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
     std::vector<double> size_m;                // axis; sphere radius, or the largest half-extent
