@@ -819,7 +819,7 @@ SweepSpec read_sweep(const Section& sec) {
 }
 
 DetectionSpec read_detection(const Section& sec) {
-    check_keys(sec, {"receptor_noise", "receptor_density", "amplifier_noise", "amplifier_current_noise",
+    check_keys(sec, {"receptor_noise", "receptor_density", "receptor_zones", "amplifier_noise", "amplifier_current_noise",
                      "integration_time", "false_alarm_probability", "probability_level"});
     DetectionSpec d;
     d.line = sec.line;
@@ -833,6 +833,26 @@ DetectionSpec read_detection(const Section& sec) {
         d.noise = DetectionSpec::Noise::receptors;
         d.receptor_noise_V = required_positive(sec, "receptor_noise", Dimension::voltage);
         d.receptor_density_per_m2 = required_positive(sec, "receptor_density", Dimension::areal_density);
+        if (const toml::node* zones = sec.find("receptor_zones")) {
+            const toml::array* arr = zones->as_array();
+            if (!arr) fail(sec.where("receptor_zones"), "expected an array of tables {from, to, density}, got " + describe(*zones));
+            for (std::size_t i = 0; i < arr->size(); ++i) {
+                const toml::node& z = *arr->get(i);
+                const std::string key = "receptor_zones[" + std::to_string(i + 1) + "]";
+                if (!z.is_table()) fail(at(sec.ctx, line_of(z), sec.key_path(key)), "expected a table {from, to, density}");
+                const Section zone{*z.as_table(), sec.key_path(key), line_of(z), sec.ctx};
+                check_keys(zone, {"from", "to", "density"});
+                ReceptorZone rz;
+                rz.from_fraction = read_quantity(zone, "from", required(zone, "from"), Dimension::dimensionless);
+                rz.to_fraction = read_quantity(zone, "to", required(zone, "to"), Dimension::dimensionless);
+                if (!(0.0 <= rz.from_fraction && rz.from_fraction < rz.to_fraction && rz.to_fraction <= 1.0))
+                    fail(zone.where("to"), "expected 0 <= from < to <= 1 (fractions of the body length from the nose)");
+                const double density = read_quantity(zone, "density", required(zone, "density"), Dimension::areal_density);
+                if (!(density >= 0.0)) fail(zone.where("density"), "must not be negative");
+                rz.density_per_m2 = density;
+                d.receptor_zones.push_back(rz);
+            }
+        }
     } else {
         d.noise = voltage ? DetectionSpec::Noise::voltage_amplifier : DetectionSpec::Noise::current_amplifier;
         d.noise_density = voltage ? required_positive(sec, "amplifier_noise", Dimension::voltage_noise_density)
@@ -901,6 +921,8 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.detection && !spec.detection->receptor_zones.empty() && !spec.fish)
+        fail(sec.where("detection"), "receptor_zones describe a fish's skin; the case has no [fish]");
     if (spec.sweep) {
         const Section sw{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx};
         std::vector<std::string> names = spec.sweep->objects;

@@ -147,11 +147,33 @@ private:
             if (sensors_.skin) {
                 if (noise_.kind != NoiseKind::receptors)
                     throw InputError(where_ + ": a fish's skin needs the receptor noise model");
-                for (double a : sensors_.area) receptors_.push_back(a * spec_.detection->receptor_density_per_m2);
+                receptors_ = receptors_per_panel();
             } else if (noise_.kind == NoiseKind::receptors) {
                 throw InputError(where_ + ": electrodes and probes need an amplifier noise model");
             }
         }
+    }
+
+    // Receptors on each skin panel: density times area, the density taken from
+    // the zone (fraction of the length from the nose) that holds the centroid.
+    std::vector<double> receptors_per_panel() const {
+        const DetectionSpec& d = *spec_.detection;
+        const FishSpec& fish = *spec_.fish;
+        const Eigen::Matrix3d R = orientation_matrix(fish.orientation);
+        const Vec3 position(fish.position_m[0], fish.position_m[1], fish.position_m[2]);
+        // The fish frame has the tail at x = 0 and the nose at x = length; the case
+        // places either the nose or the centre at `position`.
+        const double anchor = fish.anchored_at_nose ? fish.length_m : 0.5 * fish.length_m;
+        std::vector<double> n;
+        for (std::size_t k = 0; k < sensors_.size(); ++k) {
+            const double x = (R.transpose() * (sensors_.position[k] - position)).x() + anchor;
+            const double from_nose = (fish.length_m - x) / fish.length_m;
+            double density = d.receptor_density_per_m2;
+            for (const ReceptorZone& z : d.receptor_zones)
+                if (from_nose >= z.from_fraction && from_nose <= z.to_fraction) density = z.density_per_m2;
+            n.push_back(density * sensors_.area[k]);
+        }
+        return n;
     }
 
     // ---- stage: open the result file (new, or the partial file of an interrupted run)
@@ -206,6 +228,8 @@ private:
                                        sensors_.skin ? "skin panel index"
                                                      : sensors_.probes ? "probe point index" : "sensor electrode index");
         sensor.make_scale("sensor");
+        if (sensors_.skin && spec_.detection)
+            sweep.write("receptors", receptors_, "1", "receptors on each skin panel (density times area)");
         if (sensors_.probes) {
             std::vector<double> xyz;
             for (const Vec3& x : sensors_.position) xyz.insert(xyz.end(), {x.x(), x.y(), x.z()});

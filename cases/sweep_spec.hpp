@@ -36,11 +36,19 @@ struct SweepSpec {
     int line = 0;                              // line of [sweep] in the case file
 };
 
+// A stretch of the skin, by fraction of the body length from the nose, with its
+// own receptor density.
+struct ReceptorZone {
+    double from_fraction = 0.0, to_fraction = 1.0;
+    double density_per_m2 = 0.0;
+};
+
 struct DetectionSpec {
     enum class Noise { receptors, voltage_amplifier, current_amplifier };
     Noise noise = Noise::receptors;
     double receptor_noise_V = 0.0;            // fish: rms noise per receptor
     double receptor_density_per_m2 = 0.0;     // fish: receptors per skin area
+    std::vector<ReceptorZone> receptor_zones; // fish: densities that replace it along stretches
     double noise_density = 0.0;               // robot: V/sqrt(Hz) or A/sqrt(Hz)
     double integration_time_s = 0.0;          // robot: lock-in averaging time
     double false_alarm_probability = 1e-3;
