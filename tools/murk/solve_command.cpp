@@ -6,12 +6,14 @@
 #include "cases/result_metadata.hpp"
 #include "cases/scene_builder.hpp"
 #include "cases/solve_output.hpp"
+#include "cases/xdmf_writer.hpp"
 #include "solver/bem_system.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <omp.h>
 
 #include <chrono>
+#include <filesystem>
 #include <cstdio>
 
 namespace murk::cli {
@@ -85,9 +87,40 @@ void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const Stag
                     magnitude(solved.perturbed_solution.electrode_current[e] - solved.baseline_solution.electrode_current[e]));
 }
 
+// Real-valued panel fields for the XDMF sidecar (ParaView reads real cell
+// data): per surface the magnitude of the water-side potential with the objects,
+// and on membranes the magnitude of the change of the transdermal voltage.
+template <class S>
+std::vector<XdmfSurface> write_surface_magnitudes(H5Group& root, const SolvedCase<S>& solved) {
+    std::vector<XdmfSurface> surfaces;
+    for (std::size_t s = 0; s < solved.perturbed.surfaces.size(); ++s) {
+        const Surface<S>& surface = solved.perturbed.surfaces[s];
+        const std::string name = surface_group_name(surface.mesh.name);
+        const SurfaceSolution<S>& after = solved.perturbed_solution.surfaces[s];
+        XdmfSurface x{"/mesh/" + name, surface.mesh.vertices.size(), surface.mesh.size(), {}};
+        std::vector<double> v;
+        for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k) v.push_back(magnitude(after.outer_potential(k)));
+        root.write("perturbed/" + name + "/outer_potential_magnitude", v, "V", "magnitude of the water-side potential");
+        x.cell_attributes.push_back({"|potential| (V)", "/perturbed/" + name + "/outer_potential_magnitude"});
+        if (s < solved.baseline.surfaces.size() && surface.kind == InterfaceKind::membrane) {
+            const SurfaceSolution<S>& before = solved.baseline_solution.surfaces[s];
+            v.clear();
+            for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k)
+                v.push_back(magnitude((after.inner_potential(k) - after.outer_potential(k)) -
+                                      (before.inner_potential(k) - before.outer_potential(k))));
+            root.write("difference/" + name + "/transdermal_voltage_magnitude", v, "V",
+                       "magnitude of the change of the transdermal voltage (the electric image)");
+            x.cell_attributes.push_back({"electric image |dV| (V)", "/difference/" + name + "/transdermal_voltage_magnitude"});
+        }
+        surfaces.push_back(x);
+    }
+    return surfaces;
+}
+
 template <class S>
 int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& command_line) {
-    // Refuse an existing result before spending time on the solve.
+    // Refuse an existing result or an unusable name before spending time on the solve.
+    check_xdmf_file_name(std::filesystem::path(args.output_path).filename().string());
     H5Output output(args.output_path, args.force, "pass --force to replace it");
     const QuadratureOptions quad = quadrature_options(spec);
 
@@ -109,7 +142,11 @@ int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& c
     const ProbeValues<S> probes_after = evaluate_probes(spec, solved.perturbed, solved.perturbed_solution, quad);
     H5Group root = output.root();
     write_probes(root, spec, probes_before, probes_after);
+    const std::vector<XdmfSurface> sidecar = write_surface_magnitudes(root, solved);
     output.commit();
+    if (!sidecar.empty())
+        write_xdmf_sidecar(xdmf_sidecar_path(args.output_path),
+                           std::filesystem::path(args.output_path).filename().string(), sidecar);
 
     if (!args.quiet) {
         std::size_t unknowns = 0;
@@ -123,7 +160,8 @@ int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& c
             std::printf("probe %-12s %zu points, largest |change of potential| %.4g V\n", probe.name.c_str(),
                         probe.point_count, peak);
         }
-        std::printf("wrote %s\n", args.output_path.c_str());
+        std::printf("wrote %s%s%s\n", args.output_path.c_str(), sidecar.empty() ? "" : " and ",
+                    sidecar.empty() ? "" : xdmf_sidecar_path(args.output_path).c_str());
     }
     return 0;
 }
