@@ -720,7 +720,8 @@ void read_tables(const Section& sec, const std::string& key, F read_one) {
 // Values of one sweep axis: an array of quantities, or a range table
 // { from, to, count, spacing = "linear" | "log" }. With `words`, "insulator" and
 // "conductor" stand for conductivities 0 and infinity.
-std::vector<double> read_axis_values(const Section& sec, const std::string& key, Dimension d, bool words = false) {
+std::vector<double> read_axis_values(const Section& sec, const std::string& key, Dimension d, bool words = false,
+                                     bool any_sign = false) {
     const toml::node& n = *sec.find(key);
     std::vector<double> values;
     if (const toml::array* arr = n.as_array()) {
@@ -732,17 +733,20 @@ std::vector<double> read_axis_values(const Section& sec, const std::string& key,
             else if (words && e.is_string() && e.as_string()->get() == "conductor") values.push_back(kConductorConductivity);
             else {
                 const double v = quantity_at(where, e, d);
-                if (!(v > 0.0)) fail(where, "must be positive, got " + describe(e));
+                if (!any_sign && !(v > 0.0)) fail(where, "must be positive, got " + describe(e));
                 values.push_back(v);
             }
         }
     } else if (n.is_table()) {
         const Section range{*n.as_table(), sec.key_path(key), line_of(n), sec.ctx};
         check_keys(range, {"from", "to", "count", "spacing"});
-        const double from = required_positive(range, "from", d), to = required_positive(range, "to", d);
+        const double from = any_sign ? read_quantity(range, "from", required(range, "from"), d)
+                                     : required_positive(range, "from", d);
+        const double to = any_sign ? read_quantity(range, "to", required(range, "to"), d) : required_positive(range, "to", d);
         const int count = read_count(range, "count", required(range, "count"), 1, 100000);
         std::string spacing = "linear";
         if (const toml::node* sp = range.find("spacing")) spacing = read_choice(range, "spacing", *sp, {"linear", "log"});
+        if (spacing == "log" && !(from > 0.0)) fail(range.where("from"), "log spacing needs a positive 'from'");
         if (count > 1 && !(to > from)) fail(range.where("to"), "must be larger than 'from'");
         for (int i = 0; i < count; ++i) {
             const double t = count == 1 ? 0.0 : double(i) / (count - 1);
@@ -805,8 +809,9 @@ SweepSpec read_sweep(const Section& sec) {
                            spec.u_direction[2] * spec.v_direction[2];
         if (std::abs(dot) > 0.999) fail(grid.where("v_direction"), "must not be parallel to u_direction");
         (void)required(grid, "u"), (void)required(grid, "v");
-        spec.u_m = read_axis_values(grid, "u", Dimension::length);
-        spec.v_m = read_axis_values(grid, "v", Dimension::length);
+        // Grid coordinates are offsets from the origin: zero and negative allowed.
+        spec.u_m = read_axis_values(grid, "u", Dimension::length, false, true);
+        spec.v_m = read_axis_values(grid, "v", Dimension::length, false, true);
         s.grid = spec;
     }
     if (s.grid && !s.distance_m.empty())
@@ -829,6 +834,13 @@ DetectionSpec read_detection(const Section& sec) {
     if (int(receptors) + int(voltage) + int(current) != 1)
         fail(sec.where_self(), "give exactly one noise level: receptor_noise (fish), amplifier_noise (robot voltage "
                                "sensors) or amplifier_current_noise (robot current sensors)");
+    // Keys of the other noise model would be silently ignored: refuse them.
+    for (const char* key : receptors ? std::vector<const char*>{"integration_time"}
+                                     : std::vector<const char*>{"receptor_density", "receptor_zones"})
+        if (sec.find(key))
+            fail(sec.where(key), std::string("belongs to the ") + (receptors ? "amplifier" : "receptor") +
+                                     " noise model, but this section gives " +
+                                     (receptors ? "receptor_noise" : "an amplifier noise"));
     if (receptors) {
         d.noise = DetectionSpec::Noise::receptors;
         d.receptor_noise_V = required_positive(sec, "receptor_noise", Dimension::voltage);

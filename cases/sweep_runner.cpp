@@ -138,6 +138,7 @@ private:
         sensors_ = sensor_layout(spec_, baseline_scenes_.front(), where_);
         for (std::size_t w = 0; w < waters_.size(); ++w)
             baseline_readings_.push_back(sensor_readings(sensors_, baseline_scenes_[w], baseline_solutions_[w], quad));
+        check_direction();
         if (sensors_.probes) {  // no body: distances are measured from the emitter
             const auto points = source_points(spec_.sources.front());
             reference_point_ = points.front().position;
@@ -150,8 +151,35 @@ private:
                 receptors_ = receptors_per_panel();
             } else if (noise_.kind == NoiseKind::receptors) {
                 throw InputError(where_ + ": electrodes and probes need an amplifier noise model");
+            } else if ((sensors_.units == "A") != (noise_.kind == NoiseKind::current_amplifier)) {
+                // A voltage noise density against currents (or the reverse) gives a ratio of unlike units.
+                throw InputError(spec_.path + ":" + std::to_string(spec_.detection->line) + ": detection: " +
+                                 (sensors_.units == "A"
+                                      ? "the sensors are held at a potential and read currents: give "
+                                        "amplifier_current_noise (A/sqrt(Hz)), not amplifier_noise"
+                                      : "the sensors read voltages: give amplifier_noise (V/sqrt(Hz)), not "
+                                        "amplifier_current_noise"));
             }
         }
+    }
+
+    // A distance sweep moves the object along sweep.direction; one that points
+    // into the body (from the body point nearest the object) can place nothing.
+    void check_direction() const {
+        if (!sweep_.direction || sweep_.distance_m.empty() || baseline_scenes_.front().surfaces.empty()) return;
+        std::size_t k = 0;
+        if (sweep_.objects.empty()) k = swept_object_index(spec_, sweep_);
+        else
+            while (spec_.objects[k].name != sweep_.objects.front()) ++k;
+        const ObjectSpec& o = spec_.objects[k];
+        const Vec3 centre(o.position_m[0], o.position_m[1], o.position_m[2]);
+        DistanceReference body;
+        body.body = &baseline_scenes_.front().surfaces.front().mesh;
+        const Vec3 out = centre - body.nearest_to(centre);
+        const Vec3 d((*sweep_.direction)[0], (*sweep_.direction)[1], (*sweep_.direction)[2]);
+        if (out.dot(d) <= 0.0)
+            throw InputError(where_ + ".direction: points into the body from object '" + o.name +
+                             "'; the object moves along it away from the body");
     }
 
     // Receptors on each skin panel: density times area, the density taken from
@@ -181,16 +209,26 @@ private:
         const char* hint = "pass --force to replace it";
         if (options_.resume) {
             output_.emplace(H5Output::resume(options_.output_path, options_.force, hint));
-            H5Group root = output_->root();
-            if (root.string_attribute("case_sha256") != sha256_hex(spec_.text))
-                throw InputError(H5Output::partial_path(options_.output_path) +
-                                 ": was started from a different case file; refusing to resume it with " + spec_.path);
-            const auto status = root.read<std::uint8_t>("sweep/status");
-            status_ = status.values;
+            try {
+                H5Group root = output_->root();
+                if (root.string_attribute("case_sha256") != sha256_hex(spec_.text))
+                    throw InputError(H5Output::partial_path(options_.output_path) +
+                                     ": was started from a different case file; refusing to resume it with " +
+                                     spec_.path);
+                const auto status = root.read<std::uint8_t>("sweep/status");
+                status_ = status.values;
+            } catch (...) {
+                output_->suspend();  // not ours to delete: the partial file keeps its finished points
+                throw;
+            }
             for (auto s : status_) finished_ += s != kNotComputed;
             return;
         }
         check_xdmf_file_name(std::filesystem::path(options_.output_path).filename().string());
+        const std::string partial = H5Output::partial_path(options_.output_path);
+        if (!options_.force && std::filesystem::exists(partial))
+            throw InputError(partial + " holds the points of an interrupted run; pass --resume to finish it, "
+                                       "or --force to start over");
         output_.emplace(options_.output_path, options_.force, hint);
         H5Group root = output_->root();
         write_result_metadata(root, spec_, options_.command_line,
@@ -260,9 +298,11 @@ private:
         attach(sweep.create_extendible<double>("peak_perturbation", with(shape_), sensors_.units,
                                                "largest magnitude of the change over the sensors", chunked), false);
         attach(sweep.create_extendible<std::int32_t>("peak_sensor", with(shape_), "1",
-                                                     "sensor index of the peak", chunked), false);
-        sweep.create_extendible<double>("peak_position", with(shape_, {3}), "m", "position of the peak sensor", chunked);
-        sweep.create_extendible<double>("object_position", with(shape_, {3}), "m", "object centre", chunked);
+                                                     "sensor index of the peak (-1 where masked)", chunked), false);
+        attach(sweep.create_extendible<double>("peak_position", with(shape_, {3}), "m", "position of the peak sensor",
+                                               chunked), false);
+        attach(sweep.create_extendible<double>("object_position", with(shape_, {3}), "m", "object centre", chunked),
+               false);
         if (sensors_.skin)
             attach(sweep.create_extendible<double>("image_width", with(shape_), "m",
                                                    "full width at half maximum of the electric image along the body axis "
@@ -303,11 +343,15 @@ private:
                 }
             }
             H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-            const Vec3 c = setup.object_centre;
-            write(sweep, "object_position", offset, count, {3}, std::vector<double>{c.x(), c.y(), c.z()});
             if (setup.masked) {
+                // Masked: every real value stays NaN (the object has no valid place),
+                // and the peak sensor is -1, which no sensor index can be.
+                write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{-1});
                 status_[p] = kMasked;
+                ++masked_;
             } else {
+                const Vec3 c = setup.object_centre;
+                write(sweep, "object_position", offset, count, {3}, std::vector<double>{c.x(), c.y(), c.z()});
                 const Solution<S> solution = solve_scene(*scene, quad);
                 std::vector<S> change = sensor_readings(sensors_, *scene, solution, quad);
                 for (std::size_t k = 0; k < change.size(); ++k) change[k] -= baseline_readings_[w][k];
@@ -337,6 +381,9 @@ private:
 
     // ---- stage: detection range and falloff, sidecar, commit
     void analyse_and_commit() {
+        if (masked_ > 0 && masked_ == total_)
+            std::fprintf(stderr, "murk: warning: every point of the sweep is masked (the object could not be placed "
+                                 "clear of the body); check sweep.direction and the axes\n");
         H5Group root = output_->root();
         write_sweep_analysis(root, axes_, spec_.detection);
         const std::vector<XdmfAttribute> surface_fields =
@@ -413,7 +460,7 @@ private:
     std::string where_;
     std::vector<SweepAxis> axes_;
     std::vector<std::size_t> shape_;
-    std::size_t total_ = 0, finished_ = 0;
+    std::size_t total_ = 0, finished_ = 0, masked_ = 0;
     std::vector<double> waters_;
     std::vector<Scene<S>> baseline_scenes_;
     std::vector<Solution<S>> baseline_solutions_;

@@ -714,3 +714,261 @@ TEST_CASE("case reader: probe rules") {
                 "to = ", "probe[2].to", "allowed here: name, form, corner, along, across, points");
     check_error(kOpenWater + kGridProbe + "points = [3, 3]\n", "[[probe]]", "probe[2].across", "missing required key", 2);
 }
+
+// ---- [sweep] and [detection] ------------------------------------------------------
+
+namespace {
+
+// kFish with one object to sweep; a [sweep] and [detection] section follow in each test.
+const std::string kFishPrey = kFish + R"TOML([[object]]
+name = "prey"
+shape = "sphere"
+radius = "2 mm"
+position = ["3 cm", "2 cm", "0 cm"]
+conductivity = "0.5 S/m"
+)TOML";
+
+const std::string kReceptors = "[detection]\nreceptor_noise = \"5 uV\"\nreceptor_density = \"20 cm^-2\"\n";
+
+}  // namespace
+
+TEST_CASE("case reader: [sweep] axes from arrays and range tables") {
+    const std::string text = kFishPrey + R"TOML([sweep]
+object = "prey"
+distance = { from = "1 mm", to = "100 mm", count = 3, spacing = "log" }
+direction = [0, 3, 4]
+size = { from = "1 cm", to = "3 cm", count = 5 }
+conductivity = ["insulator", "50 mS/m", "2 S/m", "conductor"]
+water_conductivity = ["100 uS/cm"]
+)TOML" + kReceptors;
+    const CaseSpec s = read_case_text(text, "case.toml");
+    REQUIRE(s.sweep);
+    const SweepSpec& w = *s.sweep;
+    CHECK(w.object == "prey");
+    CHECK(w.line == line_with(text, "[sweep]"));
+    // log spacing: 1 mm * (100)^(i/2) for i = 0, 1, 2 -> 1, 10, 100 mm (a geometric sequence, by hand)
+    REQUIRE(w.distance_m.size() == 3);
+    CHECK(w.distance_m[0] == doctest::Approx(1e-3));
+    CHECK(w.distance_m[1] == doctest::Approx(1e-2));
+    CHECK(w.distance_m[2] == doctest::Approx(1e-1));
+    // linear spacing is the default: 1, 1.5, 2, 2.5, 3 cm, ends included
+    REQUIRE(w.size_m.size() == 5);
+    const double sizes[] = {0.010, 0.015, 0.020, 0.025, 0.030};
+    for (int k = 0; k < 5; ++k) CHECK(w.size_m[k] == doctest::Approx(sizes[k]));
+    // a direction is normalized: [0, 3, 4] / 5 (a 3-4-5 triangle)
+    REQUIRE(w.direction);
+    CHECK((*w.direction)[0] == 0.0);
+    CHECK((*w.direction)[1] == doctest::Approx(0.6));
+    CHECK((*w.direction)[2] == doctest::Approx(0.8));
+    // words for the ends of the conductivity axis: insulator 0, conductor +inf; 50 mS/m = 0.05 S/m
+    REQUIRE(w.conductivity_S_per_m.size() == 4);
+    CHECK(w.conductivity_S_per_m[0] == 0.0);
+    CHECK(w.conductivity_S_per_m[1] == doctest::Approx(0.05));
+    CHECK(w.conductivity_S_per_m[2] == doctest::Approx(2.0));
+    CHECK(std::isinf(w.conductivity_S_per_m[3]));
+    CHECK(w.conductivity_S_per_m[3] > 0);
+    // 100 uS/cm = 100e-6 S / 1e-2 m = 0.01 S/m
+    REQUIRE(w.water_conductivity_S_per_m.size() == 1);
+    CHECK(w.water_conductivity_S_per_m[0] == doctest::Approx(0.01));
+    CHECK(!w.grid);
+
+    // a range of one value is its 'from'; the log ends are exact
+    const CaseSpec one = read_case_text(
+        kFishPrey + "[sweep]\nsize = { from = \"2 mm\", to = \"1 mm\", count = 1 }\n"
+                    "distance = { from = \"2 mm\", to = \"32 mm\", count = 5, spacing = \"log\" }\n",
+        "case.toml");
+    CHECK(one.sweep->size_m == std::vector<double>{0.002});
+    // 2 mm * 16^(i/4): 2, 4, 8, 16, 32 mm (powers of two, by hand)
+    REQUIRE(one.sweep->distance_m.size() == 5);
+    const double doubling[] = {0.002, 0.004, 0.008, 0.016, 0.032};
+    for (int k = 0; k < 5; ++k) CHECK(one.sweep->distance_m[k] == doctest::Approx(doubling[k]).epsilon(1e-12));
+    CHECK(one.sweep->object.empty());  // default: the first object
+    CHECK(!one.sweep->direction);      // default: away from the body
+    CHECK(!one.detection);
+}
+
+TEST_CASE("case reader: [sweep.grid] and [detection] defaults") {
+    const std::string text = kFishPrey + R"TOML([sweep]
+[sweep.grid]
+origin = ["-9 cm", "0 cm", "0 cm"]
+u_direction = [2, 0, 0]
+v_direction = [0, 1, 1]
+u = { from = "1 cm", to = "17 cm", count = 9 }
+v = ["1 cm", "2 cm"]
+[detection]
+amplifier_noise = "10 nV/sqrt(Hz)"
+integration_time = "20 ms"
+)TOML";
+    const CaseSpec s = read_case_text(text, "case.toml");
+    REQUIRE(s.sweep);
+    REQUIRE(s.sweep->grid);
+    const SweepGridSpec& g = *s.sweep->grid;
+    CHECK(g.origin_m[0] == doctest::Approx(-0.09));
+    CHECK(g.u_direction[0] == doctest::Approx(1.0));  // [2, 0, 0] normalized
+    CHECK(g.v_direction[1] == doctest::Approx(std::sqrt(0.5)));
+    CHECK(g.v_direction[2] == doctest::Approx(std::sqrt(0.5)));
+    REQUIRE(g.u_m.size() == 9);
+    for (int k = 0; k < 9; ++k) CHECK(g.u_m[k] == doctest::Approx(0.01 + 0.02 * k));  // 1, 3, ..., 17 cm
+    CHECK(g.v_m.size() == 2);
+    REQUIRE(s.detection);
+    const DetectionSpec& d = *s.detection;
+    CHECK(d.noise == DetectionSpec::Noise::voltage_amplifier);
+    CHECK(d.noise_density == doctest::Approx(1e-8));
+    CHECK(d.integration_time_s == doctest::Approx(0.02));
+    // defaults documented in cases/README.md
+    CHECK(d.false_alarm_probability == doctest::Approx(1e-3));
+    CHECK(d.probability_level == doctest::Approx(0.5));
+
+    const CaseSpec f = read_case_text(kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n" + kReceptors +
+                                          "false_alarm_probability = 0.01\nprobability_level = 0.9\n",
+                                      "case.toml");
+    REQUIRE(f.detection);
+    CHECK(f.detection->noise == DetectionSpec::Noise::receptors);
+    CHECK(f.detection->receptor_noise_V == doctest::Approx(5e-6));
+    CHECK(f.detection->receptor_density_per_m2 == doctest::Approx(2e5));  // 20 per 1e-4 m^2
+    CHECK(f.detection->false_alarm_probability == doctest::Approx(0.01));
+    CHECK(f.detection->probability_level == doctest::Approx(0.9));
+
+    const CaseSpec c = read_case_text(kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n[detection]\n"
+                                                  "amplifier_current_noise = \"2 pA/sqrt(Hz)\"\nintegration_time = \"1 s\"\n",
+                                      "case.toml");
+    CHECK(c.detection->noise == DetectionSpec::Noise::current_amplifier);
+    CHECK(c.detection->noise_density == doctest::Approx(2e-12));
+}
+
+TEST_CASE("case reader: [sweep] errors") {
+    const std::string& base = kFishPrey;
+    // unknown keys, at every level
+    check_error(base + "[sweep]\nsize = [\"1 mm\"]\nspeed = \"1 m/s\"\n", "speed", "sweep.speed",
+                "unknown key; allowed here: object, ");
+    check_error(base + "[sweep]\ndistance = { from = \"1 mm\", to = \"2 mm\", count = 2, step = \"1 mm\" }\n",
+                "distance =", "sweep.distance.step", "unknown key; allowed here: from, to, count, spacing");
+    check_error(base + "[sweep]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\nu_direction = [1, 0, 0]\n"
+                       "v_direction = [0, 0, 1]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\nw = [\"1 cm\"]\n",
+                "w = ", "sweep.grid.w", "unknown key; allowed here: origin, u_direction, v_direction, u, v");
+    // no axis
+    check_error(base + "[sweep]\nobject = \"prey\"\n", "[sweep]", "sweep", "no axis to sweep");
+    // values must increase strictly: repeated, decreasing, insulator not first, conductor not last
+    check_error(base + "[sweep]\nsize = [\"1 mm\", \"1 mm\"]\n", "size =", "sweep.size", "must increase strictly");
+    check_error(base + "[sweep]\ndistance = [\"2 cm\", \"1 cm\"]\n", "distance =", "sweep.distance",
+                "must increase strictly");
+    check_error(base + "[sweep]\nconductivity = [\"1 S/m\", \"insulator\"]\n", "conductivity = [", "sweep.conductivity",
+                "insulator first, conductor last");
+    check_error(base + "[sweep]\nconductivity = [\"conductor\", \"1 S/m\"]\n", "conductivity = [", "sweep.conductivity",
+                "must increase strictly");
+    // a range whose 'to' is not above its 'from'
+    check_error(base + "[sweep]\ndistance = { from = \"4 mm\", to = \"1 mm\", count = 3 }\n", "distance =",
+                "sweep.distance.to", "must be larger than 'from'");
+    check_error(base + "[sweep]\ndistance = { from = \"4 mm\", to = \"4 mm\", count = 2, spacing = \"log\" }\n",
+                "distance =", "sweep.distance.to", "must be larger than 'from'");
+    // range keys
+    check_error(base + "[sweep]\nsize = { from = \"1 mm\", to = \"4 mm\" }\n", "size =", "sweep.size.count",
+                "missing required key");
+    check_error(base + "[sweep]\nsize = { from = \"1 mm\", to = \"4 mm\", count = 0 }\n", "size =", "sweep.size.count",
+                "expected a whole number from 1 to 100000, got the number 0");
+    check_error(base + "[sweep]\nsize = { from = \"1 mm\", to = \"4 mm\", count = 3, spacing = \"cubic\" }\n", "size =",
+                "sweep.size.spacing", "expected one of linear, log, got 'cubic'");
+    check_error(base + "[sweep]\nsize = { from = \"0 mm\", to = \"4 mm\", count = 3 }\n", "size =", "sweep.size.from",
+                "must be positive");
+    // values: positive, of the right kind, words only for the object's conductivity
+    check_error(base + "[sweep]\nsize = [\"1 mm\", \"-2 mm\"]\n", "size =", "sweep.size[2]", "must be positive");
+    check_error(base + "[sweep]\nsize = []\n", "size =", "sweep.size", "at least one value");
+    check_error(base + "[sweep]\nsize = [\"1 mA\"]\n", "size =", "sweep.size[1]", "a current");
+    check_error(base + "[sweep]\nsize = \"1 mm\"\n", "size =", "sweep.size",
+                "expected an array of values or a range table");
+    check_error(base + "[sweep]\nwater_conductivity = [\"insulator\"]\n", "water_conductivity", "sweep.water_conductivity[1]",
+                "expected a conductivity");
+    // grid and distance together; direction without distance
+    check_error(base + "[sweep]\ndistance = [\"1 cm\"]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\n"
+                       "u_direction = [1, 0, 0]\nv_direction = [0, 0, 1]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\n",
+                "[sweep.grid]", "sweep.grid", "either by distance or on a grid, not both");
+    check_error(base + "[sweep]\nsize = [\"1 mm\"]\ndirection = [0, 1, 0]\n", "direction", "sweep.direction",
+                "direction goes with a distance axis");
+    check_error(base + "[sweep]\ndistance = [\"1 cm\"]\ndirection = [0, 0, 0]\n", "direction", "sweep.direction",
+                "cannot be zero");
+    check_error(base + "[sweep]\ndistance = [\"1 cm\"]\ndirection = [0, 1]\n", "direction", "sweep.direction",
+                "three numbers");
+    // grid rules
+    const std::string grid = "[sweep]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\nu_direction = [1, 0, 0]\n";
+    check_error(base + grid + "v_direction = [-2, 0, 0]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\n", "v_direction",
+                "sweep.grid.v_direction", "must not be parallel to u_direction");
+    check_error(base + grid + "v_direction = [0, 0, 1]\nu = [\"1 cm\"]\n", "[sweep.grid]", "sweep.grid.v",
+                "missing required key");
+    check_error(base + "[sweep]\n[sweep.grid]\nu_direction = [1, 0, 0]\nv_direction = [0, 0, 1]\nu = [\"1 cm\"]\n"
+                       "v = [\"1 cm\"]\n",
+                "[sweep.grid]", "sweep.grid.origin", "missing required key");
+    // a sweep needs an object to change
+    check_error(kFish + "[sweep]\nsize = [\"1 mm\"]\n", "[sweep]", "sweep", "the case has none");
+    check_error(base + "[sweep]\nobject = 3\nsize = [\"1 mm\"]\n", "object = 3", "sweep.object", "expected text");
+    check_error(base + "[sweep]\nobject = \"stone\"\nsize = [\"1 mm\"]\n", "object = ", "sweep.object",
+                "no [[object]] is named 'stone'");
+    // objects: an axis of alternative objects, by name
+    const std::string second = "[[object]]\nname = \"rod\"\nshape = \"capsule\"\nradius = \"1 mm\"\nlength = \"8 mm\"\n"
+                               "position = [\"-3 cm\", \"2 cm\", \"0 cm\"]\nconductivity = \"conductor\"\n";
+    const CaseSpec two = read_case_text(base + second + "[sweep]\nobjects = [\"rod\", \"prey\"]\n", "case.toml");
+    CHECK(two.sweep->objects == std::vector<std::string>{"rod", "prey"});
+    check_error(base + second + "[sweep]\nobjects = []\n", "objects", "sweep.objects", "expected an array of object names");
+    check_error(base + second + "[sweep]\nobjects = \"rod\"\n", "objects", "sweep.objects",
+                "expected an array of object names");
+    check_error(base + second + "[sweep]\nobjects = [\"rod\", 2]\n", "objects", "sweep.objects[2]",
+                "expected an object name in quotes");
+    check_error(base + second + "[sweep]\nobject = \"rod\"\nobjects = [\"rod\", \"prey\"]\n", "objects",
+                "sweep.objects", "not both");
+    check_error(base + second + "[sweep]\nobjects = [\"rod\", \"stone\"]\n", "objects", "sweep.objects",
+                "no [[object]] is named 'stone'");
+}
+
+TEST_CASE("case reader: [detection] errors") {
+    const std::string base = kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n";
+    // exactly one noise level
+    check_error(base + kReceptors + "amplifier_noise = \"10 nV/sqrt(Hz)\"\nintegration_time = \"1 s\"\n", "[detection]",
+                "detection", "give exactly one noise level");
+    check_error(base + "[detection]\namplifier_noise = \"10 nV/sqrt(Hz)\"\namplifier_current_noise = \"1 pA/sqrt(Hz)\"\n"
+                       "integration_time = \"1 s\"\n",
+                "[detection]", "detection", "give exactly one noise level");
+    check_error(base + "[detection]\nfalse_alarm_probability = 0.01\n", "[detection]", "detection",
+                "give exactly one noise level");
+    // what goes with each noise level
+    check_error(base + "[detection]\nreceptor_noise = \"5 uV\"\n", "[detection]", "detection.receptor_density",
+                "missing required key");
+    check_error(base + "[detection]\namplifier_noise = \"10 nV/sqrt(Hz)\"\n", "[detection]", "detection.integration_time",
+                "missing required key");
+    // kinds and signs
+    check_error(base + "[detection]\nreceptor_noise = \"5 uA\"\nreceptor_density = \"20 cm^-2\"\n", "receptor_noise",
+                "detection.receptor_noise", "expected a voltage");
+    check_error(base + "[detection]\nreceptor_noise = \"-5 uV\"\nreceptor_density = \"20 cm^-2\"\n", "receptor_noise",
+                "detection.receptor_noise", "must be positive");
+    check_error(base + "[detection]\namplifier_noise = \"10 nV\"\nintegration_time = \"1 s\"\n", "amplifier_noise",
+                "detection.amplifier_noise", "expected a voltage noise density");
+    check_error(base + "[detection]\namplifier_noise = \"10 nV/sqrt(Hz)\"\nintegration_time = \"0 s\"\n",
+                "integration_time", "detection.integration_time", "must be positive");
+    // probabilities strictly between 0 and 1
+    for (const char* value : {"0", "1", "1.5", "-0.1"}) {
+        CAPTURE(value);
+        check_error(base + kReceptors + "false_alarm_probability = " + value + "\n", "false_alarm_probability",
+                    "detection.false_alarm_probability", "a probability strictly between 0 and 1");
+        check_error(base + kReceptors + "probability_level = " + value + "\n", "probability_level",
+                    "detection.probability_level", "a probability strictly between 0 and 1");
+    }
+    // unknown key
+    check_error(base + kReceptors + "bandwidth = \"10 Hz\"\n", "bandwidth", "detection.bandwidth",
+                "unknown key; allowed here: receptor_noise, receptor_density");
+    // receptor zones: fractions of the length from the nose, 0 <= from < to <= 1, density >= 0
+    const CaseSpec z = read_case_text(base + kReceptors + "receptor_zones = [{ from = 0.0, to = 0.25, density = \"60 cm^-2\" }]\n",
+                                      "case.toml");
+    REQUIRE(z.detection->receptor_zones.size() == 1);
+    CHECK(z.detection->receptor_zones[0].to_fraction == doctest::Approx(0.25));
+    CHECK(z.detection->receptor_zones[0].density_per_m2 == doctest::Approx(6e5));  // 60 per 1e-4 m^2
+    check_error(base + kReceptors + "receptor_zones = [{ from = 0.5, to = 0.25, density = \"60 cm^-2\" }]\n",
+                "receptor_zones", "detection.receptor_zones[1].to", "expected 0 <= from < to <= 1");
+    check_error(base + kReceptors + "receptor_zones = [{ from = 0.5, to = 1.5, density = \"60 cm^-2\" }]\n",
+                "receptor_zones", "detection.receptor_zones[1].to", "expected 0 <= from < to <= 1");
+    check_error(base + kReceptors + "receptor_zones = [{ from = 0.0, to = 0.5, density = \"-6 cm^-2\" }]\n",
+                "receptor_zones", "detection.receptor_zones[1].density", "must not be negative");
+    check_error(base + kReceptors + "receptor_zones = [{ from = 0.0, to = 0.5 }]\n", "receptor_zones",
+                "detection.receptor_zones[1].density", "missing required key");
+    check_error(base + kReceptors + "receptor_zones = [{ from = 0.0, to = 0.5, density = \"6 cm^-2\", noise = \"1 uV\" }]\n",
+                "receptor_zones", "detection.receptor_zones[1].noise", "unknown key; allowed here: from, to, density");
+    check_error(base + kReceptors + "receptor_zones = { from = 0.0, to = 0.5, density = \"6 cm^-2\" }\n",
+                "receptor_zones", "detection.receptor_zones", "expected an array of tables");
+}
