@@ -1,0 +1,27 @@
+#!/usr/bin/env bash
+# murk run refuses, with one line and exit status 2, what would waste or lose work:
+# a sweep direction into the body, a leftover partial file without --resume or
+# --force, and noise keys that belong to another noise model.
+set -uo pipefail
+murk="$1"; src="$2"
+dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
+base="$src/cases/examples/fish_detection.toml"
+failures=0
+expect_bad() {  # NAME TEXT COMMAND...
+  local name="$1" text="$2"; shift 2
+  "$@" > /dev/null 2> "$dir/err"
+  local status=$? lines; lines=$(wc -l < "$dir/err")
+  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/err"; then
+    echo "FAIL $name: status $status, $lines lines:"; cat "$dir/err"; failures=$((failures + 1))
+  else
+    echo "ok   $name: $(cat "$dir/err")"
+  fi
+}
+sed -e 's/^direction = .*/direction = [0, -1, 0]/' "$base" > "$dir/inward.toml"
+expect_bad "direction into the body" "sweep.direction" "$murk" run "$dir/inward.toml" -o "$dir/a.h5" --quiet
+: > "$dir/b.h5.partial"
+expect_bad "leftover partial file" "--resume" "$murk" run "$base" -o "$dir/b.h5" --quiet
+[ -e "$dir/b.h5.partial" ] || { echo "FAIL the leftover partial file was removed"; failures=$((failures + 1)); }
+sed -e 's/^probability_level = 0.5/probability_level = 0.5\nintegration_time = "1 s"/' "$base" > "$dir/mixed.toml"
+expect_bad "keys of another noise model" "integration_time" "$murk" run "$dir/mixed.toml" -o "$dir/c.h5" --quiet
+[ "$failures" -eq 0 ]
