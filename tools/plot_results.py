@@ -6,14 +6,19 @@ Usage: plot_results.py OUT.h5 [-o DIR] [--points AXIS=INDEX[,AXIS=INDEX...] ...]
 Reads OUT.h5 with h5py (no murk needed), laid out as cases/RESULT_LAYOUT.md says, and writes
 into DIR (default: the folder of OUT.h5), each figure titled with the case's title:
 
-  <name>_detection_map.png     signal-to-noise ratio over two sweep axes (distance and size when
-                               the sweep has both), with the detection-range contour
+  <name>_detection_map.png     signal-to-noise ratio over two sweep axes (distance on x whenever
+                               it varies, size on y when it varies too), with the detection
+                               level and the file's detection ranges
   <name>_electric_image_K.png  the perturbation over the unrolled skin of a fish (or per sensor
                                channel of a robot) at chosen sweep points
   <name>_falloff.png           peak perturbation against distance (log-log), the fitted exponent
-                               and a distance^-4 reference
+                               and a distance^-4 reference through the data
   <name>_grid_map.png          detection probability over a planar grid of object positions,
-                               with the body's outline
+                               with the body's outline, to scale
+
+Conductivity, object and any axis holding 0 or inf are drawn as equal cells in sweep order
+(conductivity 0 reads 'insulator', inf 'conductor'); grid axes are linear and to scale; other
+axes that span a factor of 4 or more with positive values are logarithmic.
 
 Figures that do not apply to the file are skipped with a one-line note. --points picks the
 sweep points of the electric image by index along named axes (negative counts from the end;
@@ -41,9 +46,13 @@ class Skip(Exception):
 
 # ------------------------------------------------------------------ reading the file
 
+GRID_AXES = ("grid_u", "grid_v")
+
+
 class Axis:
-    def __init__(self, name, values, units):
+    def __init__(self, name, values, units, labels=None):
         self.name, self.values, self.units = name, values, units
+        self.labels = labels  # names of the values (the object axis: attribute object_names)
 
     def label(self):
         return {"m": f"{self.name} (mm)", "S m-1": f"{self.name} (S/m)"}.get(self.units, self.name)
@@ -52,14 +61,68 @@ class Axis:
         """Values in the units of label(): lengths in millimetres."""
         return values * 1e3 if self.units == "m" else values
 
+    def name_of(self, i):
+        """The value's name on a named axis (object), else None."""
+        v = self.values[i]
+        if self.labels and math.isfinite(v) and v == int(v) and 0 <= int(v) < len(self.labels):
+            return self.labels[int(v)]
+        return None
+
     def text(self, i):
         v = self.values[i]
+        if self.name_of(i) is not None:
+            return f"{self.name} {self.name_of(i)}"
         if self.units == "m":
             return f"{self.name} {v * 1e3:g} mm"
         if self.units == "S m-1":
             return f"{self.name} " + ("0 S/m (insulator)" if v == 0 else
                                        "inf (perfect conductor)" if math.isinf(v) else f"{v:g} S/m")
         return f"{self.name} {v:g}"
+
+    def is_grid(self):
+        return self.name in GRID_AXES
+
+    def categorical(self):
+        """Drawn as equal cells in sweep order: conductivities (0 = insulator, inf = conductor),
+        named values (objects) and any axis holding 0 or inf, which have no place on a log scale
+        (inf none on a linear one either). Grid axes are positions in space and stay linear."""
+        if self.is_grid():
+            return False
+        v = self.values
+        return bool(self.units == "S m-1" or self.labels or (~np_finite(v)).any() or (v == 0).any())
+
+    def log(self):
+        """Sweeps of distance and size are usually geometric: a log axis gives them even cells.
+        Never for grid axes (a spatial map) or for values that are not all positive."""
+        v = self.values
+        return bool(not self.is_grid() and not self.categorical() and len(v) >= 2
+                    and np_all_finite_positive(v) and v.max() / v.min() >= 4)
+
+    def coords(self):
+        """Where the values sit on a plot axis: cell numbers 0, 1, .. on a categorical axis."""
+        import numpy as np
+        return np.arange(len(self.values), dtype=float) if self.categorical() else self.shown(self.values)
+
+    def cell_edges(self):
+        import numpy as np
+        if self.categorical():
+            return np.arange(len(self.values) + 1) - 0.5
+        return edges(self.coords(), self.log())
+
+    def tick_text(self, i):
+        v = self.values[i]
+        if self.name_of(i) is not None:
+            return self.name_of(i)
+        if self.units == "S m-1" and (v == 0 or math.isinf(v)):
+            return "insulator" if v == 0 else "conductor"
+        if math.isinf(v):
+            return "inf"
+        return f"{self.shown(v):.3g}"
+
+
+def np_finite(v):
+    import numpy as np
+    return np.isfinite(np.asarray(v, dtype=float))
 
 
 class Result:
@@ -116,8 +179,10 @@ class Result:
             # A scale whose link was deleted keeps the name make_scale gave it (its NAME).
             name = dim[0].name.split("/")[-1] if dim[0].name else (list(dim.keys()) or ["?"])[0]
             values = self.array(f"sweep/{name}", (status.shape[k],)).astype(float)
-            units = str(self.file[f"sweep/{name}"].attrs.get("units", ""))
-            axes.append(Axis(name, values, units))
+            attrs = self.file[f"sweep/{name}"].attrs
+            units = str(attrs.get("units", ""))
+            labels = str(attrs["object_names"]).split(",") if "object_names" in attrs else None
+            axes.append(Axis(name, values, units, labels))
         return axes
 
     def axis_index(self, name):
@@ -191,12 +256,6 @@ def edges(centres, log):
     return np.concatenate([[2 * c[0] - mid[0]], mid, [2 * c[-1] - mid[-1]]])
 
 
-def wants_log(axis):
-    """Sweeps of distance and size are usually geometric: a log axis gives them even cells."""
-    v = axis.values
-    return bool(len(v) >= 2 and np_all_finite_positive(v) and v.max() / v.min() >= 4)
-
-
 def np_all_finite_positive(v):
     import numpy as np
     return bool(np.isfinite(v).all() and (v > 0).all())
@@ -216,16 +275,6 @@ def plain_log_axis(axis_obj, lo, hi):
     axis_obj.set_major_locator(FixedLocator(nice_log_ticks(lo, hi)))
     axis_obj.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
     axis_obj.set_minor_formatter(NullFormatter())
-
-
-def finite_axis_values(axis):
-    """Values a plot axis can show: an infinite conductivity is drawn one step past the largest."""
-    import numpy as np
-    v = axis.values.copy()
-    if np.isinf(v).any():
-        finite = v[np.isfinite(v)]
-        v[np.isinf(v)] = finite.max() * 10 if finite.size and finite.max() > 0 else 1.0
-    return v
 
 
 def new_figure(size, title):
@@ -263,13 +312,18 @@ def outline_effect():
 # ------------------------------------------------------------------ (a) detection map
 
 def map_axes(result):
-    """(x axis, y axis): distance and size when both vary, else the first two that vary."""
+    """(x axis, y axis) of a map: distance on x whenever it varies, with size (else the first
+    other axis that varies) on y; grid_u on x and grid_v on y; else the first two that vary."""
     varying = [k for k, a in enumerate(result.axes) if len(a.values) > 1]
     d, s = result.axis_index("distance"), result.axis_index("size")
-    if d in varying and s in varying:
-        return d, s
+    u, v = result.axis_index("grid_u"), result.axis_index("grid_v")
     if len(varying) < 2:
         raise Skip("fewer than two sweep axes with more than one value")
+    if d in varying:
+        others = [k for k in varying if k != d]
+        return d, (s if s in others else others[0])
+    if u in varying and v in varying:
+        return u, v
     return varying[0], varying[1]
 
 
@@ -289,22 +343,28 @@ def detection_map(result, out_dir, stem):
         snr, pd = snr.T, pd.T
     level, stored = result.probability_level()
     held = held_text(result, (xk, yk))
-    fig = new_figure((8, 6.5), f"{result.title}\nsignal-to-noise ratio" + (f", {held}" if held else ""))
-    ax = fig.add_subplot()
-    xv, yv = xa.shown(finite_axis_values(xa)), ya.shown(finite_axis_values(ya))
-    xlog, ylog = wants_log(xa), wants_log(ya)
     positive = snr[np.isfinite(snr) & (snr > 0)]
     if positive.size == 0:
         raise Skip("no computed point with a positive signal-to-noise ratio in this slice")
-    cmap = colour_map("viridis")
-    image = ax.pcolormesh(edges(xv, xlog), edges(yv, ylog), np.ma.masked_invalid(snr.T), cmap=cmap,
-                          norm=LogNorm(positive.min(), positive.max()), shading="flat")
-    fig.colorbar(image, ax=ax, label="signal-to-noise ratio d' (amplitude)")
-    draw_level_contour(ax, xv, yv, pd.T, level, stored)
-    if xa.name == "distance":
-        draw_ranges(result, ax, xk, yk, yv, xv)
-    set_scales(ax, xa, ya, xlog, ylog)
-    ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.11), ncol=2, fontsize=9, frameon=False)
+    title = f"{result.title}\nsignal-to-noise ratio" + (f", {held}" if held else "")
+    spatial = xa.is_grid() and ya.is_grid()
+
+    def draw(size):
+        fig = new_figure(size, title)
+        ax = fig.add_subplot()
+        image = ax.pcolormesh(xa.cell_edges(), ya.cell_edges(), np.ma.masked_invalid(snr.T),
+                              cmap=colour_map("viridis"), norm=LogNorm(positive.min(), positive.max()), shading="flat")
+        colour_bar(fig, ax, image, "signal-to-noise ratio d' (amplitude)", spatial)
+        draw_level(ax, xa, ya, pd, level, stored)
+        if xa.name == "distance":
+            draw_ranges(result, ax, xk, yk)
+        set_scales(ax, xa, ya)
+        if spatial:
+            ax.set_aspect("equal")
+        legend_below(fig, ax)
+        return fig, ax
+
+    fig = fitted_height(draw, (8, 6.5)) if spatial else draw((8, 6.5))[0]
     return [save(fig, os.path.join(out_dir, f"{stem}_detection_map.png"))]
 
 
@@ -315,36 +375,80 @@ def colour_map(name):
     return cmap
 
 
-def draw_level_contour(ax, xv, yv, pd_grid, level, stored):
+def colour_bar(fig, ax, image, label, attached):
+    """The colour scale at the right. Attached to the axes (as tall as the drawn map, which an
+    equal aspect may make shorter than the space the layout gives it) when `attached`."""
+    if attached:
+        fig.colorbar(image, cax=ax.inset_axes([1.03, 0, 0.035, 1]), label=label)
+    else:
+        fig.colorbar(image, ax=ax, label=label)
+
+
+def draw_level(ax, xa, ya, pd_grid, level, stored):
+    """Where the detection probability (pd_grid[x, y]) crosses the level: a contour over two
+    continuous axes; along a categorical axis, a bar across each cell where its row or column
+    crosses (there is nothing between the cells to interpolate over)."""
     import numpy as np
     finite = np.isfinite(pd_grid)
     label = f"detection probability {level:g}" + ("" if stored else " (level not stored in the file)")
-    if finite.sum() >= 4 and np.nanmin(pd_grid) < level < np.nanmax(pd_grid) and min(pd_grid.shape) >= 2:
-        cs = ax.contour(xv, yv, np.ma.masked_invalid(pd_grid), levels=[level], colors="white", linewidths=2)
-        for artist in getattr(cs, "collections", [cs]):
-            artist.set_path_effects(outline_effect())
+    drawn = False
+    if finite.sum() >= 2 and np.nanmin(pd_grid) < level < np.nanmax(pd_grid):
+        xcat, ycat = xa.categorical(), ya.categorical()
+        if not xcat and not ycat and finite.sum() >= 4 and min(pd_grid.shape) >= 2:
+            cs = ax.contour(xa.coords(), ya.coords(), np.ma.masked_invalid(pd_grid.T), levels=[level],
+                            colors="white", linewidths=2)
+            for artist in getattr(cs, "collections", [cs]):
+                artist.set_path_effects(outline_effect())
+            drawn = True
+        elif xcat != ycat:
+            along, grid = (ya, pd_grid) if xcat else (xa, pd_grid.T)  # grid[cell, along]
+            for cell, row in enumerate(grid):
+                for at in level_crossings(along, row, level):
+                    ends = (cell - 0.42, cell + 0.42)
+                    xs, ys = ((at, at), ends) if ycat else (ends, (at, at))
+                    ax.plot(xs, ys, color="white", linewidth=2, path_effects=outline_effect(), zorder=3)
+                    drawn = True
+    if drawn:
         ax.plot([], [], color="white", linewidth=2, path_effects=outline_effect(), label=label)
     if not finite.all():
         ax.plot([], [], marker="s", linestyle="none", color="0.85", markeredgecolor="0.5",
                 label="masked or not computed")
 
 
-def draw_ranges(result, ax, xk, yk, yv, xv):
-    """The file's own detection ranges (/detection/range) as markers along the distance axis."""
+def level_crossings(axis, row, level):
+    """Plot coordinates where row crosses level between neighbouring computed points,
+    interpolated linearly in the axis's own scale (in ln of the value on a log axis)."""
+    import numpy as np
+    c = axis.coords()
+    t = np.log(c) if axis.log() else c
+    out = []
+    for i in range(len(row) - 1):
+        p, q = row[i], row[i + 1]
+        if np.isfinite(p) and np.isfinite(q) and (p - level) * (q - level) < 0:
+            at = t[i] + (level - p) / (q - p) * (t[i + 1] - t[i])
+            out.append(float(np.exp(at) if axis.log() else at))
+    return out
+
+
+def draw_ranges(result, ax, xk, yk):
+    """The file's own detection ranges (/detection/range) as markers along the distance axis
+    (x), one per cell of the y axis."""
     import numpy as np
     if not result.has("detection/range"):
         return
+    xa, ya = result.axes[xk], result.axes[yk]
+    xv, yv = xa.coords(), ya.coords()
     rng, status = detection_slice(result, xk, yk)
     crossed = np.isfinite(rng) & (status == 1)
     if crossed.any():
-        ax.plot(rng[crossed] * 1e3, yv[crossed], "o", color="white", markeredgecolor="black", markersize=8,
-                label="detection range (/detection/range)")
+        ax.plot(xa.shown(rng[crossed]), yv[crossed], "o", color="white", markeredgecolor="black", markersize=8,
+                linestyle="none", zorder=4, label="detection range (/detection/range)")
     for code, x, marker, text in ((2, xv.max(), ">", "detectable at every distance computed"),
                                   (3, xv.min(), "<", "not detectable at any distance computed")):
         hit = status == code
         if hit.any():
             ax.plot(np.full(hit.sum(), x), yv[hit], marker, color="white", markeredgecolor="black",
-                    markersize=10, linestyle="none", label=text)
+                    markersize=10, linestyle="none", zorder=4, label=text)
 
 
 def detection_slice(result, dk, yk):
@@ -365,26 +469,65 @@ def detection_slice(result, dk, yk):
     return out
 
 
-def set_scales(ax, xa, ya, xlog, ylog):
-    ax.set_xscale("log" if xlog else "linear")
-    ax.set_yscale("log" if ylog else "linear")
-    ax.set_xlabel(xa.label())
-    ax.set_ylabel(ya.label())
-    for a, log, axis_obj, set_ticks in ((xa, xlog, ax.xaxis, ax.set_xticks), (ya, ylog, ax.yaxis, ax.set_yticks)):
-        shown = a.shown(finite_axis_values(a))
-        if len(a.values) <= 8:
-            set_ticks(shown, [tick_text(a, v) for v in a.values], minor=False)
+def set_scales(ax, xa, ya):
+    """Scales, labels and ticks: categorical axes get one labelled tick per cell, short sweeps
+    a tick at every value, long log sweeps plain 1-2-5 numbers."""
+    for a, axis_obj, set_scale, set_ticks, set_label, set_lim in (
+            (xa, ax.xaxis, ax.set_xscale, ax.set_xticks, ax.set_xlabel, ax.set_xlim),
+            (ya, ax.yaxis, ax.set_yscale, ax.set_yticks, ax.set_ylabel, ax.set_ylim)):
+        set_scale("log" if a.log() else "linear")
+        set_label(a.label())
+        e = a.cell_edges()
+        set_lim(e[0], e[-1])
+        if a.categorical() or len(a.values) <= 8:
+            set_ticks(a.coords(), [a.tick_text(i) for i in range(len(a.values))], minor=False)
             set_ticks([], minor=True)
-        elif log:
+        elif a.log():
+            shown = a.coords()
             plain_log_axis(axis_obj, shown.min(), shown.max())
-    if {xa.name, ya.name} == {"grid_u", "grid_v"}:
-        ax.set_aspect("equal")
 
 
-def tick_text(axis, v):
-    if axis.units == "S m-1" and math.isinf(v):
-        return "inf"
-    return f"{axis.shown(v):.3g}"
+def legend_below(fig, ax, ncol=2):
+    """The axes' legend under the whole figure, outside the plot, with room kept for it."""
+    handles, labels = ax.get_legend_handles_labels()
+    if not handles:
+        return
+    legend = fig.legend(handles, labels, loc="lower center", bbox_to_anchor=(0.5, 0.005), ncol=min(ncol, len(handles)),
+                        fontsize=9, frameon=False)
+    fig.canvas.draw()
+    height = legend.get_window_extent().height / fig.dpi + 0.08  # inches
+    fig.get_layout_engine().set(rect=(0, height / fig.get_figheight(), 1, 1 - height / fig.get_figheight()))
+
+
+def fitted_height(draw, size, least=3.0):
+    """The figure of draw(size), drawn again less tall while its equal-aspect map leaves empty
+    bands above and below it (the aspect fills only the width of the box the layout gives it).
+    The width stays; the height never grows past size[1] nor shrinks below `least` inches."""
+    import matplotlib.pyplot as plt
+    fig, ax = draw(size)
+    for _ in range(3):
+        spare = vertical_spare(fig, ax)
+        height = max(least, round((fig.get_figheight() - spare) * DPI) / DPI)
+        if spare < 0.05 or height >= fig.get_figheight():
+            break
+        plt.close(fig)
+        fig, ax = draw((size[0], height))
+    return fig
+
+
+def vertical_spare(fig, ax):
+    """Inches of empty figure between the title and the axes (with its labels and colour bar)
+    and between those and the legend at the bottom, beyond a normal gap."""
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    inch = fig.dpi
+    body = ax.get_tightbbox(renderer)
+    suptitle = getattr(fig, "_suptitle", None)
+    title = suptitle.get_window_extent(renderer) if suptitle else None
+    top = (title.y0 if title else fig.bbox.y1) - body.y1
+    bottom = body.y0 - max([leg.get_window_extent(renderer).y1 for leg in fig.legends] or [fig.bbox.y0])
+    gap = 0.12 * inch
+    return max(0.0, top - gap) / inch + max(0.0, bottom - gap) / inch
 
 
 # ------------------------------------------------------------------ (b) electric image
@@ -551,7 +694,7 @@ def falloff(result, out_dir, stem):
     factor, unit = voltage_scale(peak[status == 1], units)
     count = 1 if curve_axis is None else min(len(result.axes[curve_axis].values), len(MARKERS))
     colours = [matplotlib.colormaps["viridis"](t) for t in np.linspace(0, 0.85, count)]
-    anchor = None
+    anchor, plotted = None, []
     for c in range(count):
         index = [0] * len(result.axes)
         if curve_axis is not None:
@@ -564,14 +707,17 @@ def falloff(result, out_dir, stem):
             label += f": exponent {fit[0]:.2f} (R² {fit[3]:.4f})"
         ax.plot(distances[ok] * 1e3, line[ok] * factor, marker=MARKERS[c], color=colours[c], linestyle="-",
                 linewidth=0.8, markeredgecolor="black", markeredgewidth=0.5, label=label, zorder=3)
+        plotted.extend(line[ok])
+        if anchor is None and ok.any():
+            far = np.flatnonzero(ok)[-1]
+            anchor = (distances[far], line[far])  # the farthest point of the first curve
         if fit:
             # A wide pale band under the points: the fitted line would hide under them otherwise.
             exponent, lo, hi, _, intercept = fit
             xs = np.geomspace(lo, hi, 20)
             ax.plot(xs * 1e3, np.exp(intercept) * xs ** exponent * factor, color=colours[c], linewidth=9,
                     alpha=0.3, solid_capstyle="butt", zorder=2)
-            anchor = anchor or (lo, np.exp(intercept) * lo ** exponent)
-    draw_fourth_power(ax, distances, anchor, factor)
+    draw_fourth_power(ax, distances, anchor, plotted, factor)
     ax.plot([], [], color="0.3", linewidth=9, alpha=0.3, label="fitted power law, over its fit range")
     ax.set_xscale("log")
     ax.set_yscale("log")
@@ -614,14 +760,22 @@ def fitted_line(result, index, d, distances, peaks):
     return exponent, lo, hi, r2, intercept
 
 
-def draw_fourth_power(ax, distances, anchor, factor):
+def draw_fourth_power(ax, distances, anchor, peaks, factor):
+    """A distance^-4 line through the anchor (a measured point), only where it stays within
+    the span of the measured peaks: a guide to compare slopes, not a curve to scale the axes."""
     import numpy as np
-    if anchor is None:
+    if anchor is None or not len(peaks):
         return
     d0, p0 = anchor
-    xs = np.geomspace(distances.min(), distances.max(), 20)
+    low, high = float(np.min(peaks)), float(np.max(peaks))
+    # p0 (d/d0)^-4 lies within [low, high] for d within [d0 (high/p0)^-1/4, d0 (low/p0)^-1/4].
+    start = max(float(distances.min()), d0 * (high / p0) ** -0.25)
+    stop = min(float(distances.max()), d0 * (low / p0) ** -0.25)
+    if not stop > start:
+        return
+    xs = np.geomspace(start, stop, 20)
     ax.plot(xs * 1e3, p0 * (xs / d0) ** -4 * factor, color="0.45", linestyle=":", linewidth=2,
-            label="distance$^{-4}$ reference (rule of thumb)")
+            label="distance$^{-4}$ reference, through the first curve's farthest point")
 
 
 # ------------------------------------------------------------------ (d) planar grid map
@@ -645,21 +799,32 @@ def grid_map(result, out_dir, stem):
         pd = pd.T
     level, stored = result.probability_level()
     held = held_text(result, (u, v))
-    fig = new_figure((9.5, 5.6), f"{result.title}\ndetection probability around the body" + (f", {held}" if held else ""))
-    ax = fig.add_subplot()
-    uv, vv = result.axes[u].values * 1e3, result.axes[v].values * 1e3
-    image = ax.pcolormesh(edges(uv, False), edges(vv, False), np.ma.masked_invalid(pd.T), cmap=colour_map("cividis"),
-                          vmin=0, vmax=1, shading="flat")
-    fig.colorbar(image, ax=ax, label="detection probability")
-    draw_level_contour(ax, uv, vv, pd.T, level, stored)
+    title = f"{result.title}\ndetection probability around the body" + (f", {held}" if held else "")
+    ua, va = result.axes[u], result.axes[v]
+    ue, ve = ua.cell_edges(), va.cell_edges()
     vertices, _ = result.mesh(result.body())
     hull = convex_hull(np.stack([(vertices - origin) @ ud, (vertices - origin) @ vd], axis=1) * 1e3)
-    ax.fill(hull[:, 0], hull[:, 1], facecolor="none", edgecolor="black", linewidth=2, hatch="//",
-            label="body (outline projected on the grid plane)")
-    ax.set_aspect("equal")
-    ax.set_xlabel("grid_u: along " + vector_text(ud) + " from the grid origin (mm)")
-    ax.set_ylabel("grid_v: along " + vector_text(vd) + " (mm)")
-    ax.legend(loc="upper right", fontsize=8.5, framealpha=0.9)
+
+    def draw(size):
+        fig = new_figure(size, title)
+        ax = fig.add_subplot()
+        image = ax.pcolormesh(ue, ve, np.ma.masked_invalid(pd.T), cmap=colour_map("cividis"),
+                              vmin=0, vmax=1, shading="flat")
+        colour_bar(fig, ax, image, "detection probability", attached=True)
+        draw_level(ax, ua, va, pd, level, stored)
+        ax.fill(hull[:, 0], hull[:, 1], facecolor="none", edgecolor="black", linewidth=2, hatch="//",
+                label="body (outline projected on the grid plane)")
+        ax.set_aspect("equal")
+        # Tight limits: the grid's cells and the body's outline, nothing more.
+        pad = 0.02 * max(ue[-1] - ue[0], ve[-1] - ve[0])
+        ax.set_xlim(min(ue[0], hull[:, 0].min() - pad), max(ue[-1], hull[:, 0].max() + pad))
+        ax.set_ylim(min(ve[0], hull[:, 1].min() - pad), max(ve[-1], hull[:, 1].max() + pad))
+        ax.set_xlabel("grid_u: along " + vector_text(ud) + " from the grid origin (mm)")
+        ax.set_ylabel("grid_v: along " + vector_text(vd) + " (mm)")
+        legend_below(fig, ax, ncol=3)
+        return fig, ax
+
+    fig = fitted_height(draw, (9.5, 5.6))
     return [save(fig, os.path.join(out_dir, f"{stem}_grid_map.png"))]
 
 
