@@ -775,10 +775,13 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 }
 
 SweepSpec read_sweep(const Section& sec) {
-    check_keys(sec, {"object", "objects", "distance", "direction", "size", "conductivity", "water_conductivity", "grid"});
+    check_keys(sec, {"object", "objects", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
+                     "readings"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* o = sec.find("object")) s.object = read_string(sec, "object", *o);
+    if (const toml::node* r = sec.find("readings"))
+        s.electrode_pairs = read_choice(sec, "readings", *r, {"electrodes", "pairs"}) == "pairs";
     if (const toml::node* list = sec.find("objects")) {
         const toml::array* arr = list->as_array();
         if (!arr || arr->empty()) fail(sec.where("objects"), "expected an array of object names, got " + describe(*list));
@@ -933,6 +936,8 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.sweep && spec.sweep->electrode_pairs && !spec.robot)
+        fail(at(ctx, spec.sweep->line, "sweep.readings"), "pairs of sensor electrodes need a [robot]");
     if (spec.detection && !spec.detection->receptor_zones.empty() && !spec.fish)
         fail(sec.where("detection"), "receptor_zones describe a fish's skin; the case has no [fish]");
     if (spec.sweep) {

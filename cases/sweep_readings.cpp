@@ -57,6 +57,18 @@ SensorLayout sensor_layout(const CaseSpec& spec, const Scene<S>& baseline, const
         throw InputError(where + ": a sweep reads one kind of sensor; this robot has both floating "
                                  "(voltage) and fixed-potential (current) sensors");
     layout.units = voltage ? "V" : "A";
+    if (spec.sweep && spec.sweep->electrode_pairs) {
+        if (layout.electrodes.size() < 2) throw InputError(where + ": pairs of sensor electrodes need at least two sensors");
+        layout.pairs = true;
+        std::vector<std::string> names;
+        std::vector<Vec3> position;
+        for (std::size_t k = 0; k + 1 < layout.electrodes.size(); ++k) {
+            names.push_back(layout.names[k + 1] + "-" + layout.names[k]);
+            position.push_back(0.5 * (layout.position[k] + layout.position[k + 1]));
+        }
+        layout.names = names;
+        layout.position = position;
+    }
     return layout;
 }
 
@@ -78,6 +90,11 @@ std::vector<S> sensor_readings(const SensorLayout& sensors, const Scene<S>& scen
     }
     for (int e : sensors.electrodes)
         out.push_back(sensors.units == "V" ? solution.electrode_potential[e] : solution.electrode_current[e]);
+    if (sensors.pairs) {
+        std::vector<S> differences;
+        for (std::size_t k = 0; k + 1 < out.size(); ++k) differences.push_back(out[k + 1] - out[k]);
+        return differences;
+    }
     return out;
 }
 

@@ -17,6 +17,7 @@ struct SensorLayout {
     bool skin = false;                   // fish: one sensor per skin panel
     bool probes = false;                 // no body: one sensor per probe point
     std::vector<int> electrodes;         // robot: sensor electrode indices
+    bool pairs = false;                  // robot: channel k reads electrode k+1 minus electrode k
     std::vector<std::string> names;      // robot: sensor names
     std::string units;                   // "V" or "A"
     std::vector<Vec3> position;          // panel centroid, or electrode centre
@@ -29,6 +30,8 @@ struct SensorLayout {
 // probe points when the case has no body. A robot with no sensor electrodes, or
 // with both voltage and current sensors, is an InputError (one map holds one
 // kind of reading).
+// With spec.sweep->electrode_pairs a robot's channels are the differences of
+// neighbouring sensor electrodes (in case order), as a differential amplifier reads them.
 template <class S>
 SensorLayout sensor_layout(const CaseSpec& spec, const Scene<S>& baseline, const std::string& where);
 

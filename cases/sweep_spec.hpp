@@ -33,6 +33,7 @@ struct SweepSpec {
     std::optional<std::array<double, 3>> direction;  // distance axis: unit direction of travel
                                                      // (default: away from the nearest body point)
     std::optional<SweepGridSpec> grid;         // axes grid_u, grid_v (not together with distance)
+    bool electrode_pairs = false;              // robot: read differences of neighbouring sensors
     int line = 0;                              // line of [sweep] in the case file
 };
 
