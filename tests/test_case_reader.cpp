@@ -972,3 +972,24 @@ TEST_CASE("case reader: [detection] errors") {
     check_error(base + kReceptors + "receptor_zones = { from = 0.0, to = 0.5, density = \"6 cm^-2\" }\n",
                 "receptor_zones", "detection.receptor_zones", "expected an array of tables");
 }
+
+TEST_CASE("case reader: grid offsets may be zero or negative, log spacing may not") {
+    const std::string grid = kFishPrey + R"TOML([sweep]
+[sweep.grid]
+origin = ["0 cm", "0 cm", "0 cm"]
+u_direction = [1, 0, 0]
+v_direction = [0, 1, 0]
+u = { from = "-2 cm", to = "2 cm", count = 5 }
+v = ["-1 cm", "0 cm", "3 cm"]
+)TOML";
+    const CaseSpec s = read_case_text(grid, "case.toml");
+    REQUIRE(s.sweep->grid);
+    // -2, -1, 0, 1, 2 cm, computed by hand
+    const double u[] = {-0.02, -0.01, 0.0, 0.01, 0.02};
+    REQUIRE(s.sweep->grid->u_m.size() == 5);
+    for (int k = 0; k < 5; ++k) CHECK(s.sweep->grid->u_m[k] == doctest::Approx(u[k]).epsilon(1e-12).scale(0.01));
+    CHECK(s.sweep->grid->v_m[0] == doctest::Approx(-0.01));
+    std::string log_grid = grid;
+    log_grid.replace(log_grid.find("count = 5 }"), 11, "count = 5, spacing = \"log\" }");
+    check_error(log_grid, "u = {", "sweep.grid.u.from", "log spacing needs a positive");
+}
