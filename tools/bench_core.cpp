@@ -33,6 +33,8 @@
 #include <Eigen/Core>
 #include <Eigen/LU>
 #include <omp.h>
+#include <sys/resource.h>
+#include <unistd.h>
 
 #include <algorithm>
 #include <chrono>
@@ -88,17 +90,63 @@ double read_load_1min(std::string* line = nullptr) {
     return one;
 }
 
+// CPU seconds (all cores) spent busy by the whole machine, from /proc/stat, and by
+// this process (all its threads). Their difference over an interval is what other
+// processes took: a direct reading of sharing, unlike the lagging load average.
+struct CpuSample {
+    double machine_busy = 0, machine_total = 0, own = 0;
+};
+
+CpuSample sample_cpu() {
+    CpuSample c;
+    std::ifstream in("/proc/stat");
+    std::string cpu;
+    double user = 0, nice = 0, system = 0, idle = 0, iowait = 0, irq = 0, softirq = 0, steal = 0;
+    in >> cpu >> user >> nice >> system >> idle >> iowait >> irq >> softirq >> steal;
+    const double tick = static_cast<double>(sysconf(_SC_CLK_TCK));
+    c.machine_busy = (user + nice + system + irq + softirq + steal) / tick;
+    c.machine_total = c.machine_busy + (idle + iowait) / tick;
+    rusage usage{};
+    getrusage(RUSAGE_SELF, &usage);
+    c.own = usage.ru_utime.tv_sec + usage.ru_stime.tv_sec + 1e-6 * (usage.ru_utime.tv_usec + usage.ru_stime.tv_usec);
+    return c;
+}
+
+CpuSample g_last_cpu;
+std::vector<double> g_other_share;  // fraction of all cores used by other processes, per part
+const Clock::time_point g_start = Clock::now();
+
+// Once the benchmark runs, the load average counts its own two threads as well, so
+// only the first reading is judged by it; later ones are judged by what the other
+// processes took (more than a quarter of all cores, i.e. half a core here).
+constexpr double kSharedLoad = 1.5, kSharedOtherShare = 0.25;
+
 void print_load(const char* when) {
     std::string line;
     const double one = read_load_1min(&line);
+    const bool first = g_last_cpu.machine_total == 0;
     std::printf("load average (/proc/loadavg, 1/5/15 min, runnable/total, last pid) %s: %s%s\n", when,
-                line.c_str(), one > 1.5 ? "   -> machine shared (1-min load > 1.5)" : "");
+                line.c_str(),
+                first ? (one > kSharedLoad ? "   -> machine shared (1-min load > 1.5)" : "   -> quiet (<= 1.5)")
+                      : "   (includes this benchmark's own threads)");
+    const CpuSample now = sample_cpu();
+    if (g_last_cpu.machine_total > 0) {
+        const double span = now.machine_total - g_last_cpu.machine_total;
+        const double others = (now.machine_busy - g_last_cpu.machine_busy) - (now.own - g_last_cpu.own);
+        const double share = span > 0 ? std::max(0.0, others / span) : 0.0;
+        g_other_share.push_back(share);
+        std::printf("other processes used %.0f %% of all cores since the previous reading (/proc/stat), "
+                    "%.0f s into the run%s\n",
+                    100.0 * share, seconds_between(g_start, Clock::now()),
+                    share > kSharedOtherShare ? "   -> machine shared" : "");
+    }
+    g_last_cpu = now;
 }
 
-// Worker threads of OpenBLAS keep spinning for a while after a call returns, and
-// libgomp's for a shorter while; a pause before each timed run of a parallel code
-// keeps one back end's idle spinners from stealing a core from the next.
-void settle() { std::this_thread::sleep_for(std::chrono::milliseconds(250)); }
+// Worker threads of OpenBLAS keep spinning for a while after a call returns (about
+// 0.1 s), and libgomp's for a shorter while; a pause before each timed run of a
+// parallel code keeps one back end's idle spinners from stealing a core from the next.
+void settle(int ms = 100) { std::this_thread::sleep_for(std::chrono::milliseconds(ms)); }
 
 volatile double g_sink = 0.0;  // keeps the kernels' results observable
 
@@ -450,7 +498,7 @@ struct SizeFigures {
     const char* scalar = "";
     Eigen::Index panels = 0, n = 0;
     int reps = 0;
-    double assemble_s = 0, blocks_s = 0;
+    double assemble_s = 0, blocks_s = 0, zero_s = 0;
     double eigen_s = 0, eigen_min_s = 0, eigen_max_s = 0;
     double solve_dense_s = 0;
     double blas_s = 0, blas_min_s = 0, blas_max_s = 0;  // 0 when OpenBLAS is absent
@@ -498,7 +546,7 @@ LuRuns<S> time_lu(const LinearSystem<S>& sys, int reps, double budget_s) {
     for (int r = 0; r < reps; ++r) {
         if (r > 0 && seconds_between(lu_start, Clock::now()) > budget_s) break;
         work = sys.matrix;
-        settle();
+        settle(300);
         auto t0 = Clock::now();
         Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>> lu(work);  // in place; same algorithm as solve_dense
         runs.eigen.push_back(seconds_between(t0, Clock::now()));
@@ -549,13 +597,25 @@ SizeFigures bench_size(Eigen::Index unknowns_goal, int reps) {
             t_blocks.push_back(seconds_between(t0, Clock::now()));
         }
     }
+    // What a fresh n x n matrix costs before anything is written into it: the
+    // assembly starts with setZero on newly allocated memory.
+    std::vector<double> t_zero;
+    for (int r = 0; r < reps; ++r) {
+        MatrixX<S> fresh;
+        settle();
+        const auto t0 = Clock::now();
+        fresh.setZero(sys.matrix.rows(), sys.matrix.cols());
+        t_zero.push_back(seconds_between(t0, Clock::now()));
+        g_sink = g_sink + std::abs(fresh(fresh.rows() - 1, 0));
+    }
     f.assemble_s = median(t_asm);
     f.blocks_s = median(t_blocks);
+    f.zero_s = median(t_zero);
     const Eigen::Index n = sys.matrix.rows();
     f.n = n;
     f.flops = lu_flops<S>(n);
 
-    const LuRuns<S> runs = time_lu(sys, reps, 40.0);
+    const LuRuns<S> runs = time_lu(sys, reps, 20.0);
     f.reps = static_cast<int>(runs.eigen.size());
     f.eigen_s = median(runs.eigen);
     f.eigen_min_s = *std::min_element(runs.eigen.begin(), runs.eigen.end());
@@ -620,13 +680,15 @@ void print_size_tables(const std::vector<SizeFigures>& all, bool have_blas) {
                 "  half of 1k/2k/4k/8k unknowns, default QuadratureOptions, one point source in the water.\n"
                 "  LU flops: 2/3 n^3 (double), 8/3 n^3 real flops (complex). Medians; 'reps' = LU repetitions made.\n"
                 "  'LU s' factors a preallocated copy in place (solve_dense's algorithm, without allocation);\n"
-                "  'solve_dense s' is one call of the solver's own function (fresh copy + LU + one solve).\n\n");
-    std::printf("  %-8s %7s %9s %5s %12s %15s %10s %12s %15s\n", "scalar", "panels", "unknowns", "reps",
-                "assemble s", "of it blocks s", "LU s", "LU GFLOP/s", "solve_dense s");
+                "  'solve_dense s' is one call of the solver's own function (fresh copy + LU + one solve).\n"
+                "  Parts of 'assemble s' measured alone: 'layer blocks s' = assemble_layer_blocks of the sphere\n"
+                "  on itself; 'fresh zeros s' = setZero of a newly allocated n x n matrix (first touch of memory).\n\n");
+    std::printf("  %-8s %7s %9s %5s %11s %15s %15s %9s %11s %14s\n", "scalar", "panels", "unknowns", "reps",
+                "assemble s", "layer blocks s", "fresh zeros s", "LU s", "LU GFLOP/s", "solve_dense s");
     for (const auto& f : all)
-        std::printf("  %-8s %7ld %9ld %5d %12.3f %15.3f %10.3f %12.1f %15.3f\n", f.scalar,
+        std::printf("  %-8s %7ld %9ld %5d %11.3f %15.3f %15.3f %9.3f %11.1f %14.3f\n", f.scalar,
                     static_cast<long>(f.panels), static_cast<long>(f.n), f.reps, f.assemble_s, f.blocks_s,
-                    f.eigen_s, f.flops / f.eigen_s * 1e-9, f.solve_dense_s);
+                    f.zero_s, f.eigen_s, f.flops / f.eigen_s * 1e-9, f.solve_dense_s);
 
     std::printf("\n== 3. LU back end: Eigen PartialPivLU vs. OpenBLAS (LAPACKE_dgetrf / LAPACKE_zgetrf) ==\n");
     if (!have_blas) {
@@ -716,6 +778,7 @@ int main(int argc, char** argv) {
     for (const auto& [goal, reps] : real_sizes) sizes.push_back(bench_size<double>(goal, reps));
     single_thread.push_back(bench_one_thread<double>(2000, 3));
     work_buffer<double>(0) = std::vector<double>();  // hand the real buffer back before the complex one
+    print_load("after the real systems");
     for (const auto& [goal, reps] : complex_sizes) sizes.push_back(bench_size<Complex>(goal, reps));
     single_thread.push_back(bench_one_thread<Complex>(2000, 3));
     work_buffer<Complex>(0) = std::vector<Complex>();
@@ -724,8 +787,8 @@ int main(int argc, char** argv) {
     print_load("at end");
 
     // ---------------------------------------------------------------- summary
-    const double max_load = *std::max_element(g_load_samples.begin(), g_load_samples.end());
-    std::printf("\n== 4. Summary ==\n");
+    const double start_load = g_load_samples.front();
+    std::printf("\n== 4. Summary ==  (speed-up = Eigen time / OpenBLAS time; > 1: OpenBLAS faster)\n");
     std::printf("  kernels, ns per panel pair on one core: closed single %.1f, closed double %.1f, closed both %.1f,\n"
                 "    Radon-7 both %.1f, centroid both %.2f\n",
                 kernels.single_ns, kernels.double_ns, kernels.both_ns, kernels.radon_ns, kernels.centroid_ns);
@@ -737,18 +800,22 @@ int main(int argc, char** argv) {
         std::printf("  %-7s n = %5ld: assemble %.3f s, Eigen LU %.3f s = %.1f GFLOP/s", f.scalar,
                     static_cast<long>(f.n), f.assemble_s, f.eigen_s, f.flops / f.eigen_s * 1e-9);
         if (have_blas)
-            std::printf(", OpenBLAS %.3f s = %.1f GFLOP/s (%.2fx)", f.blas_s, f.flops / f.blas_s * 1e-9,
-                        f.eigen_s / f.blas_s);
+            std::printf(", OpenBLAS %.3f s = %.1f GFLOP/s (speed-up %.2fx)", f.blas_s,
+                        f.flops / f.blas_s * 1e-9, f.eigen_s / f.blas_s);
         std::printf("\n");
     }
     if (have_blas)
         for (const auto& f : single_thread)
-            std::printf("  %-7s n = %5ld, one thread each: Eigen %.1f GFLOP/s, OpenBLAS %.1f GFLOP/s (%.2fx)\n",
+            std::printf("  %-7s n = %5ld, one thread each: Eigen %.1f GFLOP/s, OpenBLAS %.1f GFLOP/s (speed-up %.2fx)\n",
                         f.scalar, static_cast<long>(f.n), f.flops / f.eigen_s * 1e-9, f.flops / f.blas_s * 1e-9,
                         f.eigen_s / f.blas_s);
-    std::printf("  machine: highest 1-minute load average seen %.2f -> %s\n", max_load,
-                max_load > 1.5 ? "SHARED with other work; figures may be low and noisy"
-                               : "quiet (load <= 1.5)");
+    const double max_share =
+        g_other_share.empty() ? 0.0 : *std::max_element(g_other_share.begin(), g_other_share.end());
+    const bool shared = start_load > kSharedLoad || max_share > kSharedOtherShare;
+    std::printf("  machine: 1-minute load average at start %.2f; other processes took up to %.0f %% of all cores\n"
+                "    during a part of the run -> %s\n",
+                start_load, 100.0 * max_share,
+                shared ? "SHARED with other work: figures may be low and noisy" : "quiet");
     std::printf("  total run time: %.0f s\n", seconds_between(start, Clock::now()));
     return 0;
 }
