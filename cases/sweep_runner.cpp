@@ -18,6 +18,7 @@
 #include <atomic>
 #include <optional>
 #include <chrono>
+#include <exception>
 #include <csignal>
 #include <filesystem>
 #include <cstdio>
@@ -320,63 +321,108 @@ private:
         output_->file().flush();
     }
 
-    // ---- stage: every point not yet computed
+    // What one point produced, before it is written.
+    struct PointResult {
+        std::vector<std::size_t> index;
+        bool masked = false;
+        Vec3 centre = Vec3::Zero();
+        std::vector<S> change;
+        ImageSummary image;
+        double snr = 0, pd = 0;
+    };
+
+    // ---- stage: every point not yet computed. Points are independent: they run
+    // in parallel, one point per thread (the solves inside run single-threaded,
+    // as OpenMP does not nest by default), and each result is written under a
+    // lock. Every point's arithmetic is the same whatever the thread count, so
+    // the results do not depend on it.
     void compute_points() {
         Progress progress(total_, finished_, options_.quiet);
         const QuadratureOptions quad = quadrature_options(spec_);
-        const int water_axis = find_axis(axes_, AxisKind::water_conductivity);
         H5Group sweep = output_->root().open_group("sweep");
-        for (std::size_t p = 0; p < total_ && !g_stop_requested; ++p) {
-            if (status_[p] != kNotComputed) continue;
-            const std::vector<std::size_t> index = unflatten(p, axes_);
-            const std::size_t w = water_axis >= 0 ? index[water_axis] : 0;
-            DistanceReference reference;
-            if (sensors_.probes) reference.point = reference_point_;
-            else reference.body = &baseline_scenes_[w].surfaces.front().mesh;
-            PointSetup setup = configure_point(spec_, sweep_, axes_, index, reference);
-            std::optional<Scene<S>> scene;
-            if (!setup.masked) {
-                try {
-                    scene = build_scene<S>(setup.spec, true);
-                } catch (const InputError& e) {  // touches another object, or leaves the water
-                    setup.masked = true, setup.mask_reason = e.what();
+        std::vector<std::size_t> pending;
+        for (std::size_t p = 0; p < total_; ++p)
+            if (status_[p] == kNotComputed) pending.push_back(p);
+        std::exception_ptr failure;
+        std::atomic<bool> failed{false};
+#pragma omp parallel for schedule(dynamic, 1)
+        for (std::ptrdiff_t i = 0; i < std::ptrdiff_t(pending.size()); ++i) {
+            if (g_stop_requested || failed) continue;
+            try {
+                const PointResult r = compute_point(pending[i], quad);
+#pragma omp critical(murk_sweep_output)
+                {
+                    store_point(sweep, pending[i], r);
+                    progress.point_done();
                 }
+            } catch (...) {
+#pragma omp critical(murk_sweep_failure)
+                if (!failure) failure = std::current_exception();
+                failed = true;
             }
-            H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-            if (setup.masked) {
-                // Masked: every real value stays NaN (the object has no valid place),
-                // and the peak sensor is -1, which no sensor index can be.
-                write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{-1});
-                status_[p] = kMasked;
-                ++masked_;
-            } else {
-                const Vec3 c = setup.object_centre;
-                write(sweep, "object_position", offset, count, {3}, std::vector<double>{c.x(), c.y(), c.z()});
-                const Solution<S> solution = solve_scene(*scene, quad);
-                std::vector<S> change = sensor_readings(sensors_, *scene, solution, quad);
-                for (std::size_t k = 0; k < change.size(); ++k) change[k] -= baseline_readings_[w][k];
-                const ImageSummary image = summarize_image(sensors_, change);
-                write(sweep, "perturbation", offset, count, {hsize_t(change.size())}, change);
-                write(sweep, "peak_perturbation", offset, count, {}, std::vector<double>{image.peak});
-                write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{std::int32_t(image.peak_sensor)});
-                const Vec3 at = sensors_.position[image.peak_sensor];
-                write(sweep, "peak_position", offset, count, {3}, std::vector<double>{at.x(), at.y(), at.z()});
-                if (sensors_.skin) write(sweep, "image_width", offset, count, {}, std::vector<double>{image.width});
-                if (spec_.detection) {
-                    const double snr = detectability_index(noise_, change, receptors_);
-                    const double pd = detection_probability(snr, spec_.detection->false_alarm_probability);
-                    write(sweep, "snr", offset, count, {}, std::vector<double>{snr});
-                    write(sweep, "detection_probability", offset, count, {}, std::vector<double>{pd});
-                }
-                status_[p] = kComputed;
-            }
-            // The status is written last and flushed: a point counts as done only
-            // once all its values are on disk.
-            write(sweep, "status", offset, count, {}, std::vector<std::uint8_t>{status_[p]});
-            output_->file().flush();
-            ++finished_;
-            progress.point_done();
         }
+        if (failure) std::rethrow_exception(failure);
+    }
+
+    PointResult compute_point(std::size_t p, const QuadratureOptions& quad) const {
+        PointResult r;
+        r.index = unflatten(p, axes_);
+        const int water_axis = find_axis(axes_, AxisKind::water_conductivity);
+        const std::size_t w = water_axis >= 0 ? r.index[water_axis] : 0;
+        DistanceReference reference;
+        if (sensors_.probes) reference.point = reference_point_;
+        else reference.body = &baseline_scenes_[w].surfaces.front().mesh;
+        PointSetup setup = configure_point(spec_, sweep_, axes_, r.index, reference);
+        std::optional<Scene<S>> scene;
+        if (!setup.masked) {
+            try {
+                scene = build_scene<S>(setup.spec, true);
+            } catch (const InputError& e) {  // touches another object, or leaves the water
+                setup.masked = true, setup.mask_reason = e.what();
+            }
+        }
+        r.masked = setup.masked;
+        if (r.masked) return r;
+        r.centre = setup.object_centre;
+        const Solution<S> solution = solve_scene(*scene, quad);
+        r.change = sensor_readings(sensors_, *scene, solution, quad);
+        for (std::size_t k = 0; k < r.change.size(); ++k) r.change[k] -= baseline_readings_[w][k];
+        r.image = summarize_image(sensors_, r.change);
+        if (spec_.detection) {
+            r.snr = detectability_index(noise_, r.change, receptors_);
+            r.pd = detection_probability(r.snr, spec_.detection->false_alarm_probability);
+        }
+        return r;
+    }
+
+    void store_point(H5Group& sweep, std::size_t p, const PointResult& r) {
+        H5Shape offset(r.index.begin(), r.index.end()), count(r.index.size(), 1);
+        if (r.masked) {
+            // Masked: every real value stays NaN (the object has no valid place),
+            // and the peak sensor is -1, which no sensor index can be.
+            write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{-1});
+            status_[p] = kMasked;
+            ++masked_;
+        } else {
+            const Vec3 c = r.centre;
+            write(sweep, "object_position", offset, count, {3}, std::vector<double>{c.x(), c.y(), c.z()});
+            write(sweep, "perturbation", offset, count, {hsize_t(r.change.size())}, r.change);
+            write(sweep, "peak_perturbation", offset, count, {}, std::vector<double>{r.image.peak});
+            write(sweep, "peak_sensor", offset, count, {}, std::vector<std::int32_t>{std::int32_t(r.image.peak_sensor)});
+            const Vec3 at = sensors_.position[r.image.peak_sensor];
+            write(sweep, "peak_position", offset, count, {3}, std::vector<double>{at.x(), at.y(), at.z()});
+            if (sensors_.skin) write(sweep, "image_width", offset, count, {}, std::vector<double>{r.image.width});
+            if (spec_.detection) {
+                write(sweep, "snr", offset, count, {}, std::vector<double>{r.snr});
+                write(sweep, "detection_probability", offset, count, {}, std::vector<double>{r.pd});
+            }
+            status_[p] = kComputed;
+        }
+        // The status is written last and flushed: a point counts as done only
+        // once all its values are on disk.
+        write(sweep, "status", offset, count, {}, std::vector<std::uint8_t>{status_[p]});
+        output_->file().flush();
+        ++finished_;
     }
 
     // ---- stage: detection range and falloff, sidecar, commit
