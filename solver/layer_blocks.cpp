@@ -32,7 +32,6 @@ void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::In
     const double near2 = std::pow(options.near_ratio * src.diameter(k), 2);
     const Vec3 p0 = src.p0.col(k), p1 = src.p1.col(k), p2 = src.p2.col(k);
     const Vec3 n = src.normal.col(k);
-    const TriangleRule& rule = radon7_rule();
     for (Eigen::Index i = 0; i < m; ++i) {
         const Vec3 x = targets.col(i);
         const double d2 = (x - src.centroid.col(k)).squaredNorm();
@@ -44,16 +43,9 @@ void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::In
             single[i] = single_layer_triangle(x, p0, p1, p2);
             dbl[i] = double_layer_triangle(x, p0, p1, p2);
         } else {
-            double s = 0.0, d = 0.0;
-            for (std::size_t q = 0; q < rule.weight.size(); ++q) {
-                const auto& l = rule.point[q];
-                const Vec3 r = x - (l[0] * p0 + l[1] * p1 + l[2] * p2);
-                const double inv_r = 1.0 / r.norm();
-                s += rule.weight[q] * inv_r;
-                d += rule.weight[q] * n.dot(r) * inv_r * inv_r * inv_r;
-            }
-            single[i] = a * s;
-            dbl[i] = a * d;
+            const LayerValues v = radon7_layers(x, p0, p1, p2, n, src.area(k));
+            single[i] = v.single;
+            dbl[i] = v.dbl;
         }
     }
 }

@@ -7,6 +7,9 @@
 //   dG/dn_y(x, y) = n . (x - y) / (4 pi |x - y|^3),  n the triangle's unit normal
 //                   (from the counter-clockwise vertex order).
 #include "geometry/mesh.hpp"
+#include "solver/triangle_rules.hpp"
+
+#include <cmath>
 
 namespace murk {
 
@@ -26,5 +29,30 @@ double single_layer_triangle(const Vec3& x, const Vec3& p0, const Vec3& p1, cons
 // For x inside the triangle (a panel's own centroid) the principal value is 0
 // and callers must use that instead.
 double double_layer_triangle(const Vec3& x, const Vec3& p0, const Vec3& p1, const Vec3& p2);
+
+// Both layers of a flat triangle with unit normal n and the given area, by
+// Radon's 7-point rule (triangle_rules.hpp): the far-field kernel. Relative
+// error below about 1e-5 for x farther than three triangle diameters.
+struct LayerValues {
+    double single = 0.0;
+    double dbl = 0.0;
+};
+
+inline LayerValues radon7_layers(const Vec3& x, const Vec3& p0, const Vec3& p1, const Vec3& p2, const Vec3& n,
+                                 double area) {
+    const TriangleRule& rule = radon7_rule();
+    LayerValues v;
+    for (std::size_t q = 0; q < rule.weight.size(); ++q) {
+        const auto& l = rule.point[q];
+        const Vec3 r = x - (l[0] * p0 + l[1] * p1 + l[2] * p2);
+        const double inv_r = 1.0 / r.norm();
+        v.single += rule.weight[q] * inv_r;
+        v.dbl += rule.weight[q] * n.dot(r) * inv_r * inv_r * inv_r;
+    }
+    const double scale = area / (4.0 * M_PI);
+    v.single *= scale;
+    v.dbl *= scale;
+    return v;
+}
 
 }  // namespace murk

@@ -6,6 +6,8 @@
 
 #include <doctest/doctest.h>
 
+#include "tests/temp_dir.hpp"
+
 #include <cstdint>
 #include <cstring>
 #include <filesystem>
@@ -21,24 +23,6 @@ namespace fs = std::filesystem;
 namespace {
 
 // A fresh folder per test case, removed at the end.
-struct TempDir {
-    fs::path dir;
-    TempDir() {
-        static int serial = 0;
-        dir = fs::temp_directory_path() / ("murk_test_geometry_io_" + std::to_string(::getpid()) + "_" + std::to_string(serial++));
-        fs::create_directories(dir);
-    }
-    ~TempDir() {
-        std::error_code ec;
-        fs::remove_all(dir, ec);
-    }
-    std::string file(const std::string& name, const std::string& content) const {
-        const std::string p = (dir / name).string();
-        std::ofstream(p, std::ios::binary) << content;
-        return p;
-    }
-    std::string path(const std::string& name) const { return (dir / name).string(); }
-};
 
 std::string error_of(const std::function<void()>& f) {
     try {
@@ -64,7 +48,7 @@ void put_f32(std::string& s, float v) { s.append(reinterpret_cast<const char*>(&
 }  // namespace
 
 TEST_CASE("geometry: read a hand-written ASCII STL") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     const std::string p = tmp.file("tet.stl", kTetStl);
     const TriangleMesh m = read_stl(p);
     CHECK(m.name == "tet");
@@ -78,7 +62,7 @@ TEST_CASE("geometry: read a hand-written ASCII STL") {
 }
 
 TEST_CASE("geometry: read a binary STL whose header starts with 'solid'") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     std::string b(80, ' ');
     std::memcpy(&b[0], "solid but binary", 16);
     const float v[4][3] = {{0, 0, 0}, {2, 0, 0}, {0, 2, 0}, {0, 0, 2}};
@@ -102,9 +86,9 @@ TEST_CASE("geometry: read a binary STL whose header starts with 'solid'") {
 }
 
 TEST_CASE("geometry: write_stl then read_stl gives the mesh back") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     const TriangleMesh s = make_icosphere(0.05, 2);
-    const std::string p = tmp.path("sphere.stl");
+    const std::string p = tmp / ("sphere.stl");
     write_stl(p, s);
     CHECK(fs::file_size(p) == 84 + 50 * s.size());  // binary STL layout
     const TriangleMesh r = read_stl(p);
@@ -118,7 +102,7 @@ TEST_CASE("geometry: write_stl then read_stl gives the mesh back") {
 }
 
 TEST_CASE("geometry: STL errors name the file and line") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     const std::string bad = tmp.file("bad.stl", "solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 0\nvertex 0 1 0\n");
     const std::string e = error_of([&] { read_stl(bad); });
     CHECK(e.find("bad.stl:6:") != std::string::npos);  // 'vertex' where the third number of line 5 belongs
@@ -128,7 +112,7 @@ TEST_CASE("geometry: STL errors name the file and line") {
     CHECK(error_of([&] { read_stl(empty); }).find("no triangles") != std::string::npos);
     const std::string open = tmp.file("open.stl", "solid x\n");
     CHECK(error_of([&] { read_stl(open); }).find("endsolid") != std::string::npos);
-    CHECK(error_of([&] { read_stl(tmp.path("missing.stl")); }).find("missing.stl") != std::string::npos);
+    CHECK(error_of([&] { read_stl(tmp / ("missing.stl")); }).find("missing.stl") != std::string::npos);
     CHECK_THROWS_AS(read_stl(bad, -1.0), InputError);
     CHECK_THROWS_AS(read_mesh(tmp.file("x.obj", "o x\n")), InputError);
 }
@@ -190,7 +174,7 @@ void check_tet_regions(const TriangleMesh& m) {
 }  // namespace
 
 TEST_CASE("geometry: read Gmsh MSH 2.2 with physical names") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     const TriangleMesh m = read_msh(tmp.file("tet2.msh", kTetMsh2));
     CHECK(m.name == "tet2");
     check_tet_regions(m);
@@ -199,14 +183,14 @@ TEST_CASE("geometry: read Gmsh MSH 2.2 with physical names") {
 }
 
 TEST_CASE("geometry: read Gmsh MSH 4.1 with physical names") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     const std::string p = tmp.file("tet41.msh", kTetMsh41);
     check_tet_regions(read_msh(p));
     check_tet_regions(read_mesh(p));
 }
 
 TEST_CASE("geometry: MSH errors name the file and line") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     std::string bad = kTetMsh2;
     bad.replace(bad.find("6 2 2 5 2 2 3 4"), 15, "6 2 2 5 2 2 3 6");  // node 6 does not exist
     CHECK(error_of([&] { read_msh(tmp.file("bad.msh", bad)); }).find("bad.msh:25: triangle uses node 6") != std::string::npos);
@@ -225,12 +209,12 @@ TEST_CASE("geometry: MSH errors name the file and line") {
 }
 
 TEST_CASE("geometry: write_vtk writes legacy POLYDATA with cell arrays") {
-    TempDir tmp;
+    murk::testing::TempDir tmp("murk-test-geometry-io");
     TriangleMesh m = make_icosphere(1.0, 0);
     m.region[3] = 2;
     std::vector<double> values(m.size());
     for (std::size_t t = 0; t < m.size(); ++t) values[t] = 0.5 * static_cast<double>(t);
-    const std::string p = tmp.path("s.vtk");
+    const std::string p = tmp / ("s.vtk");
     write_vtk(p, m, {{"transdermal voltage", values}});
     std::ifstream in(p);
     std::string line;
@@ -250,5 +234,5 @@ TEST_CASE("geometry: write_vtk writes legacy POLYDATA with cell arrays") {
     while (rest >> v) CHECK(v == 0.5 * static_cast<double>(count++));
     CHECK(count == m.size());
     CHECK_THROWS_AS(write_vtk(p, m, {{"short", {1.0}}}), InputError);
-    CHECK_THROWS_AS(write_vtk(tmp.path("no/such/dir/x.vtk"), m), InputError);
+    CHECK_THROWS_AS(write_vtk(tmp / ("no/such/dir/x.vtk"), m), InputError);
 }

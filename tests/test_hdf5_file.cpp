@@ -6,6 +6,8 @@
 
 #include <doctest/doctest.h>
 
+#include "tests/temp_dir.hpp"
+
 #include <fcntl.h>
 #include <sys/wait.h>
 #include <unistd.h>
@@ -23,32 +25,10 @@
 
 namespace fs = std::filesystem;
 using namespace murk;
+using murk::testing::read_text;
+using murk::testing::TempDir;
 
 namespace {
-
-// A fresh directory per test, removed afterwards.
-struct TempDir {
-    fs::path path;
-    TempDir() {
-        static std::atomic<int> counter{0};
-        path = fs::temp_directory_path() /
-               ("murk-test-hdf5-" + std::to_string(::getpid()) + "-" + std::to_string(counter++));
-        fs::remove_all(path);
-        fs::create_directories(path);
-    }
-    ~TempDir() {
-        std::error_code error;
-        fs::remove_all(path, error);
-    }
-    std::string operator/(const std::string& name) const { return (path / name).string(); }
-};
-
-std::string read_text(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    std::stringstream text;
-    text << in.rdbuf();
-    return text.str();
-}
 
 void write_text(const std::string& path, const std::string& text) { std::ofstream(path, std::ios::binary) << text; }
 
@@ -173,7 +153,7 @@ std::string input_error_message(F&& f) {
 
 TEST_CASE("hdf5: every kind of data survives a round trip through the layer") {
     // Expected values: the inputs written by write_sample (round trip).
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "sample.h5";
     write_sample(path);
     CHECK(fs::exists(path));
@@ -241,7 +221,7 @@ TEST_CASE("hdf5: h5py reads the file as numpy types with units and named dimensi
     // compound {r, i}: h5py documentation, "Complex numbers"; dimension scales: HDF5 Dimension
     // Scale Specification (H5DS); units and long_name: CF conventions 1.10, section 3.
     // Expected values in the script are typed in again or computed by numpy from the same rules.
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "sample.h5";
     write_sample(path);
     const std::string script = R"PY(
@@ -330,7 +310,7 @@ sys.exit(1 if failures else 0)
 }
 
 TEST_CASE("hdf5: an output abandoned before commit leaves no file behind") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     const std::string partial = H5Output::partial_path(path);
     {
@@ -358,7 +338,7 @@ TEST_CASE("hdf5: an output abandoned before commit leaves no file behind") {
 }
 
 TEST_CASE("hdf5: an existing output is kept unless overwrite is asked for") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     write_text(path, "an earlier result");
 
@@ -383,7 +363,7 @@ TEST_CASE("hdf5: an existing output is kept unless overwrite is asked for") {
 }
 
 TEST_CASE("hdf5: an output that appears while running is not replaced, and the result is kept") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     const std::string partial = H5Output::partial_path(path);
     {
@@ -400,7 +380,7 @@ TEST_CASE("hdf5: an output that appears while running is not replaced, and the r
 }
 
 TEST_CASE("hdf5: a partial file left by a dead run is replaced by a new run") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     write_text(H5Output::partial_path(path), "debris of a killed run");
     {
@@ -413,7 +393,7 @@ TEST_CASE("hdf5: a partial file left by a dead run is replaced by a new run") {
 }
 
 TEST_CASE("hdf5: a run killed after a flush can be resumed from its partial file") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     const std::string partial = H5Output::partial_path(path);
     const std::string snapshot = dir / "snapshot";
@@ -441,7 +421,7 @@ TEST_CASE("hdf5: a run killed after a flush can be resumed from its partial file
 }
 
 TEST_CASE("hdf5: bad files and paths are InputErrors naming the file") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string missing = dir / "missing.h5";
     CHECK(input_error_message([&] { H5File::open_readonly(missing); }) == missing + ": no such file");
     const std::string text = dir / "text.h5";
@@ -478,7 +458,7 @@ TEST_CASE("hdf5: bad files and paths are InputErrors naming the file") {
 }
 
 TEST_CASE("hdf5: HDF5 failures are exceptions naming the call and object, and print nothing") {
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
     H5Output out(path, false);
     H5Group body = out.root().group("mesh/body");
@@ -533,7 +513,7 @@ TEST_CASE("hdf5: no HDF5 identifier outlives its owner, also when an exception i
         }
         return ids;
     };
-    TempDir dir;
+    TempDir dir("murk-test-hdf5");
     const std::vector<hid_t> first = probe_all();
     {
         const std::string path = dir / "sample.h5";

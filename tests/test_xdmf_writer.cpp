@@ -8,6 +8,8 @@
 
 #include <doctest/doctest.h>
 
+#include "tests/temp_dir.hpp"
+
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -22,31 +24,10 @@
 
 namespace fs = std::filesystem;
 using namespace murk;
+using murk::testing::read_text;
+using murk::testing::TempDir;
 
 namespace {
-
-struct TempDir {
-    fs::path path;
-    TempDir() {
-        static std::atomic<int> counter{0};
-        path = fs::temp_directory_path() /
-               ("murk-test-xdmf-" + std::to_string(::getpid()) + "-" + std::to_string(counter++));
-        fs::remove_all(path);
-        fs::create_directories(path);
-    }
-    ~TempDir() {
-        std::error_code error;
-        fs::remove_all(path, error);
-    }
-    std::string operator/(const std::string& name) const { return (path / name).string(); }
-};
-
-std::string read_text(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    std::stringstream text;
-    text << in.rdbuf();
-    return text.str();
-}
 
 // An octahedron of radius 1 cm: 6 vertices, 8 triangles, outward counter-clockwise.
 const std::vector<double> kVertices = {0.01, 0, 0, -0.01, 0, 0, 0, 0.01, 0, 0, -0.01, 0, 0, 0, 0.01, 0, 0, -0.01};
@@ -98,7 +79,7 @@ std::string python_list(const std::vector<double>& values) {
 }  // namespace
 
 TEST_CASE("xdmf: meshio reads a one-surface sidecar: points, triangles and per-panel values") {
-    TempDir dir;
+    TempDir dir("murk-test-xdmf");
     write_mesh_file(dir / "result.h5", {"fish"});
     write_xdmf_sidecar(dir / "result.xdmf", "result.h5", {octahedron("fish")});
     CHECK_FALSE(fs::exists(dir / "result.xdmf.partial"));
@@ -121,7 +102,7 @@ TEST_CASE("xdmf: meshio reads a one-surface sidecar: points, triangles and per-p
 }
 
 TEST_CASE("xdmf: several surfaces form a spatial collection whose references resolve in the HDF5 file") {
-    TempDir dir;
+    TempDir dir("murk-test-xdmf");
     write_mesh_file(dir / "two.h5", {"fish", "prey"});
     write_xdmf_sidecar(dir / "two.xdmf", "two.h5", {octahedron("fish"), octahedron("prey")});
 
@@ -161,7 +142,7 @@ TEST_CASE("xdmf: names that XML reserves are escaped") {
 }
 
 TEST_CASE("xdmf: a sidecar replaces an older one, and bad names and folders are input errors") {
-    TempDir dir;
+    TempDir dir("murk-test-xdmf");
     std::ofstream(dir / "r.xdmf") << "old";
     write_xdmf_sidecar(dir / "r.xdmf", "r.h5", {octahedron("fish")});
     CHECK(read_text(dir / "r.xdmf").rfind("<?xml", 0) == 0);

@@ -205,25 +205,15 @@ double loop_closed_both(const PanelSet& ps, std::vector<double>& s, std::vector<
 // (quadrature points recomputed per target).
 double loop_radon_both(const PanelSet& ps, std::vector<double>& s_out, std::vector<double>& d_out) {
     const Eigen::Index n = ps.size();
-    const TriangleRule& rule = radon7_rule();
     double check = 0.0;
     for (Eigen::Index k = 0; k < n; ++k) {
         const Vec3 p0 = ps.p0.col(k), p1 = ps.p1.col(k), p2 = ps.p2.col(k);
         const Vec3 nk = ps.normal.col(k);
-        const double a = ps.area(k) * kInvFourPi;
         for (Eigen::Index i = 0; i < n; ++i) {
             if (i == k) continue;
-            const Vec3 x = ps.centroid.col(i);
-            double s = 0.0, d = 0.0;
-            for (std::size_t q = 0; q < rule.weight.size(); ++q) {
-                const auto& l = rule.point[q];
-                const Vec3 r = x - (l[0] * p0 + l[1] * p1 + l[2] * p2);
-                const double inv_r = 1.0 / r.norm();
-                s += rule.weight[q] * inv_r;
-                d += rule.weight[q] * nk.dot(r) * inv_r * inv_r * inv_r;
-            }
-            s_out[i] = a * s;
-            d_out[i] = a * d;
+            const LayerValues v = radon7_layers(ps.centroid.col(i), p0, p1, p2, nk, ps.area(k));
+            s_out[i] = v.single;
+            d_out[i] = v.dbl;
         }
         check += s_out[(k + 1) % n] + d_out[(k + 1) % n];
     }
