@@ -49,6 +49,30 @@ struct LinearSystem {
 template <class S>
 LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& options);
 
+// The unknowns' order in the global system (what assemble_system uses).
+template <class S>
+SystemLayout system_layout(const Scene<S>& scene);
+
+// The unknowns (equally, the rows) of a part of the scene, as global indices in
+// increasing order: every unknown of the given surfaces, then the potentials of
+// the electrodes whose panels lie on them.
+template <class S>
+std::vector<Eigen::Index> part_unknowns(const Scene<S>& scene, const SystemLayout& layout,
+                                        const std::vector<std::size_t>& surfaces);
+
+// Rows x columns of the system matrix, and the same rows of the right-hand side.
+// Surface pairs that touch no selected row or column are not computed, so the
+// coupling block between a large body and a small object costs only their panel
+// pairs. The entries are those assemble_system computes, bit for bit.
+template <class S>
+struct SystemBlock {
+    MatrixX<S> matrix;
+    VectorX<S> rhs;
+};
+template <class S>
+SystemBlock<S> assemble_block(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
+                              const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols);
+
 // Stage: solve (dense LU with partial pivoting), then unpack the panel values.
 template <class S>
 VectorX<S> solve_dense(LinearSystem<S>& system);

@@ -3,6 +3,10 @@
 
 namespace murk {
 template LinearSystem<Complex> assemble_system(const Scene<Complex>&, const QuadratureOptions&);
+template SystemLayout system_layout(const Scene<Complex>&);
+template std::vector<Eigen::Index> part_unknowns(const Scene<Complex>&, const SystemLayout&, const std::vector<std::size_t>&);
+template SystemBlock<Complex> assemble_block(const Scene<Complex>&, const SystemLayout&, const QuadratureOptions&,
+                                        const std::vector<Eigen::Index>&, const std::vector<Eigen::Index>&);
 template VectorX<Complex> solve_dense(LinearSystem<Complex>&);
 template Solution<Complex> unpack_solution(const Scene<Complex>&, const SystemLayout&, const VectorX<Complex>&);
 template Solution<Complex> solve_scene(const Scene<Complex>&, const QuadratureOptions&);

@@ -106,6 +106,9 @@ template <class S>
 int enclosing_surface(const Scene<S>& scene, const Vec3& x) {
     for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
         const TriangleMesh& mesh = scene.surfaces[s].mesh;
+        Vec3 lo = Vec3::Constant(std::numeric_limits<double>::infinity()), hi = -lo;
+        for (const Vec3& v : mesh.vertices) lo = lo.cwiseMin(v), hi = hi.cwiseMax(v);
+        if ((x.array() < lo.array()).any() || (x.array() > hi.array()).any()) continue;  // outside its box
         double winding = 0.0;  // sum of -double_layer = Omega / (4 pi); 1 inside, 0 outside
         for (std::size_t t = 0; t < mesh.size(); ++t)
             winding -= double_layer_triangle(x, mesh.corner(t, 0), mesh.corner(t, 1), mesh.corner(t, 2));
@@ -139,21 +142,78 @@ IncidentField<S> water_incident_field(const Scene<S>& scene, const std::vector<i
 }
 
 template <class S>
-LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& options) {
-    detail::check_scene(scene);
-    LinearSystem<S> sys;
-    sys.layout = detail::make_layout(scene);
-    const SystemLayout& layout = sys.layout;
+SystemLayout system_layout(const Scene<S>& scene) {
+    return detail::make_layout(scene);
+}
+
+template <class S>
+std::vector<Eigen::Index> part_unknowns(const Scene<S>& scene, const SystemLayout& layout,
+                                        const std::vector<std::size_t>& surfaces) {
+    std::vector<char> chosen(scene.surfaces.size(), 0);
+    for (std::size_t s : surfaces) chosen.at(s) = 1;
+    std::vector<Eigen::Index> out;
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        if (!chosen[s]) continue;
+        const auto& b = layout.surfaces[s];
+        for (Eigen::Index k = 0; k < (b.two_sided ? 2 * b.panels : b.panels); ++k) out.push_back(b.offset + k);
+    }
+    // An electrode belongs to the part that holds its panels.
+    std::vector<char> electrode_chosen(scene.electrodes.size(), 0);
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s)
+        if (chosen[s] && scene.surfaces[s].kind == InterfaceKind::sealed)
+            for (int e : scene.surfaces[s].panel_electrode)
+                if (e >= 0 && e < static_cast<int>(scene.electrodes.size())) electrode_chosen[e] = 1;
+    for (std::size_t e = 0; e < scene.electrodes.size(); ++e)
+        if (electrode_chosen[e]) out.push_back(layout.electrode_offset + static_cast<Eigen::Index>(e));
+    return out;
+}
+
+namespace detail {
+
+// Global unknown -> position in a selection, or -1.
+inline std::vector<Eigen::Index> local_index(Eigen::Index size, const std::vector<Eigen::Index>* selection) {
+    std::vector<Eigen::Index> local(size, selection ? -1 : 0);
+    if (!selection) {
+        for (Eigen::Index i = 0; i < size; ++i) local[i] = i;
+        return local;
+    }
+    for (std::size_t i = 0; i < selection->size(); ++i) local.at((*selection)[i]) = static_cast<Eigen::Index>(i);
+    return local;
+}
+
+// The rows `rows` and columns `cols` of the system (null: all of them). Surface
+// pairs with no selected row or column are skipped, so a coupling block between
+// a body and an object costs only the body-object panel pairs.
+template <class S>
+void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
+                        const std::vector<Eigen::Index>* rows, const std::vector<Eigen::Index>* cols,
+                        MatrixX<S>& matrix, VectorX<S>& rhs) {
+    check_scene(scene);
     const Eigen::Index n = layout.size;
-    sys.matrix.setZero(n, n);
-    sys.rhs.setZero(n);
+    const std::vector<Eigen::Index> row_of = local_index(n, rows), col_of = local_index(n, cols);
+    matrix.setZero(rows ? Eigen::Index(rows->size()) : n, cols ? Eigen::Index(cols->size()) : n);
+    rhs.setZero(matrix.rows());
+    auto add = [&](Eigen::Index r, Eigen::Index c, S v) {
+        const Eigen::Index i = row_of[r], j = col_of[c];
+        if (i >= 0 && j >= 0) matrix(i, j) += v;
+    };
+    auto any_selected = [](const std::vector<Eigen::Index>& of, Eigen::Index from, Eigen::Index count) {
+        for (Eigen::Index k = from; k < from + count; ++k)
+            if (of[k] >= 0) return true;
+        return false;
+    };
     const S sigma_w = scene.water_conductivity;
 
     std::vector<PanelSet> panels;
-    std::vector<detail::PanelColumns> columns;
+    std::vector<PanelColumns> columns;
+    std::vector<bool> has_cols;
     for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
         panels.emplace_back(scene.surfaces[s].mesh);
-        columns.push_back(detail::panel_columns(scene, layout, s));
+        columns.push_back(panel_columns(scene, layout, s));
+        bool any = false;
+        for (Eigen::Index c : columns.back().phi) any = any || (c >= 0 && col_of[c] >= 0);
+        for (Eigen::Index c : columns.back().q) any = any || (c >= 0 && col_of[c] >= 0);
+        has_cols.push_back(any);
     }
 
     const std::vector<int> source_region = source_regions(scene);
@@ -161,30 +221,35 @@ LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& 
 
     Eigen::MatrixXd single, dbl, single_image, dbl_image;
     for (std::size_t a = 0; a < scene.surfaces.size(); ++a) {
-        const auto& rows = layout.surfaces[a];
+        const auto& block = layout.surfaces[a];
+        const bool water_rows = any_selected(row_of, block.offset, block.panels);
+        const bool inner_rows = block.two_sided && any_selected(row_of, block.offset + block.panels, block.panels);
+        if (!water_rows && !inner_rows) continue;
         const Eigen::Matrix3Xd& x = panels[a].centroid;
         const Eigen::Matrix3Xd x_image =
-            scene.plane ? detail::mirror_points(*scene.plane, x) : Eigen::Matrix3Xd();
+            scene.plane ? mirror_points(*scene.plane, x) : Eigen::Matrix3Xd();
         for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
+            if (!has_cols[b] || (!water_rows && a != b)) continue;
             assemble_layer_blocks(x, panels[b], options, a == b, single, dbl);
             const auto& col = columns[b];
 
             // Interior equation of surface a (only its own panels bound its interior):
             // 1/2 phi_in + K phi_in + (sigma_w / sigma_in) V q = interior sources.
-            if (a == b && rows.two_sided) {
+            if (a == b && inner_rows) {
                 const Surface<S>& surface = scene.surfaces[a];
-                const S q_factor = detail::membrane_q_factor(scene, surface);
+                const S q_factor = membrane_q_factor(scene, surface);
                 const S v_factor = sigma_w / surface.inner_conductivity;
-                const Eigen::Index r0 = rows.offset + rows.panels;
-                for (Eigen::Index k = 0; k < rows.panels; ++k) {
+                const Eigen::Index r0 = block.offset + block.panels;
+                for (Eigen::Index k = 0; k < block.panels; ++k) {
                     const Eigen::Index cu = col.phi[k], cq = col.q[k];
-                    for (Eigen::Index i = 0; i < rows.panels; ++i) {
+                    for (Eigen::Index i = 0; i < block.panels; ++i) {
                         const double kk = dbl(i, k) + (i == k ? 0.5 : 0.0);
-                        sys.matrix(r0 + i, cu) += kk;
-                        sys.matrix(r0 + i, cq) += kk * q_factor + v_factor * single(i, k);
+                        add(r0 + i, cu, kk);
+                        add(r0 + i, cq, kk * q_factor + v_factor * single(i, k));
                     }
                 }
             }
+            if (!water_rows) continue;
 
             // Exterior (water) equation on surface a:
             // 1/2 phi_w - sum_b Kw phi_w - sum_b Vw q = incident + water sources.
@@ -195,29 +260,28 @@ LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& 
             }
             for (Eigen::Index k = 0; k < layout.surfaces[b].panels; ++k) {
                 const Eigen::Index cphi = col.phi[k], cq = col.q[k];
-                for (Eigen::Index i = 0; i < rows.panels; ++i) {
-                    sys.matrix(rows.offset + i, cphi) -= dbl(i, k);
-                    if (cq >= 0) sys.matrix(rows.offset + i, cq) -= single(i, k);
+                for (Eigen::Index i = 0; i < block.panels; ++i) {
+                    add(block.offset + i, cphi, -dbl(i, k));
+                    if (cq >= 0) add(block.offset + i, cq, -single(i, k));
                 }
             }
             if (a == b)
-                for (Eigen::Index i = 0; i < rows.panels; ++i) sys.matrix(rows.offset + i, col.phi[i]) += 0.5;
+                for (Eigen::Index i = 0; i < block.panels; ++i) add(block.offset + i, col.phi[i], 0.5);
         }
 
         // Right-hand sides of surface a.
-        for (Eigen::Index i = 0; i < rows.panels; ++i) {
+        for (Eigen::Index i = 0; i < block.panels; ++i) {
             const Vec3 xi = x.col(i);
-            const S rhs_water = incident.potential(xi);
+            if (row_of[block.offset + i] >= 0) rhs(row_of[block.offset + i]) = incident.potential(xi);
+            if (!block.two_sided || row_of[block.offset + block.panels + i] < 0) continue;
             S rhs_inner = S(0);
             for (std::size_t p = 0; p < scene.sources.size(); ++p) {
                 const auto& src = scene.sources[p];
-                if (source_region[p] == static_cast<int>(a)) {
-                    rhs_inner += detail::point_source_potential(
-                        src.current, scene.surfaces[a].inner_conductivity, src.position, xi);
-                }
+                if (source_region[p] == static_cast<int>(a))
+                    rhs_inner += point_source_potential(src.current, scene.surfaces[a].inner_conductivity,
+                                                        src.position, xi);
             }
-            sys.rhs(rows.offset + i) = rhs_water;
-            if (rows.two_sided) sys.rhs(rows.offset + rows.panels + i) = rhs_inner;
+            rhs(row_of[block.offset + block.panels + i]) = rhs_inner;
         }
     }
 
@@ -225,10 +289,11 @@ LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& 
     // entries are of order one: sum_k (A_k / A_ref) q_k = I / (sigma_w A_ref).
     for (std::size_t e = 0; e < scene.electrodes.size(); ++e) {
         const Eigen::Index row = layout.electrode_offset + static_cast<Eigen::Index>(e);
+        if (row_of[row] < 0) continue;
         const Electrode<S>& electrode = scene.electrodes[e];
         if (electrode.drive == ElectrodeDrive::voltage || electrode.drive == ElectrodeDrive::fixed_potential) {
-            sys.matrix(row, row) = 1.0;
-            sys.rhs(row) = electrode.value;
+            add(row, row, 1.0);
+            rhs(row_of[row]) = electrode.value;
             continue;
         }
         double total_area = 0.0;
@@ -242,10 +307,28 @@ LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& 
             if (!layout.surfaces[s].two_sided)
                 for (Eigen::Index k = 0; k < layout.surfaces[s].panels; ++k)
                     if (scene.surfaces[s].panel_electrode[k] == static_cast<int>(e))
-                        sys.matrix(row, columns[s].q[k]) = panels[s].area(k) / total_area;
-        sys.rhs(row) = electrode.drive == ElectrodeDrive::current ? electrode.value / (sigma_w * total_area) : S(0);
+                        add(row, columns[s].q[k], panels[s].area(k) / total_area);
+        rhs(row_of[row]) =
+            electrode.drive == ElectrodeDrive::current ? electrode.value / (sigma_w * total_area) : S(0);
     }
+}
+
+}  // namespace detail
+
+template <class S>
+LinearSystem<S> assemble_system(const Scene<S>& scene, const QuadratureOptions& options) {
+    LinearSystem<S> sys;
+    sys.layout = detail::make_layout(scene);
+    detail::assemble_selection(scene, sys.layout, options, nullptr, nullptr, sys.matrix, sys.rhs);
     return sys;
+}
+
+template <class S>
+SystemBlock<S> assemble_block(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
+                              const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols) {
+    SystemBlock<S> block;
+    detail::assemble_selection(scene, layout, options, &rows, &cols, block.matrix, block.rhs);
+    return block;
 }
 
 template <class S>

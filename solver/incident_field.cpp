@@ -17,12 +17,27 @@ IncidentField<S>::IncidentField(const Scene<S>& scene, std::vector<std::size_t> 
             poles_.push_back({image, strength});
         }
     }
+    for (const PointDipole<S>& d : scene.dipoles) {
+        const Eigen::Matrix<S, 3, 1> m = d.moment / S(4.0 * M_PI);
+        dipoles_.push_back({d.position, m});
+        if (scene.plane) {  // image: mirrored position, moment reflected (normal part reversed)
+            const Vec3 n = scene.plane->normal;
+            const Vec3 image = d.position - 2.0 * (d.position - scene.plane->point).dot(n) * n;
+            const Eigen::Matrix<S, 3, 1> nn = n.cast<S>();
+            dipoles_.push_back({image, m - S(2.0) * nn.dot(m) * nn});
+        }
+    }
 }
 
 template <class S>
 S IncidentField<S>::potential(const Vec3& x) const {
     S phi = -x.cast<S>().dot(field_);  // (Eigen conjugates the left operand)
     for (const Pole& p : poles_) phi += p.strength / (x - p.position).norm();
+    for (const Dipole& d : dipoles_) {
+        const Vec3 r = x - d.position;
+        const double len = r.norm();
+        phi += r.cast<S>().dot(d.moment) / (len * len * len);
+    }
     return phi;
 }
 
@@ -33,6 +48,13 @@ S IncidentField<S>::normal_derivative(const Vec3& x, const Vec3& n) const {
         const Vec3 r = x - p.position;
         const double len = r.norm();
         d -= p.strength * (r.dot(n) / (len * len * len));
+    }
+    // grad (p.r / r^3) = p / r^3 - 3 (p.r) r / r^5
+    for (const Dipole& q : dipoles_) {
+        const Vec3 r = x - q.position;
+        const double len2 = r.squaredNorm(), len = std::sqrt(len2);
+        const S pr = r.cast<S>().dot(q.moment), pn = n.cast<S>().dot(q.moment);
+        d += (pn - 3.0 * pr * (r.dot(n) / len2)) / (len2 * len);
     }
     return d;
 }

@@ -1,6 +1,6 @@
 #pragma once
-// The incident potential in the water: what the water sources and the imposed
-// uniform field would produce with no surfaces present (including the image
+// The incident potential in the water: what the water sources, the point
+// dipoles and the imposed uniform field would produce with no surfaces present (including the image
 // sources of an insulating plane). It is harmonic inside every closed surface,
 // which is what lets the representation formula be applied to the scattered
 // part alone (see potential_at).
@@ -22,8 +22,10 @@ public:
 
 private:
     struct Pole { Vec3 position; S strength; };  // potential strength / |x - position|
+    struct Dipole { Vec3 position; Eigen::Matrix<S, 3, 1> moment; };  // moment / (4 pi), V m^2
     Eigen::Matrix<S, 3, 1> field_;
     std::vector<Pole> poles_;
+    std::vector<Dipole> dipoles_;
 };
 
 }  // namespace murk

@@ -57,6 +57,15 @@ struct PointSource {
     S current{};
 };
 
+// A point dipole in the water: the stand-in for a small object on the
+// induced-dipole path. Its potential is p.(x - c) / (4 pi |x - c|^3), with the
+// moment p in V m^2 (potential times area, as induced_dipole_moment gives it).
+template <class S>
+struct PointDipole {
+    Vec3 position = Vec3::Zero();
+    Eigen::Matrix<S, 3, 1> moment = Eigen::Matrix<S, 3, 1>::Zero();
+};
+
 // An insulating plane (water surface or bottom): the water lies on the side
 // opposite to `normal`. Handled exactly by the image Green's function.
 struct InsulatingPlane {
@@ -71,6 +80,7 @@ struct Scene {
     std::vector<Surface<S>> surfaces;
     std::vector<Electrode<S>> electrodes;
     std::vector<PointSource<S>> sources;
+    std::vector<PointDipole<S>> dipoles;  // all in the water
     // Imposed uniform field far away (V/m); the incident potential is -E.x.
     // Used by the verification checks; zero in ordinary scenes.
     Eigen::Matrix<S, 3, 1> uniform_field = Eigen::Matrix<S, 3, 1>::Zero();

@@ -1,0 +1,65 @@
+#pragma once
+// The exact solve of a sweep point: a factored fixed part (the body) plus a few
+// moving surfaces (the object), without re-assembling or re-factoring the body.
+//
+// With the unknowns split into fixed (F) and moving (M) ones,
+//   A_FF x_F + C_FM x_M = b_F
+//   C_MF x_F + A_MM x_M = b_M,
+// and x0 = A_FF^-1 b_F the fixed part's own solution, the moving unknowns solve
+// the Schur-complement system
+//   (A_MM - C_MF A_FF^-1 C_FM) x_M = b_M - C_MF x0,   then x_F = x0 - A_FF^-1 C_FM x_M.
+// It is solved by GMRES with A_MM^-1 as right preconditioner: the operator is
+// then I - C_MF A_FF^-1 C_FM A_MM^-1, the identity less the object's field
+// reflected by the body back onto the object, which is small unless the object
+// nearly touches the body, so a few iterations reach 1e-10. Each iteration is
+// one triangular solve against the stored body factors (memory-bound, about
+// 2 n^2 flops) and two products with the coupling blocks. Forming the Schur
+// complement instead needs A_FF^-1 C_FM, a solve with one right-hand side per
+// moving unknown (hundreds), which measured slower (tools/bench_sweep.cpp).
+//
+// Nothing is approximated beyond the discretization: the coupling blocks are
+// the same entries the full system has (same quadrature rules and ratios), and
+// the result equals the full dense solve up to the GMRES tolerance.
+#include "solver/fixed_part.hpp"
+#include "solver/gmres.hpp"
+
+#include <Eigen/LU>
+#include <vector>
+
+namespace murk {
+
+// The moving surfaces' own diagonal block, factored. It depends only on their
+// shapes, sizes, orientations and materials (and the water), not on where they
+// are, unless an insulating plane is present (its images move with them); so a
+// sweep that only moves an object keeps one MovingBlock for every position.
+template <class S>
+struct MovingBlock {
+    Eigen::Index size = 0;
+    Eigen::PartialPivLU<MatrixX<S>> lu;
+};
+
+template <class S>
+MovingBlock<S> factor_moving_block(const Scene<S>& scene, const std::vector<std::size_t>& moving,
+                                   const QuadratureOptions& options);
+
+struct CouplingOptions {
+    double tolerance = 1e-10;  // GMRES relative residual of the coupling system
+    int max_iterations = 80;
+};
+
+template <class S>
+struct CoupledSolution {
+    Solution<S> solution;  // the whole scene, as solve_scene would give it
+    GmresResult gmres;
+};
+
+// `scene` must be fixed.scene() with the surfaces listed in `moving` (and the
+// electrodes on them) added, everything else in the same order; a mismatch of
+// sizes is a std::logic_error. When GMRES does not converge the solution is
+// still returned, and gmres.converged says so.
+template <class S>
+CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::size_t>& moving,
+                                 const FixedPart<S>& fixed, const MovingBlock<S>& block,
+                                 const QuadratureOptions& options, const CouplingOptions& coupling);
+
+}  // namespace murk

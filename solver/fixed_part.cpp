@@ -1,0 +1,59 @@
+#include "solver/fixed_part.hpp"
+
+#include <chrono>
+
+namespace murk {
+
+namespace {
+double seconds_since(std::chrono::steady_clock::time_point t0) {
+    return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+}  // namespace
+
+template <class S>
+FixedPart<S>::FixedPart(Scene<S> scene, const QuadratureOptions& options) : scene_(std::move(scene)) {
+    layout_ = system_layout(scene_);
+    water_points_.resize(3, 0);
+    if (scene_.surfaces.empty()) return;
+    auto t0 = std::chrono::steady_clock::now();
+    LinearSystem<S> system = assemble_system(scene_, options);
+    assembly_seconds_ = seconds_since(t0);
+    t0 = std::chrono::steady_clock::now();
+    factors_ = std::move(system.matrix);
+    lu_.emplace(factors_);
+    factor_seconds_ = seconds_since(t0);
+    x0_ = lu_->solve(system.rhs);
+    solution_ = unpack_solution(scene_, layout_, x0_);
+
+    Eigen::Index count = 0;
+    for (const auto& b : layout_.surfaces) count += b.panels;
+    water_points_.resize(3, count);
+    Eigen::Index i = 0;
+    for (std::size_t s = 0; s < scene_.surfaces.size(); ++s)
+        for (std::size_t t = 0; t < scene_.surfaces[s].mesh.size(); ++t, ++i) {
+            water_points_.col(i) = scene_.surfaces[s].mesh.centroid(t);
+            water_rows_.push_back(layout_.surfaces[s].offset + static_cast<Eigen::Index>(t));
+        }
+}
+
+template <class S>
+VectorX<S> FixedPart<S>::solve(const VectorX<S>& b) const {
+    if (size() == 0) return VectorX<S>();
+    return lu_->solve(b);
+}
+
+template <class S>
+MatrixX<S> FixedPart<S>::solve(const MatrixX<S>& b) const {
+    if (size() == 0) return MatrixX<S>(0, b.cols());
+    return lu_->solve(b);
+}
+
+template <class S>
+std::size_t FixedPart<S>::factor_bytes() const {
+    return static_cast<std::size_t>(size()) * static_cast<std::size_t>(size()) * sizeof(S);
+}
+
+template class FixedPart<double>;
+template class FixedPart<Complex>;
+
+}  // namespace murk

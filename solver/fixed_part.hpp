@@ -1,0 +1,63 @@
+#pragma once
+// The part of a scene that stays while a sweep moves objects: the sensing body,
+// its electrodes and sources, and any object that does not move. Its system is
+// assembled and LU-factored once; every sweep point then costs triangular
+// solves against the stored factors (DESIGN.md §3, "Sweeps must not re-solve
+// the world"). The stored factors are only read after construction, so any
+// number of threads may solve against one FixedPart at once.
+#include "solver/bem_system.hpp"
+
+#include <Eigen/LU>
+#include <optional>
+
+namespace murk {
+
+template <class S>
+class FixedPart {
+public:
+    FixedPart(const FixedPart&) = delete;  // the factors are referenced in place
+    FixedPart& operator=(const FixedPart&) = delete;
+    FixedPart(FixedPart&&) = default;
+    // Assembles and factors the whole system of `scene` (which may have no
+    // surfaces at all: then there is nothing to factor and every solve is empty).
+    FixedPart(Scene<S> scene, const QuadratureOptions& options);
+
+    const Scene<S>& scene() const { return scene_; }
+    const SystemLayout& layout() const { return layout_; }
+    Eigen::Index size() const { return layout_.size; }
+    // The fixed part's own solution (its sources and electrode drives), as the
+    // global unknown vector and unpacked.
+    const VectorX<S>& unknowns() const { return x0_; }
+    const Solution<S>& solution() const { return solution_; }
+    // Centroids of every panel of the fixed surfaces, surface after surface: the
+    // collocation points of the water rows.
+    const Eigen::Matrix3Xd& water_row_points() const { return water_points_; }
+    // Global row of each column of water_row_points().
+    const std::vector<Eigen::Index>& water_rows() const { return water_rows_; }
+
+    // A^-1 b for one or many right-hand sides.
+    VectorX<S> solve(const VectorX<S>& b) const;
+    MatrixX<S> solve(const MatrixX<S>& b) const;
+
+    // Bytes held by the factors (the dense LU dominates).
+    std::size_t factor_bytes() const;
+    double assembly_seconds() const { return assembly_seconds_; }
+    double factor_seconds() const { return factor_seconds_; }
+
+private:
+    Scene<S> scene_;
+    SystemLayout layout_;
+    // Factored in place (Eigen's inplace decomposition): the dense system is held once.
+    MatrixX<S> factors_;
+    std::optional<Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>>> lu_;
+    VectorX<S> x0_;
+    Solution<S> solution_;
+    Eigen::Matrix3Xd water_points_;
+    std::vector<Eigen::Index> water_rows_;
+    double assembly_seconds_ = 0, factor_seconds_ = 0;
+};
+
+extern template class FixedPart<double>;
+extern template class FixedPart<Complex>;
+
+}  // namespace murk
