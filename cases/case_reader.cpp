@@ -776,9 +776,31 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 
 SweepSpec read_sweep(const Section& sec) {
     check_keys(sec, {"object", "objects", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
-                     "readings"});
+                     "readings", "method", "dipole_accuracy", "check_points", "coupling_tolerance"});
     SweepSpec s;
     s.line = sec.line;
+    if (const toml::node* m = sec.find("method")) {
+        const std::string method = read_choice(sec, "method", *m, {"exact", "dipole", "auto", "full"});
+        s.method = method == "exact"    ? SweepMethod::exact
+                   : method == "dipole" ? SweepMethod::dipole
+                   : method == "auto"   ? SweepMethod::automatic
+                                        : SweepMethod::full;
+    }
+    if (const auto a = optional_positive(sec, "dipole_accuracy", Dimension::dimensionless)) {
+        if (*a >= 0.5) fail(sec.where("dipole_accuracy"), "must be a relative error below 0.5, got " + format_number(*a));
+        if (s.method != SweepMethod::automatic)
+            fail(sec.where("dipole_accuracy"), "sets the switch of method = \"auto\" and means nothing otherwise");
+        s.dipole_accuracy = *a;
+    }
+    if (const toml::node* c = sec.find("check_points")) {
+        s.check_points = read_count(sec, "check_points", *c, 0, 10000);
+        if (s.method != SweepMethod::dipole && s.method != SweepMethod::automatic)
+            fail(sec.where("check_points"), "goes with method = \"dipole\" or \"auto\" (the points re-solved exactly)");
+    }
+    if (const auto t = optional_positive(sec, "coupling_tolerance", Dimension::dimensionless)) {
+        if (*t > 1e-4) fail(sec.where("coupling_tolerance"), "must be at most 1e-4 (a relative residual), got " + format_number(*t));
+        s.coupling_tolerance = *t;
+    }
     if (const toml::node* o = sec.find("object")) s.object = read_string(sec, "object", *o);
     if (const toml::node* r = sec.find("readings"))
         s.electrode_pairs = read_choice(sec, "readings", *r, {"electrodes", "pairs"}) == "pairs";

@@ -11,9 +11,18 @@
 #include "cases/sweep_readings.hpp"
 #include "cases/xdmf_writer.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/triangle_distance.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/coupled_solve.hpp"
+#include "solver/dipole_path.hpp"
+#include "solver/polarization.hpp"
 
+#include <sys/resource.h>
 #include <unistd.h>
+
+#include <map>
+#include <memory>
+#include <mutex>
 
 #include <atomic>
 #include <optional>
@@ -33,6 +42,50 @@ extern "C" void request_stop(int) { g_stop_requested = true; }
 using Clock = std::chrono::steady_clock;
 
 constexpr std::uint8_t kNotComputed = 0, kComputed = 1, kMasked = 2;
+// Which path produced a point (sweep/path).
+constexpr std::uint8_t kNoPath = 0, kExactPath = 1, kDipolePath = 2, kFullPath = 3;
+// Dipole points are answered in blocks of this many right-hand sides: a fixed
+// size, so that every point's arithmetic is the same for any thread count.
+constexpr std::size_t kDipoleBatch = 32;
+
+// The automatic switch: a dipole point's relative error measured
+// about 0.1 x (object half-extent / centre distance to the body) in
+// tests/test_dipole_path.cpp (1.7 % at 5 radii, 0.9 % at 10, 0.4 % at 20), so
+// the dipole path is taken where that ratio is at most accuracy / 0.1.
+constexpr double kDipoleErrorPerRatio = 0.1;
+
+double peak_memory_MiB() {
+    rusage usage{};
+    getrusage(RUSAGE_SELF, &usage);
+    return usage.ru_maxrss / 1024.0;  // Linux reports KiB
+}
+
+const char* method_name(SweepMethod m) {
+    switch (m) {
+        case SweepMethod::exact: return "exact";
+        case SweepMethod::dipole: return "dipole";
+        case SweepMethod::automatic: return "auto";
+        case SweepMethod::full: return "full";
+    }
+    return "";
+}
+
+std::string method_description(SweepMethod m) {
+    switch (m) {
+        case SweepMethod::exact:
+            return "exact: body factored once, object coupled by GMRES at every point (no approximation beyond the "
+                   "discretization)";
+        case SweepMethod::dipole:
+            return "dipole: every point by the induced-dipole path (object replaced by its polarization tensor times the "
+                   "baseline field); a sample re-solved exactly, see /sweep/path_check";
+        case SweepMethod::automatic:
+            return "auto: induced-dipole path where the object is small against its distance, exact path elsewhere; "
+                   "see /sweep/path and /sweep/path_check";
+        case SweepMethod::full:
+            return "full boundary-element solve at every point (no approximation beyond the discretization)";
+    }
+    return "";
+}
 
 // Progress on stderr: a live line on a terminal, a plain line every 10 s otherwise.
 class Progress {
@@ -92,16 +145,30 @@ public:
     SweepRun(const CaseSpec& spec, const RunOptions& options) : spec_(spec), options_(options) {}
 
     RunOutcome run() {
+        const auto start = Clock::now();
+        auto since_start = [&] { return std::chrono::duration<double>(Clock::now() - start).count(); };
         plan();
         solve_baselines();
         open_output();
+        stats_.setup_seconds = since_start();
         try {
             compute_points();
+            const double before_checks = since_start();
+            if (!g_stop_requested) check_dipole_points();
+            stats_.check_seconds = since_start() - before_checks;
             if (!g_stop_requested) analyse_and_commit();
+            stats_.wall_seconds = since_start();
         } catch (...) {
             output_->suspend();  // keep every finished point for --resume
             throw;
         }
+        stats_.peak_memory_MiB = peak_memory_MiB();
+        for (std::uint8_t p : path_) {
+            stats_.exact_points += p == kExactPath;
+            stats_.dipole_points += p == kDipolePath;
+            stats_.full_points += p == kFullPath;
+        }
+        if (!options_.quiet) print_stats();
         if (g_stop_requested) {
             output_->suspend();
             std::fprintf(stderr,
@@ -113,6 +180,22 @@ public:
     }
 
 private:
+    void print_stats() const {
+        const RunStats& t = stats_;
+        if (sweep_.method != SweepMethod::full)
+            std::fprintf(stderr, "murk: body system: assembly %.2f s, factorization %.2f s, factors %.0f MiB\n",
+                         t.assembly_seconds, t.factor_seconds, t.factor_bytes / 1048576.0);
+        std::fprintf(stderr,
+                     "murk: points: %zu exact, %zu dipole, %zu full re-solve (%zu fell back from exact); "
+                     "exact and full %.2f s, dipole %.2f s\n",
+                     t.exact_points, t.dipole_points, t.full_points, std::size_t(t.fallbacks), t.point_seconds,
+                     t.dipole_seconds);
+        if (t.checked > 0)
+            std::fprintf(stderr, "murk: %zu dipole points re-solved exactly: largest discrepancy %.3g\n", t.checked,
+                         t.max_discrepancy);
+        std::fprintf(stderr, "murk: peak memory %.0f MiB\n", t.peak_memory_MiB);
+    }
+
     // ---- stage: plan
     void plan() {
         sweep_ = *spec_.sweep;
@@ -130,11 +213,25 @@ private:
         const int w = find_axis(axes_, AxisKind::water_conductivity);
         waters_ = w >= 0 ? axes_[w].values : std::vector<double>{spec_.water.conductivity_S_per_m};
         const QuadratureOptions quad = quadrature_options(spec_);
+        const std::vector<ObjectSpec> still = static_objects();
         for (double sigma : waters_) {
             CaseSpec s = spec_;
             s.water.conductivity_S_per_m = sigma;
             baseline_scenes_.push_back(build_scene<S>(s, false));
-            baseline_solutions_.push_back(solve_scene(baseline_scenes_.back(), quad));
+            if (sweep_.method == SweepMethod::full) {
+                baseline_solutions_.push_back(solve_scene(baseline_scenes_.back(), quad));
+                continue;
+            }
+            // The fixed part: the body and every object the sweep does not move.
+            // Without such objects it is the baseline itself, factored once for both.
+            s.objects = still;
+            fixed_.push_back(std::make_unique<FixedPart<S>>(
+                still.empty() ? baseline_scenes_.back() : build_scene<S>(s, true), quad));
+            stats_.assembly_seconds += fixed_.back()->assembly_seconds();
+            stats_.factor_seconds += fixed_.back()->factor_seconds();
+            stats_.factor_bytes = std::max(stats_.factor_bytes, fixed_.back()->factor_bytes());
+            baseline_solutions_.push_back(still.empty() ? fixed_.back()->solution()
+                                                        : solve_scene(baseline_scenes_.back(), quad));
         }
         sensors_ = sensor_layout(spec_, baseline_scenes_.front(), where_);
         for (std::size_t w = 0; w < waters_.size(); ++w)
@@ -162,6 +259,20 @@ private:
                                         "amplifier_current_noise"));
             }
         }
+    }
+
+    // Objects that stay where they are at every point: all but the swept one
+    // (or, with an object axis, all but its alternatives).
+    std::vector<ObjectSpec> static_objects() const {
+        std::vector<ObjectSpec> still;
+        const std::string swept = sweep_.objects.empty() ? spec_.objects[swept_object_index(spec_, sweep_)].name : "";
+        for (const ObjectSpec& o : spec_.objects) {
+            const bool moves = sweep_.objects.empty()
+                                   ? o.name == swept
+                                   : std::find(sweep_.objects.begin(), sweep_.objects.end(), o.name) != sweep_.objects.end();
+            if (!moves) still.push_back(o);
+        }
+        return still;
     }
 
     // A distance sweep moves the object along sweep.direction; one that points
@@ -218,6 +329,7 @@ private:
                                      spec_.path);
                 const auto status = root.read<std::uint8_t>("sweep/status");
                 status_ = status.values;
+                path_ = root.read<std::uint8_t>("sweep/path").values;
             } catch (...) {
                 output_->suspend();  // not ours to delete: the partial file keeps its finished points
                 throw;
@@ -232,9 +344,11 @@ private:
                                        "or --force to start over");
         output_.emplace(options_.output_path, options_.force, hint);
         H5Group root = output_->root();
-        write_result_metadata(root, spec_, options_.command_line,
-                              "full boundary-element solve at every point (no approximation beyond the discretization)",
+        write_result_metadata(root, spec_, options_.command_line, method_description(sweep_.method),
                               quadrature_options(spec_));
+        root.set_attribute("sweep_method", std::string(method_name(sweep_.method)));
+        if (sweep_.method != SweepMethod::full) root.set_attribute("coupling_tolerance", sweep_.coupling_tolerance);
+        if (sweep_.method == SweepMethod::automatic) root.set_attribute("dipole_accuracy", sweep_.dipole_accuracy);
         if (!sensors_.probes) {
             const Surface<S>& body = baseline_scenes_.front().surfaces.front();
             const std::string body_name = surface_group_name(body.mesh.name);
@@ -294,8 +408,13 @@ private:
         attach(sweep.create_extendible<std::uint8_t>("status", with(shape_), "1",
                                                      "0 not computed, 1 computed, 2 masked (object would touch the body, "
                                                      "another object or the plane)", chunked), false);
+        // One chunk per point: a point's values are written (and compressed) once,
+        // never by reading back and recompressing a chunk shared with other points.
+        H5Shape one_point(shape_.size(), 1);
+        one_point.push_back(hsize_t(sensors_.size()));
         attach(sweep.create_extendible<S>("perturbation", with(shape_, {hsize_t(sensors_.size())}), sensors_.units,
-                                          "change of the " + kind + " caused by the object", chunked), true);
+                                          "change of the " + kind + " caused by the object",
+                                          H5Layout::compressed(4, one_point)), true);
         attach(sweep.create_extendible<double>("peak_perturbation", with(shape_), sensors_.units,
                                                "largest magnitude of the change over the sensors", chunked), false);
         attach(sweep.create_extendible<std::int32_t>("peak_sensor", with(shape_), "1",
@@ -317,7 +436,12 @@ private:
             pd.set_attribute("false_alarm_probability", spec_.detection->false_alarm_probability);
             attach(pd, false);
         }
+        attach(sweep.create_extendible<std::uint8_t>("path", with(shape_), "1",
+                                                     "path that computed the point: 0 none (masked or not computed), 1 exact "
+                                                     "(factored body, coupled object), 2 induced dipole, 3 full re-solve",
+                                                     chunked), false);
         status_.assign(total_, kNotComputed);
+        path_.assign(total_, kNoPath);
         output_->file().flush();
     }
 
@@ -329,13 +453,23 @@ private:
         std::vector<S> change;
         ImageSummary image;
         double snr = 0, pd = 0;
+        std::uint8_t path = kNoPath;
     };
 
-    // ---- stage: every point not yet computed. Points are independent: they run
-    // in parallel, one point per thread (the solves inside run single-threaded,
-    // as OpenMP does not nest by default), and each result is written under a
-    // lock. Every point's arithmetic is the same whatever the thread count, so
-    // the results do not depend on it.
+    // A point left for the induced-dipole path, with what that path needs.
+    struct DipoleRequest {
+        std::size_t point = 0;
+        std::size_t water = 0;
+        Vec3 centre = Vec3::Zero();
+        Matrix3<S> tensor;
+    };
+
+    // ---- stage: every point not yet computed. Points are independent: exact
+    // and full points run in parallel, one point per thread (the solves inside
+    // run single-threaded, as OpenMP does not nest by default); dipole points
+    // then run in fixed blocks of kDipoleBatch, one block per thread. Each result
+    // is written under a lock. Every point's arithmetic is the same whatever the
+    // thread count, so the results do not depend on it (bit for bit).
     void compute_points() {
         Progress progress(total_, finished_, options_.quiet);
         const QuadratureOptions quad = quadrature_options(spec_);
@@ -343,18 +477,53 @@ private:
         std::vector<std::size_t> pending;
         for (std::size_t p = 0; p < total_; ++p)
             if (status_[p] == kNotComputed) pending.push_back(p);
+        std::vector<std::optional<DipoleRequest>> requests(pending.size());
+        const auto t0 = Clock::now();
+        run_parallel(pending.size(), [&](std::size_t i) {
+            PointResult r = compute_point(pending[i], quad, requests[i]);
+            if (requests[i]) return;  // answered below, with the other dipole points
+#pragma omp critical(murk_sweep_output)
+            {
+                store_point(sweep, pending[i], r);
+                progress.point_done();
+            }
+        });
+        stats_.point_seconds += std::chrono::duration<double>(Clock::now() - t0).count();
+
+        // Dipole points, grouped by water (each has its own fixed part), in blocks.
+        std::vector<std::vector<DipoleRequest>> batches;
+        for (std::size_t w = 0; w < waters_.size(); ++w) {
+            std::vector<DipoleRequest> batch;
+            for (const auto& q : requests)
+                if (q && q->water == w) {
+                    batch.push_back(*q);
+                    if (batch.size() == kDipoleBatch) batches.push_back(std::move(batch)), batch.clear();
+                }
+            if (!batch.empty()) batches.push_back(std::move(batch));
+        }
+        const auto t1 = Clock::now();
+        run_parallel(batches.size(), [&](std::size_t b) {
+            std::vector<PointResult> results = compute_dipole_batch(batches[b], quad);
+#pragma omp critical(murk_sweep_output)
+            for (std::size_t k = 0; k < results.size(); ++k) {
+                store_point(sweep, batches[b][k].point, results[k]);
+                progress.point_done();
+            }
+        });
+        stats_.dipole_seconds += std::chrono::duration<double>(Clock::now() - t1).count();
+    }
+
+    // body(i) for i < count on all threads; stops early on a stop request; the
+    // first exception is rethrown here.
+    template <class Body>
+    void run_parallel(std::size_t count, Body body) {
         std::exception_ptr failure;
         std::atomic<bool> failed{false};
 #pragma omp parallel for schedule(dynamic, 1)
-        for (std::ptrdiff_t i = 0; i < std::ptrdiff_t(pending.size()); ++i) {
+        for (std::ptrdiff_t i = 0; i < std::ptrdiff_t(count); ++i) {
             if (g_stop_requested || failed) continue;
             try {
-                const PointResult r = compute_point(pending[i], quad);
-#pragma omp critical(murk_sweep_output)
-                {
-                    store_point(sweep, pending[i], r);
-                    progress.point_done();
-                }
+                body(static_cast<std::size_t>(i));
             } catch (...) {
 #pragma omp critical(murk_sweep_failure)
                 if (!failure) failure = std::current_exception();
@@ -364,7 +533,60 @@ private:
         if (failure) std::rethrow_exception(failure);
     }
 
-    PointResult compute_point(std::size_t p, const QuadratureOptions& quad) const {
+    // Index of the swept object's surface in a point's scene.
+    static std::size_t moving_surface(const Scene<S>& scene, const CaseSpec& point_spec) {
+        const std::string& name = point_spec.objects[swept_object_index(point_spec, *point_spec.sweep)].name;
+        for (std::size_t s = 0; s < scene.surfaces.size(); ++s)
+            if (scene.surfaces[s].mesh.name == name) return s;
+        throw std::logic_error("sweep point: the swept object is not in its scene");
+    }
+
+    // Axis indices that change the object itself or the water, not where the
+    // object is: points that share them share the object's own block and its
+    // polarization tensor. With an insulating plane the object's block holds
+    // its images, which move with it: then every point has its own.
+    std::vector<std::size_t> object_key(const std::vector<std::size_t>& index, bool position_too) const {
+        std::vector<std::size_t> key;
+        for (std::size_t a = 0; a < axes_.size(); ++a) {
+            const AxisKind k = axes_[a].kind;
+            const bool position = k == AxisKind::distance || k == AxisKind::grid_u || k == AxisKind::grid_v;
+            key.push_back(position && !position_too ? 0 : index[a]);
+        }
+        return key;
+    }
+
+    // The swept object of a point alone in unbounded water, centred on the
+    // origin, meshed as in the point's own scene.
+    static Scene<S> object_alone(const CaseSpec& point_spec) {
+        CaseSpec alone = point_spec;
+        alone.fish.reset(), alone.robot.reset(), alone.water.plane.reset();
+        alone.sources.clear(), alone.probes.clear(), alone.probe_points.clear();
+        ObjectSpec object = point_spec.objects[swept_object_index(point_spec, *point_spec.sweep)];
+        object.panel_size_m = object_panel_size(point_spec, object);
+        object.position_m = {0.0, 0.0, 0.0};
+        alone.objects = {object};
+        return build_scene<S>(alone, true);
+    }
+
+    std::shared_ptr<const MovingBlock<S>> moving_block(const std::vector<std::size_t>& index, const CaseSpec& point_spec,
+                                                       const Scene<S>& scene, std::size_t moving,
+                                                       const QuadratureOptions& quad) {
+        if (scene.plane) return std::make_shared<const MovingBlock<S>>(factor_moving_block(scene, {moving}, quad));
+        const std::vector<std::size_t> key = object_key(index, false);
+        {
+            std::lock_guard<std::mutex> lock(cache_mutex_);
+            const auto it = blocks_.find(key);
+            if (it != blocks_.end()) return it->second;
+        }
+        // Factored from the object alone at the origin, not at the point that
+        // asks first: the same block whichever point (and thread) that is.
+        auto block = std::make_shared<const MovingBlock<S>>(factor_moving_block(object_alone(point_spec), {0}, quad));
+        std::lock_guard<std::mutex> lock(cache_mutex_);
+        return blocks_.emplace(key, block).first->second;
+    }
+
+    PointResult compute_point(std::size_t p, const QuadratureOptions& quad, std::optional<DipoleRequest>& dipole,
+                              std::optional<SweepMethod> force = std::nullopt) {
         PointResult r;
         r.index = unflatten(p, axes_);
         const int water_axis = find_axis(axes_, AxisKind::water_conductivity);
@@ -384,15 +606,180 @@ private:
         r.masked = setup.masked;
         if (r.masked) return r;
         r.centre = setup.object_centre;
-        const Solution<S> solution = solve_scene(*scene, quad);
-        r.change = sensor_readings(sensors_, *scene, solution, quad);
+        const SweepMethod method = force.value_or(sweep_.method);
+        const std::size_t moving = method == SweepMethod::full ? 0 : moving_surface(*scene, setup.spec);
+        if (method == SweepMethod::dipole || (method == SweepMethod::automatic && dipole_fits(*scene, moving, w))) {
+            dipole = DipoleRequest{p, w, r.centre, polarization(r.index, setup.spec, *scene, moving, quad)};
+            return r;
+        }
+        Solution<S> solution;
+        if (method == SweepMethod::full) {
+            solution = solve_scene(*scene, quad);
+            r.path = kFullPath;
+        } else {
+            const auto block = moving_block(r.index, setup.spec, *scene, moving, quad);
+            CoupledSolution<S> coupled = solve_coupled(*scene, {moving}, *fixed_[w], *block, quad,
+                                                       CouplingOptions{sweep_.coupling_tolerance, 80});
+            if (coupled.gmres.converged) {
+                solution = std::move(coupled.solution);
+                r.path = kExactPath;
+            } else {  // an object almost touching the body: fall back on the full solve
+                solution = solve_scene(*scene, quad);
+                r.path = kFullPath;
+                ++stats_.fallbacks;
+            }
+        }
+        finish_point(r, sensor_readings(sensors_, *scene, solution, quad), w);
+        return r;
+    }
+
+    void finish_point(PointResult& r, std::vector<S> reading, std::size_t w) const {
+        r.change = std::move(reading);
         for (std::size_t k = 0; k < r.change.size(); ++k) r.change[k] -= baseline_readings_[w][k];
         r.image = summarize_image(sensors_, r.change);
         if (spec_.detection) {
             r.snr = detectability_index(noise_, r.change, receptors_);
             r.pd = detection_probability(r.snr, spec_.detection->false_alarm_probability);
         }
-        return r;
+    }
+
+    // The automatic switch: the object's half-extent against the distance from
+    // its centre to the nearest fixed surface, water source or probe point.
+    bool dipole_fits(const Scene<S>& scene, std::size_t moving, std::size_t w) const {
+        const TriangleMesh& object = scene.surfaces[moving].mesh;
+        Vec3 centre = Vec3::Zero();
+        for (const Vec3& v : object.vertices) centre += v;
+        centre /= double(object.vertices.size());
+        double half_extent = 0;
+        for (const Vec3& v : object.vertices) half_extent = std::max(half_extent, (v - centre).norm());
+        double distance = INFINITY;
+        for (const auto& surface : fixed_[w]->scene().surfaces)
+            for (std::size_t t = 0; t < surface.mesh.size(); ++t)
+                distance = std::min(distance, point_triangle_distance(centre, surface.mesh.corner(t, 0),
+                                                                      surface.mesh.corner(t, 1), surface.mesh.corner(t, 2)));
+        for (const auto& src : fixed_[w]->scene().sources) distance = std::min(distance, (src.position - centre).norm());
+        if (sensors_.probes)
+            for (const Vec3& x : sensors_.position) distance = std::min(distance, (x - centre).norm());
+        return half_extent <= sweep_.dipole_accuracy / kDipoleErrorPerRatio * distance;
+    }
+
+    // Polarization tensor of the object at this point: closed form for a plain
+    // sphere, spheroid or ellipsoid, boundary elements once per key otherwise.
+    Matrix3<S> polarization(const std::vector<std::size_t>& index, const CaseSpec& point_spec, const Scene<S>& scene,
+                            std::size_t moving, const QuadratureOptions& quad) {
+        const std::vector<std::size_t> key = object_key(index, false);
+        {
+            std::lock_guard<std::mutex> lock(cache_mutex_);
+            const auto it = tensors_.find(key);
+            if (it != tensors_.end()) return it->second;
+        }
+        const std::optional<Matrix3<S>> closed = closed_form_polarization(point_spec, scene, moving);
+        // Computed from the object alone at the origin, like its block: the same
+        // tensor whichever point asks first.
+        const Matrix3<S> m = closed ? *closed : computed_polarization(object_alone(point_spec), 0, quad);
+        std::lock_guard<std::mutex> lock(cache_mutex_);
+        return tensors_.emplace(key, m).first->second;
+    }
+
+    // The exact tensor of a homogeneous sphere, spheroid or ellipsoid (no
+    // membrane), with the conductivities the scene builder gave its surface.
+    static std::optional<Matrix3<S>> closed_form_polarization(const CaseSpec& point_spec, const Scene<S>& scene,
+                                                             std::size_t moving) {
+        const ObjectSpec& o = point_spec.objects[swept_object_index(point_spec, *point_spec.sweep)];
+        const ShapeSpec& shape = o.shape;
+        if (o.membrane || (shape.kind != ShapeKind::sphere && shape.kind != ShapeKind::spheroid &&
+                           shape.kind != ShapeKind::ellipsoid))
+            return std::nullopt;
+        const Eigen::Vector3d semi = shape.kind == ShapeKind::sphere
+                                         ? Eigen::Vector3d::Constant(shape.radius_m)
+                                         : Eigen::Vector3d(shape.semi_axes_m[0], shape.semi_axes_m[1], shape.semi_axes_m[2]);
+        const Eigen::Matrix3d axes = orientation_matrix(o.orientation);
+        const Surface<S>& surface = scene.surfaces[moving];
+        switch (o.material) {
+            case Material::conductor: return Matrix3<S>(conducting_ellipsoid_polarization(semi, axes).cast<S>());
+            case Material::insulator: return ellipsoid_polarization<S>(semi, axes, S(0), scene.water_conductivity);
+            case Material::conducting:
+                return ellipsoid_polarization<S>(semi, axes, surface.inner_conductivity, scene.water_conductivity);
+        }
+        return std::nullopt;
+    }
+
+    // One block of dipole points (same water): the baseline field at every
+    // centre, the dipoles it induces, one blocked solve against the fixed part.
+    std::vector<PointResult> compute_dipole_batch(const std::vector<DipoleRequest>& batch, const QuadratureOptions& quad) const {
+        const FixedPart<S>& fixed = *fixed_[batch.front().water];
+        Eigen::Matrix3Xd centres(3, batch.size());
+        for (std::size_t k = 0; k < batch.size(); ++k) centres.col(k) = batch[k].centre;
+        const Eigen::Matrix<S, 3, Eigen::Dynamic> field = baseline_field(fixed, centres, quad);
+        std::vector<PointDipole<S>> dipoles;
+        for (std::size_t k = 0; k < batch.size(); ++k)
+            dipoles.push_back({batch[k].centre, batch[k].tensor * field.col(k)});
+        const MatrixX<S> x = unknowns_with_dipoles(fixed, dipoles);
+        std::vector<PointResult> results;
+        for (std::size_t k = 0; k < batch.size(); ++k) {
+            PointResult r;
+            r.index = unflatten(batch[k].point, axes_);
+            r.centre = batch[k].centre;
+            r.path = kDipolePath;
+            const Solution<S> solution = unpack_solution(fixed.scene(), fixed.layout(), VectorX<S>(x.col(k)));
+            std::vector<S> reading;
+            if (sensors_.probes) {  // the dipole's own potential reaches the probes directly
+                Scene<S> with_dipole = fixed.scene();
+                with_dipole.dipoles.push_back(dipoles[k]);
+                reading = sensor_readings(sensors_, with_dipole, solution, quad);
+            } else {
+                reading = sensor_readings(sensors_, fixed.scene(), solution, quad);
+            }
+            finish_point(r, std::move(reading), batch[k].water);
+            results.push_back(std::move(r));
+        }
+        return results;
+    }
+
+    // ---- stage: re-solve a sample of the dipole points by the exact path and
+    // write the measured discrepancy: max over sensors of |dipole - exact|
+    // divided by max over sensors of |exact|, per sampled point.
+    void check_dipole_points() {
+        if (sweep_.method != SweepMethod::dipole && sweep_.method != SweepMethod::automatic) return;
+        std::vector<std::size_t> dipole_points;
+        for (std::size_t p = 0; p < total_; ++p)
+            if (path_[p] == kDipolePath) dipole_points.push_back(p);
+        const std::size_t n = std::min<std::size_t>(dipole_points.size(), std::size_t(sweep_.check_points));
+        std::vector<std::size_t> sample;
+        for (std::size_t k = 0; k < n; ++k) sample.push_back(dipole_points[(2 * k + 1) * dipole_points.size() / (2 * n)]);
+        H5Group sweep = output_->root().open_group("sweep");
+        const std::size_t sensors = sensors_.size();
+        std::vector<double> discrepancy(sample.size());
+        const QuadratureOptions quad = quadrature_options(spec_);
+        run_parallel(sample.size(), [&](std::size_t k) {
+            std::optional<DipoleRequest> unused;
+            const PointResult exact = compute_point(sample[k], quad, unused, SweepMethod::exact);
+            std::vector<S> dipole(sensors);
+            const std::vector<std::size_t> index = unflatten(sample[k], axes_);
+            H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
+            offset.push_back(0), count.push_back(sensors);
+#pragma omp critical(murk_sweep_output)
+            dipole = sweep.dataset("perturbation").template read_slab<S>(offset, count);
+            double diff = 0, size = 0;
+            for (std::size_t i = 0; i < sensors; ++i)
+                diff = std::max(diff, std::abs(dipole[i] - exact.change[i])), size = std::max(size, std::abs(exact.change[i]));
+            discrepancy[k] = size > 0 ? diff / size : 0.0;
+        });
+        if (g_stop_requested) return;
+        H5Group check = sweep.group("path_check");
+        std::vector<std::int64_t> points(sample.begin(), sample.end());
+        check.write("point", points, "1", "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
+        H5Dataset d = check.write("discrepancy", discrepancy, "1",
+                                  "max over sensors |dipole - exact| / max over sensors |exact| at that point");
+        stats_.checked = sample.size();
+        stats_.max_discrepancy = discrepancy.empty() ? 0.0 : *std::max_element(discrepancy.begin(), discrepancy.end());
+        d.set_attribute("max_discrepancy", stats_.max_discrepancy);
+        if (sweep_.method == SweepMethod::automatic) d.set_attribute("accuracy_target", sweep_.dipole_accuracy);
+        if (sweep_.method == SweepMethod::automatic && stats_.max_discrepancy > sweep_.dipole_accuracy)
+            std::fprintf(stderr,
+                         "murk: warning: the dipole points re-solved exactly differ by up to %.3g, more than "
+                         "dipole_accuracy = %.3g; lower dipole_accuracy or use method = \"exact\"\n",
+                         stats_.max_discrepancy, sweep_.dipole_accuracy);
     }
 
     void store_point(H5Group& sweep, std::size_t p, const PointResult& r) {
@@ -418,6 +805,8 @@ private:
             }
             status_[p] = kComputed;
         }
+        path_[p] = r.path;
+        write(sweep, "path", offset, count, {}, std::vector<std::uint8_t>{r.path});
         // The status is written last and flushed: a point counts as done only
         // once all its values are on disk.
         write(sweep, "status", offset, count, {}, std::vector<std::uint8_t>{status_[p]});
@@ -434,6 +823,7 @@ private:
         write_sweep_analysis(root, axes_, spec_.detection);
         const std::vector<XdmfAttribute> surface_fields =
             sensors_.probes ? std::vector<XdmfAttribute>{} : write_surface_magnitudes(root);
+        root.set_attribute("peak_memory_MiB", peak_memory_MiB());
         output_->commit();
         if (sensors_.probes) {  // no surface to show
             if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), total_);
@@ -517,6 +907,14 @@ private:
     Vec3 reference_point_ = Vec3::Zero();
     std::optional<H5Output> output_;
     std::vector<std::uint8_t> status_;
+    std::vector<std::uint8_t> path_;
+    std::vector<std::unique_ptr<FixedPart<S>>> fixed_;  // per water conductivity; empty for method full
+    std::mutex cache_mutex_;
+    std::map<std::vector<std::size_t>, std::shared_ptr<const MovingBlock<S>>> blocks_;
+    std::map<std::vector<std::size_t>, Matrix3<S>> tensors_;
+
+public:
+    RunStats stats_;
 };
 
 }  // namespace
@@ -526,10 +924,15 @@ void install_stop_handlers() {
     std::signal(SIGTERM, request_stop);
 }
 
-RunOutcome run_sweep(const CaseSpec& spec, const RunOptions& options) {
+RunOutcome run_sweep(const CaseSpec& spec, const RunOptions& options, RunStats* stats) {
     if (!spec.sweep) throw InputError(spec.path + ": murk run needs a [sweep] section (murk solve runs one configuration)");
-    if (case_needs_complex(spec)) return SweepRun<Complex>(spec, options).run();
-    return SweepRun<double>(spec, options).run();
+    auto go = [&](auto&& run) {
+        const RunOutcome outcome = run.run();
+        if (stats) *stats = run.stats_;
+        return outcome;
+    };
+    if (case_needs_complex(spec)) return go(SweepRun<Complex>(spec, options));
+    return go(SweepRun<double>(spec, options));
 }
 
 }  // namespace murk

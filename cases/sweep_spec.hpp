@@ -22,6 +22,14 @@ struct SweepGridSpec {
 constexpr double kInsulatorConductivity = 0.0;
 constexpr double kConductorConductivity = std::numeric_limits<double>::infinity();
 
+// How the points of a sweep are solved (DESIGN.md §3, "Sweeps must not re-solve the world").
+enum class SweepMethod {
+    exact,      // factored body, object coupled by GMRES: no approximation beyond the discretization
+    dipole,     // every point by the induced-dipole path
+    automatic,  // dipole where the object is small against its distance, exact elsewhere
+    full,       // the whole system assembled and factored at every point (the reference)
+};
+
 struct SweepSpec {
     std::string object;                        // the object that moves or changes (default: the first)
     std::vector<std::string> objects;          // axis of alternative objects (shapes): at each point
@@ -34,6 +42,10 @@ struct SweepSpec {
                                                      // (default: away from the nearest body point)
     std::optional<SweepGridSpec> grid;         // axes grid_u, grid_v (not together with distance)
     bool electrode_pairs = false;              // robot: read differences of neighbouring sensors
+    SweepMethod method = SweepMethod::exact;
+    double dipole_accuracy = 0.02;             // automatic: target relative error of a dipole point
+    int check_points = 8;                      // dipole, automatic: dipole points re-solved exactly
+    double coupling_tolerance = 1e-10;         // exact: GMRES relative residual
     int line = 0;                              // line of [sweep] in the case file
 };
 

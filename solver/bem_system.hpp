@@ -72,6 +72,12 @@ struct SystemBlock {
 template <class S>
 SystemBlock<S> assemble_block(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
                               const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols);
+// The same into an existing block, whose storage is kept when the size is the
+// same (a sweep assembles blocks of one size at every point).
+template <class S>
+void assemble_block_into(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
+                         const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                         SystemBlock<S>& block);
 
 // Stage: solve (dense LU with partial pivoting), then unpack the panel values.
 template <class S>

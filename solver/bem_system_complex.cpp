@@ -7,6 +7,9 @@ template SystemLayout system_layout(const Scene<Complex>&);
 template std::vector<Eigen::Index> part_unknowns(const Scene<Complex>&, const SystemLayout&, const std::vector<std::size_t>&);
 template SystemBlock<Complex> assemble_block(const Scene<Complex>&, const SystemLayout&, const QuadratureOptions&,
                                         const std::vector<Eigen::Index>&, const std::vector<Eigen::Index>&);
+template void assemble_block_into(const Scene<Complex>&, const SystemLayout&, const QuadratureOptions&,
+                                  const std::vector<Eigen::Index>&, const std::vector<Eigen::Index>&,
+                                  SystemBlock<Complex>&);
 template VectorX<Complex> solve_dense(LinearSystem<Complex>&);
 template Solution<Complex> unpack_solution(const Scene<Complex>&, const SystemLayout&, const VectorX<Complex>&);
 template Solution<Complex> solve_scene(const Scene<Complex>&, const QuadratureOptions&);

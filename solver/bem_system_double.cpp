@@ -7,6 +7,9 @@ template SystemLayout system_layout(const Scene<double>&);
 template std::vector<Eigen::Index> part_unknowns(const Scene<double>&, const SystemLayout&, const std::vector<std::size_t>&);
 template SystemBlock<double> assemble_block(const Scene<double>&, const SystemLayout&, const QuadratureOptions&,
                                         const std::vector<Eigen::Index>&, const std::vector<Eigen::Index>&);
+template void assemble_block_into(const Scene<double>&, const SystemLayout&, const QuadratureOptions&,
+                                  const std::vector<Eigen::Index>&, const std::vector<Eigen::Index>&,
+                                  SystemBlock<double>&);
 template VectorX<double> solve_dense(LinearSystem<double>&);
 template Solution<double> unpack_solution(const Scene<double>&, const SystemLayout&, const VectorX<double>&);
 template Solution<double> solve_scene(const Scene<double>&, const QuadratureOptions&);

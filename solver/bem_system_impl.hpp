@@ -10,6 +10,7 @@
 #include "solver/triangle_integrals.hpp"
 
 #include <Eigen/LU>
+#include <array>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -191,7 +192,8 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
     check_scene(scene);
     const Eigen::Index n = layout.size;
     const std::vector<Eigen::Index> row_of = local_index(n, rows), col_of = local_index(n, cols);
-    matrix.setZero(rows ? Eigen::Index(rows->size()) : n, cols ? Eigen::Index(cols->size()) : n);
+    matrix.resize(rows ? Eigen::Index(rows->size()) : n, cols ? Eigen::Index(cols->size()) : n);  // keeps storage of equal size
+    matrix.setZero();
     rhs.setZero(matrix.rows());
     auto add = [&](Eigen::Index r, Eigen::Index c, S v) {
         const Eigen::Index i = row_of[r], j = col_of[c];
@@ -219,54 +221,83 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
     const std::vector<int> source_region = source_regions(scene);
     const IncidentField<S> incident = water_incident_field(scene, source_region);
 
-    Eigen::MatrixXd single, dbl, single_image, dbl_image;
+    // Blocks (sweep couplings, many per run) write their layer blocks into
+    // storage kept per thread that only grows: fresh allocations of this size
+    // cost more in page faults than filling them. The full system allocates.
+    thread_local std::vector<double> kept;
+    Eigen::MatrixXd own;
+    const int layers = scene.plane ? 4 : 2;  // single, double (and their images)
+    auto layer_buffers = [&](Eigen::Index m, Eigen::Index n) {
+        const std::size_t size = std::size_t(m) * std::size_t(n);
+        double* data;
+        if (rows) {
+            if (kept.size() < layers * size) kept.resize(layers * size);
+            data = kept.data();
+        } else {
+            own.resize(std::max<Eigen::Index>(1, layers * m), std::max<Eigen::Index>(1, n));
+            data = own.data();
+        }
+        using Block = Eigen::Map<Eigen::MatrixXd>;
+        const std::size_t image = layers == 4 ? 2 * size : 0;
+        return std::array<Block, 4>{Block(data, m, n), Block(data + size, m, n), Block(data + image, m, n),
+                                    Block(data + image + size, m, n)};
+    };
+    // Rows of a surface go in strips: the layer blocks of a strip are all its
+    // temporary storage (a few tens of MB), not a second copy of the system.
+    constexpr Eigen::Index kStrip = 512;
     for (std::size_t a = 0; a < scene.surfaces.size(); ++a) {
         const auto& block = layout.surfaces[a];
         const bool water_rows = any_selected(row_of, block.offset, block.panels);
         const bool inner_rows = block.two_sided && any_selected(row_of, block.offset + block.panels, block.panels);
         if (!water_rows && !inner_rows) continue;
         const Eigen::Matrix3Xd& x = panels[a].centroid;
-        const Eigen::Matrix3Xd x_image =
-            scene.plane ? mirror_points(*scene.plane, x) : Eigen::Matrix3Xd();
-        for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
-            if (!has_cols[b] || (!water_rows && a != b)) continue;
-            assemble_layer_blocks(x, panels[b], options, a == b, single, dbl);
-            const auto& col = columns[b];
+        for (Eigen::Index i0 = 0; i0 < block.panels; i0 += kStrip) {
+            const Eigen::Index strip = std::min(kStrip, block.panels - i0);
+            const Eigen::Matrix3Xd xs = x.middleCols(i0, strip);
+            const Eigen::Matrix3Xd xs_image = scene.plane ? mirror_points(*scene.plane, xs) : Eigen::Matrix3Xd();
+            for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
+                if (!has_cols[b] || (!water_rows && a != b)) continue;
+                auto buffers = layer_buffers(strip, panels[b].size());
+                auto &single = buffers[0], &dbl = buffers[1], &single_image = buffers[2], &dbl_image = buffers[3];
+                assemble_layer_blocks(xs, panels[b], options, a == b, i0, single, dbl);
+                const auto& col = columns[b];
 
-            // Interior equation of surface a (only its own panels bound its interior):
-            // 1/2 phi_in + K phi_in + (sigma_w / sigma_in) V q = interior sources.
-            if (a == b && inner_rows) {
-                const Surface<S>& surface = scene.surfaces[a];
-                const S q_factor = membrane_q_factor(scene, surface);
-                const S v_factor = sigma_w / surface.inner_conductivity;
-                const Eigen::Index r0 = block.offset + block.panels;
-                for (Eigen::Index k = 0; k < block.panels; ++k) {
-                    const Eigen::Index cu = col.phi[k], cq = col.q[k];
-                    for (Eigen::Index i = 0; i < block.panels; ++i) {
-                        const double kk = dbl(i, k) + (i == k ? 0.5 : 0.0);
-                        add(r0 + i, cu, kk);
-                        add(r0 + i, cq, kk * q_factor + v_factor * single(i, k));
+                // Interior equation of surface a (only its own panels bound its interior):
+                // 1/2 phi_in + K phi_in + (sigma_w / sigma_in) V q = interior sources.
+                if (a == b && inner_rows) {
+                    const Surface<S>& surface = scene.surfaces[a];
+                    const S q_factor = membrane_q_factor(scene, surface);
+                    const S v_factor = sigma_w / surface.inner_conductivity;
+                    const Eigen::Index r0 = block.offset + block.panels + i0;
+                    for (Eigen::Index k = 0; k < block.panels; ++k) {
+                        const Eigen::Index cu = col.phi[k], cq = col.q[k];
+                        for (Eigen::Index i = 0; i < strip; ++i) {
+                            const double kk = dbl(i, k) + (i + i0 == k ? 0.5 : 0.0);
+                            add(r0 + i, cu, kk);
+                            add(r0 + i, cq, kk * q_factor + v_factor * single(i, k));
+                        }
                     }
                 }
-            }
-            if (!water_rows) continue;
+                if (!water_rows) continue;
 
-            // Exterior (water) equation on surface a:
-            // 1/2 phi_w - sum_b Kw phi_w - sum_b Vw q = incident + water sources.
-            if (scene.plane) {
-                assemble_layer_blocks(x_image, panels[b], options, false, single_image, dbl_image);
-                single += single_image;
-                dbl += dbl_image;
-            }
-            for (Eigen::Index k = 0; k < layout.surfaces[b].panels; ++k) {
-                const Eigen::Index cphi = col.phi[k], cq = col.q[k];
-                for (Eigen::Index i = 0; i < block.panels; ++i) {
-                    add(block.offset + i, cphi, -dbl(i, k));
-                    if (cq >= 0) add(block.offset + i, cq, -single(i, k));
+                // Exterior (water) equation on surface a:
+                // 1/2 phi_w - sum_b Kw phi_w - sum_b Vw q = incident + water sources.
+                if (scene.plane) {
+                    assemble_layer_blocks(xs_image, panels[b], options, false, 0, single_image, dbl_image);
+                    single += single_image;
+                    dbl += dbl_image;
                 }
+                const Eigen::Index r0 = block.offset + i0;
+                for (Eigen::Index k = 0; k < layout.surfaces[b].panels; ++k) {
+                    const Eigen::Index cphi = col.phi[k], cq = col.q[k];
+                    for (Eigen::Index i = 0; i < strip; ++i) {
+                        add(r0 + i, cphi, -dbl(i, k));
+                        if (cq >= 0) add(r0 + i, cq, -single(i, k));
+                    }
+                }
+                if (a == b)
+                    for (Eigen::Index i = 0; i < strip; ++i) add(r0 + i, col.phi[i0 + i], 0.5);
             }
-            if (a == b)
-                for (Eigen::Index i = 0; i < block.panels; ++i) add(block.offset + i, col.phi[i], 0.5);
         }
 
         // Right-hand sides of surface a.
@@ -327,8 +358,15 @@ template <class S>
 SystemBlock<S> assemble_block(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
                               const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols) {
     SystemBlock<S> block;
-    detail::assemble_selection(scene, layout, options, &rows, &cols, block.matrix, block.rhs);
+    assemble_block_into(scene, layout, options, rows, cols, block);
     return block;
+}
+
+template <class S>
+void assemble_block_into(const Scene<S>& scene, const SystemLayout& layout, const QuadratureOptions& options,
+                         const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                         SystemBlock<S>& block) {
+    detail::assemble_selection(scene, layout, options, &rows, &cols, block.matrix, block.rhs);
 }
 
 template <class S>

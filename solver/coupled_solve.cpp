@@ -16,6 +16,24 @@ std::vector<Eigen::Index> complement(Eigen::Index size, const std::vector<Eigen:
     return out;
 }
 
+// The water rows among a part's unknowns: their global indices, and their
+// positions in the part's own (sorted) list.
+struct WaterRows {
+    std::vector<Eigen::Index> rows, at;
+};
+
+WaterRows water_rows_of(const SystemLayout& layout, const std::vector<Eigen::Index>& part) {
+    WaterRows w;
+    for (std::size_t i = 0; i < part.size(); ++i)
+        for (const auto& b : layout.surfaces)
+            if (part[i] >= b.offset && part[i] < b.offset + b.panels) {
+                w.rows.push_back(part[i]);
+                w.at.push_back(static_cast<Eigen::Index>(i));
+                break;
+            }
+    return w;
+}
+
 }  // namespace
 
 template <class S>
@@ -39,16 +57,38 @@ CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::s
     if (static_cast<Eigen::Index>(m.size()) != block.size || static_cast<Eigen::Index>(f.size()) != fixed.size())
         throw std::logic_error("solve_coupled: the scene does not match its fixed part and moving block");
 
-    const MatrixX<S> c_fm = assemble_block(scene, layout, options, f, m).matrix;
-    SystemBlock<S> moving_rows = assemble_block(scene, layout, options, m, f);
-    const MatrixX<S>& c_mf = moving_rows.matrix;
+    // Only the water rows of one part see the other part's panels (interior rows
+    // see their own surface, electrode rows their own panels), so the coupling
+    // blocks keep just those rows: half the memory of the full-height blocks.
+    const WaterRows fw = water_rows_of(layout, f), mw = water_rows_of(layout, m);
+    // Kept per thread: every point of a sweep has blocks of the same size, and
+    // reusing their storage saves the page faults of fresh allocations.
+    thread_local SystemBlock<S> fm, mf;
+    assemble_block_into(scene, layout, options, fw.rows, m, fm);
+    assemble_block_into(scene, layout, options, mw.rows, f, mf);
+    const MatrixX<S>& c_fm = fm.matrix;
+    const MatrixX<S>& c_mf = mf.matrix;
+    const VectorX<S> b_m = assemble_block(scene, layout, options, m, {}).rhs;
     const VectorX<S>& x0 = fixed.unknowns();
 
-    const VectorX<S> rhs = f.empty() ? moving_rows.rhs : VectorX<S>(moving_rows.rhs - c_mf * x0);
+    // The fixed part's answer to the moving unknowns w: A_FF^-1 C_FM w.
+    auto fixed_response = [&](const VectorX<S>& w) -> VectorX<S> {
+        VectorX<S> u = VectorX<S>::Zero(fixed.size());
+        const VectorX<S> c = c_fm * w;
+        for (std::size_t i = 0; i < fw.at.size(); ++i) u(fw.at[i]) = c(static_cast<Eigen::Index>(i));
+        return fixed.solve(u);
+    };
+    // v - C_MF t, with C_MF acting on the moving water rows only.
+    auto minus_coupling = [&](VectorX<S> v, const VectorX<S>& t) -> VectorX<S> {
+        const VectorX<S> c = c_mf * t;
+        for (std::size_t i = 0; i < mw.at.size(); ++i) v(mw.at[i]) -= c(static_cast<Eigen::Index>(i));
+        return v;
+    };
+
+    const VectorX<S> rhs = f.empty() ? b_m : minus_coupling(b_m, x0);
     auto apply = [&](const VectorX<S>& v) -> VectorX<S> {
         if (f.empty()) return v;
-        const VectorX<S> w = block.lu.solve(v);
-        return v - c_mf * fixed.solve(VectorX<S>(c_fm * w));
+        return minus_coupling(v, fixed_response(block.lu.solve(v)));
     };
     CoupledSolution<S> out;
     VectorX<S> z;
@@ -58,7 +98,7 @@ CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::s
     VectorX<S> x(layout.size);
     for (std::size_t i = 0; i < m.size(); ++i) x(m[i]) = x_m(static_cast<Eigen::Index>(i));
     if (!f.empty()) {
-        const VectorX<S> x_f = x0 - fixed.solve(VectorX<S>(c_fm * x_m));
+        const VectorX<S> x_f = x0 - fixed_response(x_m);
         for (std::size_t i = 0; i < f.size(); ++i) x(f[i]) = x_f(static_cast<Eigen::Index>(i));
     }
     out.solution = unpack_solution(scene, layout, x);

@@ -3,6 +3,7 @@
 #include "solver/triangle_integrals.hpp"
 #include "solver/triangle_rules.hpp"
 
+#include <cassert>
 #include <cmath>
 
 namespace murk {
@@ -14,8 +15,8 @@ constexpr double kInvFourPi = 1.0 / (4.0 * M_PI);
 // centroid rule to all targets (branch-free, so it vectorizes); the second loop
 // revisits only the targets close enough to need a better rule.
 void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::Index k,
-                 const QuadratureOptions& options, bool targets_are_centroids, double* single,
-                 double* dbl) {
+                 const QuadratureOptions& options, bool targets_are_centroids, Eigen::Index first_target,
+                 double* single, double* dbl) {
     const Eigen::Index m = targets.cols();
     const double cx = src.centroid(0, k), cy = src.centroid(1, k), cz = src.centroid(2, k);
     const double nx = src.normal(0, k), ny = src.normal(1, k), nz = src.normal(2, k);
@@ -36,7 +37,7 @@ void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::In
         const Vec3 x = targets.col(i);
         const double d2 = (x - src.centroid.col(k)).squaredNorm();
         if (d2 >= far2) continue;
-        if (targets_are_centroids && i == k) {
+        if (targets_are_centroids && i + first_target == k) {
             single[i] = single_layer_triangle(x, p0, p1, p2);
             dbl[i] = 0.0;  // principal value at a flat panel's own centroid
         } else if (d2 < near2) {
@@ -54,12 +55,20 @@ void fill_column(const Eigen::Matrix3Xd& targets, const PanelSet& src, Eigen::In
 void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
                            const QuadratureOptions& options, bool targets_are_centroids,
                            Eigen::MatrixXd& single, Eigen::MatrixXd& dbl) {
+    single.resize(targets.cols(), sources.size());
+    dbl.resize(targets.cols(), sources.size());
+    assemble_layer_blocks(targets, sources, options, targets_are_centroids, 0, Eigen::Ref<Eigen::MatrixXd>(single),
+                          Eigen::Ref<Eigen::MatrixXd>(dbl));
+}
+
+void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
+                           const QuadratureOptions& options, bool targets_are_centroids, Eigen::Index first_target,
+                           Eigen::Ref<Eigen::MatrixXd> single, Eigen::Ref<Eigen::MatrixXd> dbl) {
     const Eigen::Index m = targets.cols(), n = sources.size();
-    single.resize(m, n);
-    dbl.resize(m, n);
+    assert(single.rows() == m && single.cols() == n && dbl.rows() == m && dbl.cols() == n);
 #pragma omp parallel for schedule(dynamic, 16)
     for (Eigen::Index k = 0; k < n; ++k)
-        fill_column(targets, sources, k, options, targets_are_centroids, single.col(k).data(),
+        fill_column(targets, sources, k, options, targets_are_centroids, first_target, single.col(k).data(),
                     dbl.col(k).data());
 
     // Gauss's law: seen from a point of a smooth closed surface, the surface
@@ -71,7 +80,10 @@ void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sour
     // at rounding level.
     if (targets_are_centroids) {
         const Eigen::VectorXd row_sum = dbl.rowwise().sum();
-        for (Eigen::Index i = 0; i < m; ++i) dbl(i, i) = -0.5 - (row_sum(i) - dbl(i, i));
+        for (Eigen::Index i = 0; i < m; ++i) {
+            const Eigen::Index k = i + first_target;
+            dbl(i, k) = -0.5 - (row_sum(i) - dbl(i, k));
+        }
     }
 }
 

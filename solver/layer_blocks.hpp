@@ -23,4 +23,12 @@ void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sour
                            const QuadratureOptions& options, bool targets_are_centroids,
                            Eigen::MatrixXd& single, Eigen::MatrixXd& dbl);
 
+// The same into storage the caller owns (targets x sources each), so that a
+// caller assembling many blocks can keep one buffer instead of allocating, and
+// for a strip of the targets: with targets_are_centroids, target i is then the
+// centroid of source panel i + first_target (a strip of rows of the self block).
+void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
+                           const QuadratureOptions& options, bool targets_are_centroids, Eigen::Index first_target,
+                           Eigen::Ref<Eigen::MatrixXd> single, Eigen::Ref<Eigen::MatrixXd> dbl);
+
 }  // namespace murk

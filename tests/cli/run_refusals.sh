@@ -24,4 +24,16 @@ expect_bad "leftover partial file" "--resume" "$murk" run "$base" -o "$dir/b.h5"
 [ -e "$dir/b.h5.partial" ] || { echo "FAIL the leftover partial file was removed"; failures=$((failures + 1)); }
 sed -e 's/^probability_level = 0.5/probability_level = 0.5\nintegration_time = "1 s"/' "$base" > "$dir/mixed.toml"
 expect_bad "keys of another noise model" "integration_time" "$murk" run "$dir/mixed.toml" -o "$dir/c.h5" --quiet
+
+# The sweep method keys: a method murk does not have; settings that belong to another method.
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "fast"/' "$base" > "$dir/method.toml"
+expect_bad "unknown sweep method" "sweep.method" "$murk" run "$dir/method.toml" -o "$dir/d.h5" --quiet
+sed -e 's/^\[sweep\]/[sweep]\ndipole_accuracy = 0.05/' "$base" > "$dir/accuracy.toml"
+expect_bad "dipole accuracy without auto" "sweep.dipole_accuracy" "$murk" run "$dir/accuracy.toml" -o "$dir/e.h5" --quiet
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ndipole_accuracy = 2/' "$base" > "$dir/accuracy2.toml"
+expect_bad "dipole accuracy above 0.5" "sweep.dipole_accuracy" "$murk" run "$dir/accuracy2.toml" -o "$dir/f.h5" --quiet
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "dipole"\ncheck_points = -1/' "$base" > "$dir/checks.toml"
+expect_bad "negative check points" "sweep.check_points" "$murk" run "$dir/checks.toml" -o "$dir/g.h5" --quiet
+sed -e 's/^\[sweep\]/[sweep]\ncoupling_tolerance = 0.1/' "$base" > "$dir/tolerance.toml"
+expect_bad "loose coupling tolerance" "sweep.coupling_tolerance" "$murk" run "$dir/tolerance.toml" -o "$dir/h.h5" --quiet
 [ "$failures" -eq 0 ]
