@@ -32,12 +32,33 @@ MatrixX<S> unknowns_with_dipoles(const FixedPart<S>& fixed, const std::vector<Po
 template <class S>
 VectorX<S> dipole_rhs(const FixedPart<S>& fixed, const PointDipole<S>& dipole);
 
+// Lead fields by reciprocity, for readings that are linear in the unknowns
+// (r = R x, R = `readout`, one row per sensor): L = R A_FF^-1, found by one
+// transposed solve per sensor. The change of the readings caused by a dipole is
+// then L b(dipole), which needs the dipole's potential at the water rows and one
+// dot product per sensor instead of a solve: cheaper per point when the
+// sensors are few (a robot's electrodes), not for a fish's thousands of skin panels.
+template <class S>
+class LeadFields {
+public:
+    LeadFields(const FixedPart<S>& fixed, const MatrixX<S>& readout);
+    // Change of every reading caused by each dipole (sensors x dipoles).
+    MatrixX<S> readings_change(const std::vector<PointDipole<S>>& dipoles) const;
+    Eigen::Index sensors() const { return water_.rows(); }
+
+private:
+    const FixedPart<S>* fixed_;
+    MatrixX<S> water_;  // L restricted to the water rows (sensors x water rows), the only rows b has
+};
+
 extern template Eigen::Matrix<double, 3, Eigen::Dynamic> baseline_field(const FixedPart<double>&,
                                                                        const Eigen::Matrix3Xd&,
                                                                        const QuadratureOptions&);
 extern template Eigen::Matrix<Complex, 3, Eigen::Dynamic> baseline_field(const FixedPart<Complex>&,
                                                                         const Eigen::Matrix3Xd&,
                                                                         const QuadratureOptions&);
+extern template class LeadFields<double>;
+extern template class LeadFields<Complex>;
 extern template MatrixX<double> unknowns_with_dipoles(const FixedPart<double>&,
                                                       const std::vector<PointDipole<double>>&);
 extern template MatrixX<Complex> unknowns_with_dipoles(const FixedPart<Complex>&,

@@ -49,6 +49,12 @@ MatrixX<S> FixedPart<S>::solve(const MatrixX<S>& b) const {
 }
 
 template <class S>
+MatrixX<S> FixedPart<S>::solve_transposed(const MatrixX<S>& b) const {
+    if (size() == 0) return MatrixX<S>(0, b.cols());
+    return lu_->transpose().solve(b);
+}
+
+template <class S>
 std::size_t FixedPart<S>::factor_bytes() const {
     return static_cast<std::size_t>(size()) * static_cast<std::size_t>(size()) * sizeof(S);
 }

@@ -35,9 +35,10 @@ public:
     // Global row of each column of water_row_points().
     const std::vector<Eigen::Index>& water_rows() const { return water_rows_; }
 
-    // A^-1 b for one or many right-hand sides.
+    // A^-1 b for one or many right-hand sides, and A^-T b (for lead fields).
     VectorX<S> solve(const VectorX<S>& b) const;
     MatrixX<S> solve(const MatrixX<S>& b) const;
+    MatrixX<S> solve_transposed(const MatrixX<S>& b) const;
 
     // Bytes held by the factors (the dense LU dominates).
     std::size_t factor_bytes() const;

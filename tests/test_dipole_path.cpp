@@ -108,3 +108,47 @@ TEST_CASE("the dipole path approaches the exact path as a small sphere moves awa
         previous = error;
     }
 }
+
+TEST_CASE("lead fields by reciprocity give the readings of the blocked solve") {
+    // A box hull with a current-driven emitter, a grounded return, a floating
+    // sensor and a sensor held at 0 V whose current is read.
+    Scene<double> robot;
+    robot.water_conductivity = 0.05;
+    Surface<double> hull;
+    hull.mesh = make_box(Vec3(0.2, 0.05, 0.05), 0.012);
+    hull.kind = InterfaceKind::sealed;
+    hull.panel_electrode.assign(hull.mesh.size(), -1);
+    for (std::size_t t = 0; t < hull.mesh.size(); ++t) {
+        const Vec3 c = hull.mesh.centroid(t);
+        if (c.x() > 0.08) hull.panel_electrode[t] = 0;
+        else if (c.x() < -0.08) hull.panel_electrode[t] = 1;
+        else if (std::abs(c.x()) < 0.015 && c.y() > 0.02) hull.panel_electrode[t] = 2;
+        else if (std::abs(c.x() - 0.04) < 0.015 && c.y() > 0.02) hull.panel_electrode[t] = 3;
+    }
+    robot.surfaces.push_back(hull);
+    robot.electrodes = {{"emitter", ElectrodeDrive::current, 1e-3},
+                        {"return", ElectrodeDrive::voltage, 0.0},
+                        {"sensor", ElectrodeDrive::floating, 0.0},
+                        {"held", ElectrodeDrive::fixed_potential, 0.0}};
+    robot.plane = InsulatingPlane{Vec3(0, 0, 0.1), Vec3::UnitZ()};
+    const FixedPart<double> fixed(robot, kQuad);
+    // Readout: the floating sensor's potential, the held sensor's current.
+    Eigen::MatrixXd readout = Eigen::MatrixXd::Zero(2, fixed.size());
+    readout(0, fixed.layout().electrode_offset + 2) = 1.0;
+    for (std::size_t t = 0; t < hull.mesh.size(); ++t)
+        if (hull.panel_electrode[t] == 3) readout(1, Eigen::Index(t)) = robot.water_conductivity * hull.mesh.area(t);
+    const LeadFields<double> lead(fixed, readout);
+    std::vector<PointDipole<double>> dipoles = {{Vec3(0.0, 0.08, 0.0), Vec3(1e-7, 2e-7, -1e-7)},
+                                                {Vec3(0.05, -0.06, 0.04), Vec3(0.0, -3e-7, 0.0)}};
+    const Eigen::MatrixXd change = lead.readings_change(dipoles);
+    const Eigen::MatrixXd x = unknowns_with_dipoles<double>(fixed, dipoles);
+    for (int j = 0; j < 2; ++j) {
+        const Solution<double> s = unpack_solution(fixed.scene(), fixed.layout(), Eigen::VectorXd(x.col(j)));
+        const double dv = s.electrode_potential[2] - fixed.solution().electrode_potential[2];
+        const double di = s.electrode_current[3] - fixed.solution().electrode_current[3];
+        CHECK(std::abs(dv) > 0);
+        CHECK(std::abs(di) > 0);
+        CHECK(change(0, j) == doctest::Approx(dv).epsilon(1e-9));
+        CHECK(change(1, j) == doctest::Approx(di).epsilon(1e-9));
+    }
+}
