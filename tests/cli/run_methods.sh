@@ -18,6 +18,9 @@ done
 grep -q "peak memory" "$dir/exact.log" || { echo "FAIL: no peak memory line"; cat "$dir/exact.log"; exit 1; }
 grep -q "body system: assembly" "$dir/exact.log" || { echo "FAIL: no body stage times"; exit 1; }
 grep -q "dipole points re-solved exactly" "$dir/dipole.log" || { echo "FAIL: no check summary"; exit 1; }
+"$murk" inspect "$dir/auto.h5" > "$dir/inspect.txt"
+grep -q "^paths: .* exact, .* induced dipole" "$dir/inspect.txt" || { echo "FAIL: inspect shows no paths"; cat "$dir/inspect.txt"; exit 1; }
+grep -q "^dipole check: .*(target 0.02)" "$dir/inspect.txt" || { echo "FAIL: inspect shows no dipole check"; exit 1; }
 /usr/bin/python3 - "$dir" <<'PY'
 import sys
 import h5py

@@ -341,6 +341,23 @@ void print_points(const std::vector<std::uint8_t>& status) {
                 count[1], count[2], count[0]);
 }
 
+// Which path computed the points (/sweep/path), and the exact re-solves of
+// dipole points (/sweep/path_check), when the file has them.
+void print_paths(const H5Group& sweep) {
+    if (!sweep.exists("path")) return;
+    std::size_t count[4] = {0, 0, 0, 0};
+    for (std::uint8_t p : sweep.read<std::uint8_t>("path").values)
+        if (p < 4) ++count[p];
+    std::printf("paths:            %zu exact, %zu induced dipole, %zu full re-solve\n", count[1], count[2], count[3]);
+    if (!sweep.exists("path_check/discrepancy")) return;
+    const H5Dataset d = sweep.dataset("path_check/discrepancy");
+    const std::size_t n = d.shape().empty() ? 0 : d.shape()[0];
+    std::printf("dipole check:     %zu dipole points re-solved exactly, largest discrepancy %.3g", n,
+                n ? d.double_attribute("max_discrepancy") : 0.0);
+    if (d.has_attribute("accuracy_target")) std::printf(" (target %.3g)", d.double_attribute("accuracy_target"));
+    std::printf("\n");
+}
+
 void print_sensors(const H5Group& root, const H5Group& sweep) {
     const H5Dataset sensor = sweep.dataset("sensor");
     const std::size_t n = sensor.shape().empty() ? 1 : sensor.shape()[0];
@@ -538,6 +555,7 @@ void print_run(const H5Group& root) {
     const std::vector<std::uint8_t> status = read_status(status_ds);
     print_axes(axes);
     print_points(status);
+    print_paths(sweep);
     print_sensors(root, sweep);
     print_peak_range(sweep);
     print_analysis(root, axes, status);
