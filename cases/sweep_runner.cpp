@@ -501,6 +501,7 @@ private:
         std::size_t point = 0;
         std::size_t water = 0;
         Vec3 centre = Vec3::Zero();
+        double ratio = 0;  // object half-extent / distance of its centre from the fixed part
         Matrix3<S> tensor;
     };
 
@@ -518,6 +519,7 @@ private:
         for (std::size_t p = 0; p < total_; ++p)
             if (status_[p] == kNotComputed) pending.push_back(p);
         std::vector<std::optional<DipoleRequest>> requests(pending.size());
+        ratio_.resize(total_, std::numeric_limits<double>::quiet_NaN());
         const auto t0 = Clock::now();
         run_parallel(pending.size(), [&](std::size_t i) {
             PointResult r = compute_point(pending[i], quad, requests[i]);
@@ -529,6 +531,9 @@ private:
             }
         });
         stats_.point_seconds += std::chrono::duration<double>(Clock::now() - t0).count();
+
+        for (const auto& q : requests)
+            if (q) ratio_[q->point] = q->ratio;
 
         // Dipole points, grouped by water (each has its own fixed part), in blocks.
         std::vector<std::vector<DipoleRequest>> batches;
@@ -648,8 +653,11 @@ private:
         r.centre = setup.object_centre;
         const SweepMethod method = force.value_or(sweep_.method);
         const std::size_t moving = method == SweepMethod::full ? 0 : moving_surface(*scene, setup.spec);
-        if (method == SweepMethod::dipole || (method == SweepMethod::automatic && dipole_fits(*scene, moving, w))) {
-            dipole = DipoleRequest{p, w, r.centre, polarization(r.index, setup.spec, *scene, moving, quad)};
+        const double ratio =
+            method == SweepMethod::dipole || method == SweepMethod::automatic ? size_to_distance(*scene, moving, w) : 0.0;
+        if (method == SweepMethod::dipole ||
+            (method == SweepMethod::automatic && ratio <= sweep_.dipole_accuracy / kDipoleErrorPerRatio)) {
+            dipole = DipoleRequest{p, w, r.centre, ratio, polarization(r.index, setup.spec, *scene, moving, quad)};
             return r;
         }
         Solution<S> solution;
@@ -683,9 +691,9 @@ private:
         }
     }
 
-    // The automatic switch: the object's half-extent against the distance from
-    // its centre to the nearest fixed surface, water source or probe point.
-    bool dipole_fits(const Scene<S>& scene, std::size_t moving, std::size_t w) const {
+    // What the automatic switch compares: the object's half-extent over the
+    // distance from its centre to the nearest fixed surface, water source or probe point.
+    double size_to_distance(const Scene<S>& scene, std::size_t moving, std::size_t w) const {
         const TriangleMesh& object = scene.surfaces[moving].mesh;
         Vec3 centre = Vec3::Zero();
         for (const Vec3& v : object.vertices) centre += v;
@@ -700,7 +708,7 @@ private:
         for (const auto& src : fixed_[w]->scene().sources) distance = std::min(distance, (src.position - centre).norm());
         if (sensors_.probes)
             for (const Vec3& x : sensors_.position) distance = std::min(distance, (x - centre).norm());
-        return half_extent <= sweep_.dipole_accuracy / kDipoleErrorPerRatio * distance;
+        return half_extent / distance;
     }
 
     // Polarization tensor of the object at this point: closed form for a plain
@@ -786,6 +794,25 @@ private:
         return results;
     }
 
+    // The dipole points to re-solve: half of them where the object is largest
+    // against its distance (where the dipole path errs most), the rest spread
+    // evenly over the others in sweep order.
+    std::vector<std::size_t> check_sample(const std::vector<std::size_t>& dipole_points) const {
+        const std::size_t n = std::min<std::size_t>(dipole_points.size(), std::size_t(sweep_.check_points));
+        std::vector<std::size_t> by_ratio;
+        for (std::size_t p : dipole_points)
+            if (!ratio_.empty() && !std::isnan(ratio_[p])) by_ratio.push_back(p);
+        std::stable_sort(by_ratio.begin(), by_ratio.end(), [&](std::size_t a, std::size_t b) { return ratio_[a] > ratio_[b]; });
+        std::vector<std::size_t> sample(by_ratio.begin(), by_ratio.begin() + std::min(by_ratio.size(), (n + 1) / 2));
+        std::vector<std::size_t> rest;
+        for (std::size_t p : dipole_points)
+            if (std::find(sample.begin(), sample.end(), p) == sample.end()) rest.push_back(p);
+        const std::size_t m = n - sample.size();
+        for (std::size_t k = 0; k < m; ++k) sample.push_back(rest[(2 * k + 1) * rest.size() / (2 * m)]);
+        std::sort(sample.begin(), sample.end());
+        return sample;
+    }
+
     // ---- stage: re-solve a sample of the dipole points by the exact path and
     // write the measured discrepancy: max over sensors of |dipole - exact|
     // divided by max over sensors of |exact|, per sampled point.
@@ -794,9 +821,9 @@ private:
         std::vector<std::size_t> dipole_points;
         for (std::size_t p = 0; p < total_; ++p)
             if (path_[p] == kDipolePath) dipole_points.push_back(p);
-        const std::size_t n = std::min<std::size_t>(dipole_points.size(), std::size_t(sweep_.check_points));
-        std::vector<std::size_t> sample;
-        for (std::size_t k = 0; k < n; ++k) sample.push_back(dipole_points[(2 * k + 1) * dipole_points.size() / (2 * n)]);
+        const std::vector<std::size_t> sample = check_sample(dipole_points);
+        std::vector<double> ratios;
+        for (std::size_t p : sample) ratios.push_back(ratio_.empty() ? std::numeric_limits<double>::quiet_NaN() : ratio_[p]);
         H5Group sweep = output_->root().open_group("sweep");
         const std::size_t sensors = sensors_.size();
         std::vector<double> discrepancy(sample.size());
@@ -821,6 +848,9 @@ private:
         check.write("point", points, "1", "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
         H5Dataset d = check.write("discrepancy", discrepancy, "1",
                                   "max over sensors |dipole - exact| / max over sensors |exact| at that point");
+        check.write("size_to_distance", ratios, "1",
+                    "object half-extent / distance of its centre from the body (NaN: computed by an earlier, "
+                    "interrupted run)");
         stats_.checked = sample.size();
         stats_.max_discrepancy = discrepancy.empty() ? 0.0 : *std::max_element(discrepancy.begin(), discrepancy.end());
         d.set_attribute("max_discrepancy", stats_.max_discrepancy);
@@ -958,6 +988,7 @@ private:
     std::optional<H5Output> output_;
     std::vector<std::uint8_t> status_;
     std::vector<std::uint8_t> path_;
+    std::vector<double> ratio_;  // per point: size_to_distance of dipole points computed in this run
     std::vector<std::unique_ptr<FixedPart<S>>> fixed_;  // per water conductivity; empty for method full
     std::vector<std::unique_ptr<LeadFields<S>>> leads_;  // per water, for a few electrode sensors
     std::vector<std::vector<S>> fixed_readings_;          // the fixed part's own readings, per water

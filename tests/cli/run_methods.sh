@@ -60,6 +60,11 @@ for p, disc in zip(points, chk["discrepancy"][()]):
     mine = dd[np.searchsorted(flat_ok, p)]
     if abs(mine - disc) > 1e-6 * max(1.0, mine) + 1e-9:
         bad.append(f"dipole check at point {p}: file says {disc:.6g}, full run gives {mine:.6g}")
+ratio = chk["size_to_distance"][()]
+if not (np.isfinite(ratio).all() and (ratio > 0).all()): bad.append("dipole: size_to_distance not finite and positive")
+# Half the checks go where the object is largest against its distance: there the
+# dipole path errs most, so the checks must include the sweep's worst point.
+if dd.max() > chk["discrepancy"][()].max() * (1 + 1e-6): bad.append("dipole: the checks missed the worst point")
 print(f"dipole vs full: max relative difference {dd.max():.3g} (all points), checks agree")
 
 # auto: the dipole points stay within the target; both paths are used.
