@@ -212,3 +212,19 @@ TEST_CASE("geometry: inspecting a 20k-panel mesh is fast") {
     CHECK(b.size() > 20000);
     CHECK(inspect_mesh(b).problems.empty());
 }
+
+TEST_CASE("a large mesh that passed once is accepted again, and any change to it is inspected anew") {
+    // require_valid_mesh remembers large valid meshes (a sweep rebuilds the same
+    // body at every point); the memory must never let a different mesh through.
+    TriangleMesh m = make_icosphere(0.1, 4);  // 5120 panels
+    REQUIRE(m.size() >= 1000);
+    CHECK_NOTHROW(require_valid_mesh(m, "first"));
+    CHECK_NOTHROW(require_valid_mesh(m, "again"));
+    TriangleMesh turned = m;
+    std::swap(turned.triangles[17][1], turned.triangles[17][2]);  // one panel turned inward
+    CHECK_THROWS_AS(require_valid_mesh(turned, "turned"), InputError);
+    TriangleMesh dented = m;
+    dented.vertices[5] *= -1.5;  // pulled through to the far side: the surface crosses itself
+    CHECK_THROWS_AS(require_valid_mesh(dented, "dented"), InputError);
+    CHECK_NOTHROW(require_valid_mesh(m, "the original still"));
+}
