@@ -370,6 +370,10 @@ private:
                                      spec_.path);
                 const auto status = root.read<std::uint8_t>("sweep/status");
                 status_ = status.values;
+                if (!root.exists("sweep/path"))
+                    throw InputError(H5Output::partial_path(options_.output_path) +
+                                     ": was written by an earlier murk that did not record each point's path; "
+                                     "start over with --force");
                 path_ = root.read<std::uint8_t>("sweep/path").values;
             } catch (...) {
                 output_->suspend();  // not ours to delete: the partial file keeps its finished points
