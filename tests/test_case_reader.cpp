@@ -2,7 +2,7 @@
 // error message per kind of bad input. Unit conversions are worked out by hand
 // beside each check (SI prefixes: BIPM, "The International System of Units",
 // 9th edition, 2019).
-#include "cases/case_reader.hpp"
+#include "cases/input/case_reader.hpp"
 #include "geometry/input_error.hpp"
 
 #include <doctest/doctest.h>

@@ -1,7 +1,7 @@
 // Ideal-observer d', Neyman-Pearson detection probability and detection range.
 // Expected values are computed here by hand or in closed form, each line naming its
 // source; none is taken from the code under test.
-#include "cases/detectability.hpp"
+#include "cases/detection/detectability.hpp"
 #include "geometry/input_error.hpp"
 
 #include <doctest/doctest.h>

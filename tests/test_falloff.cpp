@@ -1,7 +1,7 @@
 // Local exponent, power-law fit and fourth-power check of the peak perturbation versus
 // distance. Expected values come from closed forms of the test data or hand
 // arithmetic shown beside each check.
-#include "cases/falloff.hpp"
+#include "cases/detection/falloff.hpp"
 #include "geometry/input_error.hpp"
 
 #include <doctest/doctest.h>

@@ -1,8 +1,8 @@
 // From a case to the solver's scene: placement of meshes and sources, electrode
 // tags, materials at a frequency, and the whole-scene checks. Expected positions
 // and values are worked out by hand in each test from the case text.
-#include "cases/case_reader.hpp"
-#include "cases/scene_builder.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/scene/scene_builder.hpp"
 #include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"

@@ -3,7 +3,7 @@
 // per axis. The expected orders are written out here by hand or counted with nested
 // loops (C order, the last axis running fastest: the row-major layout of HDF5 and
 // numpy, common practice); none is taken from the code under test.
-#include "cases/sweep_axes.hpp"
+#include "cases/sweep/sweep_axes.hpp"
 
 #include <doctest/doctest.h>
 

@@ -1,7 +1,7 @@
 // Quantities with units from case files. Expected values are conversions done by
 // hand here from the SI prefix and unit definitions (BIPM, "The International
 // System of Units", 9th edition, 2019); each line shows the arithmetic.
-#include "cases/units.hpp"
+#include "cases/input/units.hpp"
 #include "geometry/input_error.hpp"
 
 #include <doctest/doctest.h>

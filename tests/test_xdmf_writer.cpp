@@ -2,8 +2,8 @@
 // readers, never by murk: meshio's XDMF reader (the one ParaView users also meet in Python
 // pipelines) for a single surface, and Python's XML parser with h5py for a collection of
 // surfaces, which meshio does not read. Expected values are the test's own inputs.
-#include "cases/hdf5_file.hpp"
-#include "cases/xdmf_writer.hpp"
+#include "cases/output/hdf5_file.hpp"
+#include "cases/output/xdmf_writer.hpp"
 #include "geometry/input_error.hpp"
 
 #include <doctest/doctest.h>

@@ -28,10 +28,10 @@
 //
 // Usage: murk-bench [CASE]   (default: the shipped tools/bench/fish_grid.toml)
 
-#include "cases/case_reader.hpp"
-#include "cases/hdf5_file.hpp"
-#include "cases/scene_builder.hpp"
-#include "cases/sweep_runner.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/output/hdf5_file.hpp"
+#include "cases/scene/scene_builder.hpp"
+#include "cases/sweep/sweep_runner.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/triangle_distance.hpp"
 #include "solver/coupled_solve.hpp"

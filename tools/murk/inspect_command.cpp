@@ -7,7 +7,7 @@
 // holds for /detection and /falloff, whose datasets lie over the axes other than distance.
 // Anything the layout requires that is missing or malformed is an InputError naming the
 // file and the dataset, never a guess.
-#include "cases/hdf5_file.hpp"
+#include "cases/output/hdf5_file.hpp"
 #include "geometry/input_error.hpp"
 #include "tools/murk/commands.hpp"
 

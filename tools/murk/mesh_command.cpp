@@ -4,8 +4,8 @@
 #include "geometry/mesh_io.hpp"
 #include "geometry/mesh_quality.hpp"
 #include "tools/murk/commands.hpp"
-#include "cases/case_reader.hpp"
-#include "cases/scene_builder.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/scene/scene_builder.hpp"
 
 #include <cstdio>
 

@@ -1,6 +1,6 @@
 // `murk run CASE -o OUT.h5`: the case's sweep, written as detection maps.
-#include "cases/case_reader.hpp"
-#include "cases/sweep_runner.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/sweep/sweep_runner.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <omp.h>

@@ -1,12 +1,13 @@
 // `murk solve CASE -o OUT.h5`: one configuration of a case, in named stages:
 // read the case, build the scenes (baseline without objects, and with them),
 // assemble, solve, write, summarize.
-#include "cases/case_reader.hpp"
-#include "cases/probe_output.hpp"
-#include "cases/result_metadata.hpp"
-#include "cases/scene_builder.hpp"
-#include "cases/solve_output.hpp"
-#include "cases/xdmf_writer.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/solve/probe_output.hpp"
+#include "cases/output/result_metadata.hpp"
+#include "cases/scene/scene_builder.hpp"
+#include "cases/output/surface_output.hpp"
+#include "cases/solve/solve_output.hpp"
+#include "cases/output/xdmf_writer.hpp"
 #include "solver/bem_system.hpp"
 #include "tools/murk/commands.hpp"
 

@@ -1,4 +1,4 @@
-#include "cases/hdf5_file.hpp"
+#include "cases/output/hdf5_file.hpp"
 
 #include "geometry/input_error.hpp"
 

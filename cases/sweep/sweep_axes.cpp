@@ -1,4 +1,4 @@
-#include "cases/sweep_axes.hpp"
+#include "cases/sweep/sweep_axes.hpp"
 
 namespace murk {
 

@@ -1,6 +1,6 @@
-#include "cases/probe_output.hpp"
+#include "cases/solve/probe_output.hpp"
 
-#include "cases/solve_output.hpp"
+#include "cases/output/surface_output.hpp"
 #include "solver/bem_system.hpp"
 
 namespace murk {

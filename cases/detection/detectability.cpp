@@ -1,6 +1,6 @@
 // Ideal-observer d', Neyman-Pearson detection probability and detection range; the
 // contracts and sources are in detectability.hpp.
-#include "cases/detectability.hpp"
+#include "cases/detection/detectability.hpp"
 
 #include "geometry/input_error.hpp"
 

@@ -1,4 +1,4 @@
-#include "cases/sweep_readings.hpp"
+#include "cases/sweep/sweep_readings.hpp"
 
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"

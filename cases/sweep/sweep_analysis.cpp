@@ -1,7 +1,7 @@
-#include "cases/sweep_analysis.hpp"
+#include "cases/sweep/sweep_analysis.hpp"
 
-#include "cases/detectability.hpp"
-#include "cases/falloff.hpp"
+#include "cases/detection/detectability.hpp"
+#include "cases/detection/falloff.hpp"
 
 #include <cmath>
 #include <limits>

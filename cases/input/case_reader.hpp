@@ -4,7 +4,7 @@
 // types, wrong dimensions and out-of-range values throw InputError with one line
 // "file:line: dotted.key: what was found, what was expected". The format is
 // documented in cases/README.md.
-#include "cases/case_spec.hpp"
+#include "cases/input/case_spec.hpp"
 
 #include <string>
 

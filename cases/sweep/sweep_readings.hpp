@@ -4,7 +4,7 @@
 // sensor electrode of a robot (potential of a floating sensor, current of a
 // fixed-potential sensor), or, in a case without a body, the potential at every
 // probe point. Plus the peak and the image width.
-#include "cases/case_spec.hpp"
+#include "cases/input/case_spec.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 

@@ -1,4 +1,4 @@
-#include "cases/scene_builder.hpp"
+#include "cases/scene/scene_builder.hpp"
 
 #include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"

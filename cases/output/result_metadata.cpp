@@ -1,4 +1,4 @@
-#include "cases/result_metadata.hpp"
+#include "cases/output/result_metadata.hpp"
 
 #include <openssl/evp.h>
 

@@ -9,7 +9,7 @@
 #include <array>
 #include <optional>
 
-#include "cases/sweep_spec.hpp"
+#include "cases/input/sweep_spec.hpp"
 #include <string>
 #include <vector>
 
@@ -238,5 +238,10 @@ struct CaseSpec {
     std::optional<SweepSpec> sweep;          // [sweep]: what murk run varies
     std::optional<DetectionSpec> detection;  // [detection]: noise model and detection criteria
 };
+
+// Electrodes made for perfectly conducting objects are named "object:<name>", so
+// that output can tell them from the robot's sensors (robot electrode names are
+// free text but never start with this prefix: the reader refuses such names).
+inline const std::string kObjectElectrodePrefix = "object:";
 
 }  // namespace murk

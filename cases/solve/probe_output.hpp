@@ -5,8 +5,8 @@
 //   /probes/<name>/{baseline,perturbed,difference}_potential   (shape...) V
 //   /probes/<name>/{baseline,perturbed,difference}_field       (shape..., 3) V m-1
 // with the shape of each probe (point {1}, line {n}, grid {n_along, n_across}).
-#include "cases/case_spec.hpp"
-#include "cases/hdf5_file.hpp"
+#include "cases/input/case_spec.hpp"
+#include "cases/output/hdf5_file.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 

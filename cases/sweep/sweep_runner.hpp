@@ -4,7 +4,7 @@
 // Stages: plan (axes, sensors), baseline (one solve per water conductivity),
 // points (configure, build, solve, read sensors, write), analysis (detection
 // range, falloff), sidecar, commit.
-#include "cases/case_spec.hpp"
+#include "cases/input/case_spec.hpp"
 
 #include <atomic>
 #include <cstddef>

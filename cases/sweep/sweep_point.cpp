@@ -1,6 +1,6 @@
-#include "cases/sweep_point.hpp"
+#include "cases/sweep/sweep_point.hpp"
 
-#include "cases/scene_builder.hpp"
+#include "cases/scene/scene_builder.hpp"
 #include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"

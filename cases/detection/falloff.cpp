@@ -1,6 +1,6 @@
 // Local exponent, power-law fit and fourth-power check of the peak perturbation versus
 // distance; the contracts and sources are in falloff.hpp.
-#include "cases/falloff.hpp"
+#include "cases/detection/falloff.hpp"
 
 #include "geometry/input_error.hpp"
 

@@ -1,8 +1,8 @@
 #pragma once
 // Root attributes every murk result file carries (DESIGN.md §5): what made it,
 // from which case, when, and under which approximation and accuracy switches.
-#include "cases/case_spec.hpp"
-#include "cases/hdf5_file.hpp"
+#include "cases/input/case_spec.hpp"
+#include "cases/output/hdf5_file.hpp"
 #include "solver/quadrature_options.hpp"
 
 #include <string>

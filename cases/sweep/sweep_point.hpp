@@ -3,8 +3,8 @@
 // conductivity and moved to its place (on a planar grid, or at a clearance from
 // the body). A point where the object would touch or enter the body, another
 // object or the plane is masked, not an error: the map records it as such.
-#include "cases/case_spec.hpp"
-#include "cases/sweep_axes.hpp"
+#include "cases/input/case_spec.hpp"
+#include "cases/sweep/sweep_axes.hpp"
 #include "geometry/mesh.hpp"
 
 #include <string>

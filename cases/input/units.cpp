@@ -1,4 +1,4 @@
-#include "cases/units.hpp"
+#include "cases/input/units.hpp"
 
 #include "geometry/input_error.hpp"
 

@@ -1,4 +1,4 @@
-#include "cases/xdmf_writer.hpp"
+#include "cases/output/xdmf_writer.hpp"
 
 #include "geometry/input_error.hpp"
 

@@ -4,7 +4,7 @@
 // electric organ into point sources, electrodes into tagged hull panels. Checks
 // what only the whole scene can tell: meshes valid, surfaces apart and not
 // nested, everything in the water, sources inside the body, electrodes on panels.
-#include "cases/case_spec.hpp"
+#include "cases/input/case_spec.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 
@@ -41,10 +41,8 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects);
 extern template Scene<double> build_scene<double>(const CaseSpec&, bool);
 extern template Scene<Complex> build_scene<Complex>(const CaseSpec&, bool);
 
-// Electrodes made for perfectly conducting objects are named "object:<name>", so
-// that output can tell them from the robot's sensors (robot electrode names are
-// free text but never start with this prefix: the reader refuses such names).
-inline const std::string kObjectElectrodePrefix = "object:";
+// Electrodes made for perfectly conducting objects are named kObjectElectrodePrefix
+// + the object's name (case_spec.hpp).
 std::string object_electrode_name(const std::string& object_name);
 bool is_object_electrode(const std::string& electrode_name);
 

@@ -2,7 +2,7 @@
 // The axes of a sweep and the product of their values: the set of points a
 // `murk run` computes. Axis order in every array is fixed:
 // water_conductivity, object, conductivity, size, distance, grid_u, grid_v (those given).
-#include "cases/sweep_spec.hpp"
+#include "cases/input/sweep_spec.hpp"
 
 #include <cstddef>
 #include <string>

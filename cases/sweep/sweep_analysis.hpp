@@ -4,9 +4,9 @@
 // peak perturbation with distance (/falloff), for every combination of the
 // other axes. Reads what the file holds, so a resumed run analyses exactly the
 // same numbers as an uninterrupted one.
-#include "cases/hdf5_file.hpp"
-#include "cases/sweep_axes.hpp"
-#include "cases/sweep_spec.hpp"
+#include "cases/output/hdf5_file.hpp"
+#include "cases/sweep/sweep_axes.hpp"
+#include "cases/input/sweep_spec.hpp"
 
 #include <optional>
 #include <vector>

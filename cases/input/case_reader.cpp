@@ -1,7 +1,6 @@
-#include "cases/case_reader.hpp"
+#include "cases/input/case_reader.hpp"
 
-#include "cases/scene_builder.hpp"
-#include "cases/units.hpp"
+#include "cases/input/units.hpp"
 #include "geometry/input_error.hpp"
 
 #include <toml++/toml.h>
