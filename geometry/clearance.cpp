@@ -58,10 +58,14 @@ std::string num(double v) {
 
 }  // namespace
 
-double min_distance(const TriangleMesh& a, const TriangleMesh& b) {
+SurfaceIndex::SurfaceIndex(TriangleMesh mesh)
+    : mesh_(std::move(mesh)), tree_(build_panel_tree(mesh_)), box_(mesh_box(mesh_)) {}
+
+double SurfaceIndex::distance_to(const TriangleMesh& other) const {
+    const TriangleMesh& a = other;
+    const TriangleMesh& b = mesh_;
     if (a.triangles.empty() || b.triangles.empty()) return INFINITY;
     double best = nearest_vertex_pair(a, b);
-    const PanelTree tree = build_panel_tree(b);
     std::vector<PanelBox> near;
     std::vector<std::size_t> done(b.size(), 0);  // done[u] == t + 1: pair (t, u) measured
     for (std::size_t t = 0; t < a.size() && best > 0.0; ++t) {
@@ -71,7 +75,7 @@ double min_distance(const TriangleMesh& a, const TriangleMesh& b) {
         // distance so far: every panel that could improve it has then been measured.
         for (std::size_t k = 4;; k *= 4) {
             near.clear();
-            tree.query(bgi::nearest(box, static_cast<unsigned>(std::min(k, b.size()))), std::back_inserter(near));
+            tree_.query(bgi::nearest(box, static_cast<unsigned>(std::min(k, b.size()))), std::back_inserter(near));
             double farthest = 0.0;
             for (const PanelBox& h : near) {
                 const double lower = box_distance(box, h.first);
@@ -87,6 +91,56 @@ double min_distance(const TriangleMesh& a, const TriangleMesh& b) {
     }
     return best;
 }
+
+bool SurfaceIndex::closer_than(const TriangleMesh& other, double gap) const {
+    if (mesh_.triangles.empty() || other.triangles.empty()) return false;
+    const auto grown = [gap](const BgBox& b) {
+        const BgPoint& lo = b.min_corner();
+        const BgPoint& hi = b.max_corner();
+        return BgBox(BgPoint(lo.get<0>() - gap, lo.get<1>() - gap, lo.get<2>() - gap),
+                     BgPoint(hi.get<0>() + gap, hi.get<1>() + gap, hi.get<2>() + gap));
+    };
+    if (!bg::intersects(grown(mesh_box(other)), box_)) return false;
+    std::vector<PanelBox> hits;
+    for (std::size_t t = 0; t < other.size(); ++t) {
+        hits.clear();
+        tree_.query(bgi::intersects(grown(panel_box(other, t))), std::back_inserter(hits));
+        for (const PanelBox& h : hits) {
+            const std::size_t u = h.second;
+            if (triangle_triangle_distance(other.corner(t, 0), other.corner(t, 1), other.corner(t, 2), mesh_.corner(u, 0),
+                                           mesh_.corner(u, 1), mesh_.corner(u, 2)) < gap)
+                return true;
+        }
+    }
+    return false;
+}
+
+double SurfaceIndex::distance_to(const Vec3& x) const {
+    if (mesh_.triangles.empty()) return INFINITY;
+    double best = INFINITY;
+    std::vector<PanelBox> near;
+    const BgBox point(to_bg(x), to_bg(x));
+    for (std::size_t k = 4;; k *= 4) {
+        near.clear();
+        tree_.query(bgi::nearest(point, static_cast<unsigned>(std::min(k, mesh_.size()))), std::back_inserter(near));
+        double farthest = 0.0;
+        for (const PanelBox& h : near) {
+            const double lower = box_distance(point, h.first);
+            farthest = std::max(farthest, lower);
+            if (lower >= best) continue;
+            const std::size_t u = h.second;
+            best = std::min(best, point_triangle_distance(x, mesh_.corner(u, 0), mesh_.corner(u, 1), mesh_.corner(u, 2)));
+        }
+        if (near.size() < k || farthest >= best) break;
+    }
+    return best;
+}
+
+bool SurfaceIndex::contains(const Vec3& x) const {
+    return !mesh_.triangles.empty() && bg::covered_by(to_bg(x), box_) && contains_point(mesh_, x);
+}
+
+double min_distance(const TriangleMesh& a, const TriangleMesh& b) { return SurfaceIndex(b).distance_to(a); }
 
 bool meshes_intersect(const TriangleMesh& a, const TriangleMesh& b) {
     if (a.triangles.empty() || b.triangles.empty()) return false;

@@ -1,5 +1,7 @@
 #include "cases/scene/scene_builder.hpp"
 
+#include "cases/scene/scene_rules.hpp"
+
 #include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"
@@ -23,16 +25,6 @@ namespace {
 
 // Vacuum permittivity (F/m), CODATA 2018 recommended value.
 constexpr double kVacuumPermittivity = 8.8541878128e-12;
-
-// Below this many panel sizes two surfaces, or a surface and the insulating
-// plane, are taken to touch: the mesh cannot resolve a narrower gap.
-constexpr double kMinGapInPanels = 0.1;
-
-// Sources (organ points included) and probe points closer to a surface than this
-// many panel sizes make the collocation at the nearest panels, or the values
-// read there, inaccurate: piecewise-constant panel values cannot follow a
-// potential that changes within a fraction of a panel.
-constexpr double kMinSourceDepthInPanels = 0.25;
 
 std::string format_length(double metres) {
     std::ostringstream out;
@@ -72,14 +64,6 @@ Complex to_scalar<Complex>(const Complex& c) {
 }
 
 Vec3 to_vec(const Point3& p) { return Vec3(p[0], p[1], p[2]); }
-
-// Edge length (m) of an equilateral panel of the mesh's mean panel area.
-double typical_edge(const TriangleMesh& mesh) {
-    if (mesh.size() == 0) return 0.0;
-    double area = 0.0;
-    for (std::size_t t = 0; t < mesh.size(); ++t) area += mesh.area(t);
-    return std::sqrt(4.0 / std::sqrt(3.0) * area / static_cast<double>(mesh.size()));
-}
 
 // Re-throws a geometry-layer InputError with the case part in front.
 template <class F>
@@ -272,14 +256,22 @@ void add_robot(Scene<S>& scene, const CaseSpec& spec, TriangleMesh hull) {
 
 // ---- objects --------------------------------------------------------------------
 
-template <class S>
-void add_object(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec& o, double omega) {
+}  // namespace
+
+TriangleMesh object_mesh(const CaseSpec& spec, const ObjectSpec& o) {
     const std::string where = o.source.where();
+    TriangleMesh mesh = with_place(where, [&] { return make_shape_mesh(o.shape, object_panel_size(spec, o)); });
+    mesh.name = o.name;
+    transform(mesh, orientation_matrix(o.orientation), to_vec(o.position_m));
+    require_valid_mesh(mesh, where);
+    return mesh;
+}
+
+template <class S>
+void add_object_surface(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec& o, TriangleMesh mesh) {
+    const double omega = angular_frequency(spec);
     Surface<S> surface;
-    surface.mesh = with_place(where, [&] { return make_shape_mesh(o.shape, object_panel_size(spec, o)); });
-    surface.mesh.name = o.name;
-    transform(surface.mesh, orientation_matrix(o.orientation), to_vec(o.position_m));
-    require_valid_mesh(surface.mesh, where);
+    surface.mesh = std::move(mesh);
     switch (o.material) {
         case Material::conducting:
             surface.inner_conductivity = to_scalar<S>(admittivity(o.conductivity_S_per_m, o.permittivity_relative, omega));
@@ -304,12 +296,23 @@ void add_object(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec& o, doub
     scene.surfaces.push_back(std::move(surface));
 }
 
+template <class S>
+S water_admittivity(const CaseSpec& spec, double conductivity_S_per_m) {
+    return to_scalar<S>(admittivity(conductivity_S_per_m, spec.water.permittivity_relative, angular_frequency(spec)));
+}
+
+template double water_admittivity(const CaseSpec&, double);
+template Complex water_admittivity(const CaseSpec&, double);
+template void add_object_surface(Scene<double>&, const CaseSpec&, const ObjectSpec&, TriangleMesh);
+template void add_object_surface(Scene<Complex>&, const CaseSpec&, const ObjectSpec&, TriangleMesh);
+
+namespace {
+
 // ---- whole-scene checks ---------------------------------------------------------------
 
 void require_in_water(const Part& part, const PlaneSpec& plane) {
     const double sign = plane.water_below ? 1.0 : -1.0;  // out of the water
-    double reach = -std::numeric_limits<double>::infinity();
-    for (const Vec3& v : part.mesh->vertices) reach = std::max(reach, sign * (v.z() - plane.height_m));
+    const double reach = reach_beyond_plane(*part.mesh, plane);
     const double gap = kMinGapInPanels * typical_edge(*part.mesh);
     if (reach > -gap) {
         const std::string name = plane.water_below ? "water surface" : "bottom";
@@ -325,8 +328,7 @@ void require_in_water(const Part& part, const PlaneSpec& plane) {
 void require_apart(const std::vector<Part>& parts) {
     for (std::size_t j = 1; j < parts.size(); ++j)
         for (std::size_t i = 0; i < j; ++i) {
-            const double gap =
-                kMinGapInPanels * std::min(typical_edge(*parts[i].mesh), typical_edge(*parts[j].mesh));
+            const double gap = min_surface_gap(*parts[i].mesh, *parts[j].mesh);
             with_place(parts[j].source.where(), [&] {
                 require_clearance({parts[i].mesh, parts[j].mesh}, gap);
                 return 0;
@@ -574,8 +576,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     assert(!(spec.fish && spec.robot));
     const double omega = angular_frequency(spec);
     Scene<S> scene;
-    scene.water_conductivity =
-        to_scalar<S>(admittivity(spec.water.conductivity_S_per_m, spec.water.permittivity_relative, omega));
+    scene.water_conductivity = water_admittivity<S>(spec, spec.water.conductivity_S_per_m);
     if (spec.water.plane) {
         InsulatingPlane plane;
         plane.point = Vec3(0.0, 0.0, spec.water.plane->height_m);
@@ -602,7 +603,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     }
     const std::size_t bodies = scene.surfaces.size();  // 1 with a sensing body, else 0
     if (include_objects)
-        for (const ObjectSpec& o : spec.objects) add_object(scene, spec, o, omega);
+        for (const ObjectSpec& o : spec.objects) add_object_surface(scene, spec, o, object_mesh(spec, o));
 
     std::vector<Part> parts;
     if (spec.fish) parts.push_back({&scene.surfaces[0].mesh, spec.fish->source, "the fish", true});

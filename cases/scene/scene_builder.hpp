@@ -41,6 +41,20 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects);
 extern template Scene<double> build_scene<double>(const CaseSpec&, bool);
 extern template Scene<Complex> build_scene<Complex>(const CaseSpec&, bool);
 
+// The pieces build_scene makes an object from, for a sweep that builds an object
+// once and moves it. object_mesh: the object's mesh (shape, panel size,
+// orientation, position), checked valid (InputError naming the object's table).
+// add_object_surface: appends the object's surface with that mesh, its material
+// at the case's frequency, and for a perfect conductor its floating electrode
+// (appended to scene.electrodes, named object_electrode_name).
+TriangleMesh object_mesh(const CaseSpec& spec, const ObjectSpec& object);
+template <class S>
+void add_object_surface(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec& object, TriangleMesh mesh);
+// The water's admittivity (S/m) at the case's frequency for a given conductivity
+// (a sweep's water axis replaces the case's conductivity).
+template <class S>
+S water_admittivity(const CaseSpec& spec, double conductivity_S_per_m);
+
 // Electrodes made for perfectly conducting objects are named kObjectElectrodePrefix
 // + the object's name (case_spec.hpp).
 std::string object_electrode_name(const std::string& object_name);

@@ -42,6 +42,8 @@ SensorLayout sensor_layout(const CaseSpec& spec, const Scene<S>& baseline, const
     for (std::size_t e = 0; e < baseline.electrodes.size(); ++e) {
         const ElectrodeDrive d = baseline.electrodes[e].drive;
         if (d != ElectrodeDrive::floating && d != ElectrodeDrive::fixed_potential) continue;
+        // A perfectly conducting object that stays carries a floating electrode too; it is no sensor.
+        if (baseline.electrodes[e].name.rfind(kObjectElectrodePrefix, 0) == 0) continue;
         (d == ElectrodeDrive::floating ? voltage : current) = true;
         layout.electrodes.push_back(static_cast<int>(e));
         layout.names.push_back(baseline.electrodes[e].name);

@@ -1,0 +1,61 @@
+#pragma once
+// Where the moving object goes at a sweep point, and whether it may go there.
+// Built once per run from the surfaces that stay (body and unmoving objects, in
+// spatial indexes), the insulating plane and the free source and probe points;
+// each point then costs a few index queries on the object's mesh, moved rigidly.
+//
+// A point is placed on the planar grid (grid axes), at a clearance from the body
+// along the sweep direction (distance axis), or where the case puts the object.
+// It is masked, with the reason, where the object would break a rule of
+// cases/scene/scene_rules.hpp: touch the body or an unmoving object, reach
+// through the plane, come too near a source or probe point; or where the
+// clearance cannot be reached along the direction. Placement reports its
+// outcome; it never throws for a point.
+#include "cases/input/case_spec.hpp"
+#include "cases/output/result_layout.hpp"
+#include "cases/sweep/sweep_plan.hpp"
+#include "geometry/clearance.hpp"
+
+#include <optional>
+#include <vector>
+
+namespace murk {
+
+struct Placement {
+    MaskReason mask = MaskReason::none;
+    Vec3 offset = Vec3::Zero();  // where the object's frame origin goes
+};
+
+class PointPlacement {
+public:
+    // `fixed` are the surfaces that stay, the sensing body first when the case has
+    // one. Refuses (InputError naming the case line) a sweep direction that points
+    // into the body from a moving object's position.
+    PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed);
+
+    // The placement at a point of `object`, the moving object's mesh in its frame.
+    Placement place(const std::vector<std::size_t>& index, const TriangleMesh& object) const;
+
+    // Distance (m) from x to the nearest surface that stays, free source point or
+    // probe point: the distance the dipole path's error depends on.
+    double distance_to_fixed(const Vec3& x) const;
+
+    // What the distance axis measures from: the clearance (m) of an object mesh,
+    // as placed, from the body's surface, or from the first source point in a
+    // case without a body.
+    double clearance(const TriangleMesh& object) const;
+
+private:
+    MaskReason check(const TriangleMesh& object) const;
+
+    const SweepPlan* plan_;
+    std::vector<SurfaceIndex> fixed_;  // body first when has_body_
+    bool has_body_ = false;
+    std::optional<PlaneSpec> plane_;
+    std::vector<Vec3> free_points_;    // [[source]] points and probe points
+    Vec3 reference_point_ = Vec3::Zero();  // without a body: the first source point
+    std::vector<Vec3> start_;          // per moving object: its position in the case
+    std::vector<Vec3> direction_;      // per moving object: the direction of the distance axis
+};
+
+}  // namespace murk

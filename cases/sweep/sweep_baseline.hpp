@@ -1,0 +1,57 @@
+#pragma once
+// Stage `baselines` of murk run: per water conductivity, the fixed part (the
+// sensing body and every object the sweep does not move) assembled and factored
+// once, its solution and what the sensors read from it. A point's perturbation
+// is its reading minus this baseline reading: the change the moving object
+// causes in the scene that stays. Also the sensors themselves and the noise
+// model that turns a perturbation into a detection probability.
+#include "cases/detection/detectability.hpp"
+#include "cases/input/case_spec.hpp"
+#include "cases/sweep/sweep_plan.hpp"
+#include "cases/sweep/sweep_readings.hpp"
+#include "solver/dipole_path.hpp"
+#include "solver/fixed_part.hpp"
+
+#include <memory>
+#include <optional>
+#include <vector>
+
+namespace murk {
+
+template <class S>
+struct WaterBaseline {
+    std::unique_ptr<FixedPart<S>> fixed;  // factored; null for method "full"
+    Scene<S> unfactored;                  // the fixed part's scene when it is not factored
+    Solution<S> solution;
+    std::vector<S> readings;              // the sensors' baseline readings
+    std::unique_ptr<LeadFields<S>> leads;  // dipole path with a few electrode sensors
+
+    const Scene<S>& scene() const { return fixed ? fixed->scene() : unfactored; }
+};
+
+// The noise model of [detection], with what it needs per sensor.
+struct SensorNoise {
+    NoiseModel model;
+    std::vector<double> receptors;  // fish: receptors per skin panel; empty otherwise
+    double false_alarm_probability = 0;
+    double probability_level = 0;
+};
+
+template <class S>
+struct SweepBaselines {
+    std::vector<WaterBaseline<S>> waters;  // in plan.waters order
+    SensorLayout sensors;
+    std::optional<SensorNoise> noise;      // with [detection]
+    double assembly_seconds = 0, factor_seconds = 0;
+    std::size_t factor_bytes = 0;          // the largest fixed part's factors
+};
+
+// Refuses (InputError, naming the case line) sensors that cannot be read and
+// noise models that do not fit the sensors.
+template <class S>
+SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, const QuadratureOptions& quad);
+
+extern template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
+extern template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
+
+}  // namespace murk

@@ -1,0 +1,66 @@
+#include "cases/sweep/sweep_plan.hpp"
+
+#include "geometry/input_error.hpp"
+
+#include <algorithm>
+#include <limits>
+
+namespace murk {
+
+std::size_t SweepPlan::water_of(const std::vector<std::size_t>& index) const {
+    const int w = axis(AxisKind::water_conductivity);
+    return w >= 0 ? index[w] : 0;
+}
+
+std::size_t SweepPlan::moving_of(const std::vector<std::size_t>& index) const {
+    const int o = axis(AxisKind::object);
+    return o >= 0 ? index[o] : 0;
+}
+
+namespace {
+
+std::size_t object_named(const CaseSpec& spec, const std::string& where, const std::string& key,
+                         const std::string& name) {
+    for (std::size_t k = 0; k < spec.objects.size(); ++k)
+        if (spec.objects[k].name == name) return k;
+    throw InputError(where + "." + key + ": no object named '" + name + "'");
+}
+
+}  // namespace
+
+SweepPlan plan_sweep(const CaseSpec& spec) {
+    if (!spec.sweep) throw InputError(spec.path + ": murk run needs a [sweep] section (murk solve runs one configuration)");
+    SweepPlan plan;
+    plan.sweep = *spec.sweep;
+    plan.where = spec.path + ":" + std::to_string(plan.sweep.line) + ": sweep";
+    if (spec.objects.empty()) throw InputError(plan.where + ": the case has no [[object]] to sweep");
+    if (!plan.sweep.distance_m.empty() && plan.sweep.grid)
+        throw InputError(plan.where + ": a sweep moves the object either by distance or on a grid, not both");
+    plan.axes = sweep_axes(plan.sweep);
+    plan.shape = axis_shape(plan.axes);
+    // The product of the axis lengths must fit in a point index.
+    std::size_t total = 1;
+    std::string product;
+    for (const SweepAxis& a : plan.axes) {
+        product += (product.empty() ? "" : " x ") + std::to_string(a.values.size());
+        if (total > std::numeric_limits<std::size_t>::max() / a.values.size())
+            throw InputError(plan.where + ": the sweep has " + product + "... points, more than can be counted");
+        total *= a.values.size();
+    }
+    plan.total = total;
+
+    if (plan.sweep.objects.empty()) {
+        plan.moving = {plan.sweep.object.empty() ? 0 : object_named(spec, plan.where, "object", plan.sweep.object)};
+    } else {
+        for (const std::string& name : plan.sweep.objects)
+            plan.moving.push_back(object_named(spec, plan.where, "objects", name));
+    }
+    for (std::size_t k = 0; k < spec.objects.size(); ++k)
+        if (std::find(plan.moving.begin(), plan.moving.end(), k) == plan.moving.end())
+            plan.still.push_back(spec.objects[k]);
+    const int w = plan.axis(AxisKind::water_conductivity);
+    plan.waters = w >= 0 ? plan.axes[w].values : std::vector<double>{spec.water.conductivity_S_per_m};
+    return plan;
+}
+
+}  // namespace murk

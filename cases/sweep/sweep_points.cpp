@@ -1,0 +1,144 @@
+#include "cases/sweep/sweep_points.hpp"
+
+#include "cases/sweep/parallel_points.hpp"
+#include "cases/sweep/sweep_progress.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <chrono>
+#include <mutex>
+
+namespace murk {
+
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double seconds_since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+
+// The automatic switch. A dipole point's relative error was measured at about
+// 0.085 x (object half-extent / centre distance to the body) in
+// tests/test_dipole_path.cpp (1.7 % at 5 radii, 0.9 % at 10, 0.4 % at 20) and
+// up to 0.12 x on the coarse cases/examples/fish_map.toml (its worst checked
+// point); the dipole path is taken where that ratio is at most accuracy / 0.12.
+constexpr double kDipoleErrorPerRatio = 0.12;
+
+}  // namespace
+
+template <class S>
+PointPaths<S> make_point_paths(const PathContext<S>& context) {
+    PointPaths<S> paths;
+    paths.full = make_full_path(context);
+    if (context.baselines->waters.front().fixed) {
+        paths.exact = make_exact_path(context);
+        paths.dipole = make_dipole_path(context);
+    }
+    return paths;
+}
+
+template <class S>
+PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placement, const MovingObjects<S>& objects,
+                            std::size_t dipole_block) {
+    const SweepMethod method = plan.sweep.method;
+    const bool measure = method == SweepMethod::dipole || method == SweepMethod::automatic;
+    std::vector<PlacedPoint<S>> placed(plan.total);
+    std::vector<MaskReason> mask(plan.total, MaskReason::none);
+    for_each_in_parallel(plan.total, [&](std::size_t p) {
+        const std::vector<std::size_t> index = plan.index_of(p);
+        const MovingObject<S>& object = objects.at(index);
+        const Placement where = placement.place(index, object.surface.mesh);
+        mask[p] = where.mask;
+        if (where.mask != MaskReason::none) return;
+        PlacedPoint<S>& q = placed[p];
+        q.point = p;
+        q.water = plan.water_of(index);
+        q.object = &object;
+        q.offset = where.offset;
+        if (measure) q.size_to_distance = object.half_extent / placement.distance_to_fixed(q.centre());
+    });
+    PointRoutes<S> routes;
+    std::vector<std::vector<PlacedPoint<S>>> dipoles(plan.waters.size());
+    for (std::size_t p = 0; p < plan.total; ++p) {
+        if (mask[p] != MaskReason::none) {
+            routes.masked.push_back(masked_point<S>(p, mask[p]));
+            continue;
+        }
+        const PlacedPoint<S>& q = placed[p];
+        const bool dipole = method == SweepMethod::dipole ||
+                            (method == SweepMethod::automatic &&
+                             q.size_to_distance <= plan.sweep.dipole_accuracy / kDipoleErrorPerRatio);
+        if (dipole) dipoles[q.water].push_back(q);
+        else if (method == SweepMethod::full) routes.full.push_back(q);
+        else routes.exact.push_back(q);
+    }
+    for (const auto& of_water : dipoles)
+        for (std::size_t b = 0; b < of_water.size(); b += dipole_block)
+            routes.dipole_blocks.emplace_back(of_water.begin() + b,
+                                              of_water.begin() + std::min(of_water.size(), b + dipole_block));
+    return routes;
+}
+
+template <class S>
+void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, const SweepBaselines<S>& baselines,
+                    SweepFile<S>& file, bool quiet, RunStats& stats) {
+    // What the file holds when the stage starts (it changes as points are written).
+    const std::vector<PointStatus> status = file.status();
+    auto pending = [&](std::size_t p) { return status[p] == PointStatus::not_computed; };
+    SweepProgress progress(status.size(), file.finished(), quiet);
+    std::mutex output;
+    auto store = [&](const PointResult<S>& r) {
+        std::lock_guard<std::mutex> lock(output);
+        file.write_point(r);
+        progress.point_done();
+    };
+
+    for (const PointResult<S>& r : routes.masked)
+        if (pending(r.point)) store(r);
+
+    // Exact and full points, one per thread (the solves inside run single-threaded,
+    // as OpenMP does not nest by default).
+    std::vector<std::pair<const PlacedPoint<S>*, const PointPath<S>*>> singles;
+    for (const PlacedPoint<S>& q : routes.exact)
+        if (pending(q.point)) singles.emplace_back(&q, paths.exact.get());
+    for (const PlacedPoint<S>& q : routes.full)
+        if (pending(q.point)) singles.emplace_back(&q, paths.full.get());
+    const auto t0 = Clock::now();
+    std::atomic<std::size_t> fallbacks{0};
+    for_each_in_parallel(singles.size(), [&](std::size_t i) {
+        const auto [q, path] = singles[i];
+        PathReading<S> r = path->solve({*q}).front();
+        if (path == paths.exact.get() && r.path == PathCode::full) ++fallbacks;
+        store(computed_point(q->point, q->centre(), std::move(r.reading), r.path, baselines, q->water));
+    });
+    stats.point_seconds += seconds_since(t0);
+    stats.fallbacks += fallbacks;
+
+    // Dipole blocks with any point left; a block is solved whole, so that its
+    // points come out as in a run that was never interrupted.
+    std::vector<const std::vector<PlacedPoint<S>>*> blocks;
+    for (const auto& block : routes.dipole_blocks)
+        if (std::any_of(block.begin(), block.end(), [&](const PlacedPoint<S>& q) { return pending(q.point); }))
+            blocks.push_back(&block);
+    const auto t1 = Clock::now();
+    for_each_in_parallel(blocks.size(), [&](std::size_t b) {
+        const std::vector<PlacedPoint<S>>& block = *blocks[b];
+        std::vector<PathReading<S>> readings = paths.dipole->solve(block);
+        for (std::size_t k = 0; k < block.size(); ++k)
+            if (pending(block[k].point))
+                store(computed_point(block[k].point, block[k].centre(), std::move(readings[k].reading),
+                                     PathCode::dipole, baselines, block[k].water));
+    });
+    stats.dipole_seconds += seconds_since(t1);
+}
+
+template PointPaths<double> make_point_paths(const PathContext<double>&);
+template PointPaths<Complex> make_point_paths(const PathContext<Complex>&);
+template PointRoutes<double> route_points(const SweepPlan&, const PointPlacement&, const MovingObjects<double>&,
+                                          std::size_t);
+template PointRoutes<Complex> route_points(const SweepPlan&, const PointPlacement&, const MovingObjects<Complex>&,
+                                           std::size_t);
+template void compute_points(const PointRoutes<double>&, const PointPaths<double>&, const SweepBaselines<double>&,
+                             SweepFile<double>&, bool, RunStats&);
+template void compute_points(const PointRoutes<Complex>&, const PointPaths<Complex>&, const SweepBaselines<Complex>&,
+                             SweepFile<Complex>&, bool, RunStats&);
+
+}  // namespace murk
