@@ -1,179 +1,21 @@
-// `murk solve CASE -o OUT.h5`: one configuration of a case, in named stages:
-// read the case, build the scenes (baseline without objects, and with them),
-// assemble, solve, write, summarize.
+// `murk solve CASE -o OUT.h5`: one configuration of a case (cases/solve/solve_run.hpp).
 #include "cases/input/case_reader.hpp"
-#include "cases/solve/probe_output.hpp"
-#include "cases/output/result_metadata.hpp"
-#include "cases/scene/scene_builder.hpp"
-#include "cases/output/surface_output.hpp"
-#include "cases/solve/solve_output.hpp"
-#include "cases/output/xdmf_writer.hpp"
-#include "solver/bem_system.hpp"
+#include "cases/solve/solve_run.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <omp.h>
 
-#include <chrono>
-#include <filesystem>
-#include <cstdio>
-
 namespace murk::cli {
-
-namespace {
-
-using Clock = std::chrono::steady_clock;
-double seconds_since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
-
-double magnitude(double v) { return std::abs(v); }
-double magnitude(const Complex& v) { return std::abs(v); }
-
-struct StageTimes { double assemble = 0, solve = 0; };
-
-template <class S>
-Solution<S> solve_timed(const Scene<S>& scene, const QuadratureOptions& quad, StageTimes& times) {
-    if (scene.surfaces.empty()) return solve_scene(scene, quad);  // nothing to assemble
-    auto t = Clock::now();
-    LinearSystem<S> system = assemble_system(scene, quad);
-    times.assemble += seconds_since(t);
-    t = Clock::now();
-    const VectorX<S> x = solve_dense(system);
-    times.solve += seconds_since(t);
-    return unpack_solution(scene, system.layout, x);
-}
-
-const char* kind_name(InterfaceKind k) {
-    switch (k) {
-        case InterfaceKind::contact: return "contact";
-        case InterfaceKind::membrane: return "membrane (skin)";
-        case InterfaceKind::sealed: return "sealed (insulating / electrodes)";
-    }
-    return "";
-}
-
-template <class S>
-void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const StageTimes& base, const StageTimes& pert,
-                   std::size_t unknowns) {
-    std::printf("case: %s (%s)\n", spec.title.c_str(), spec.path.c_str());
-    for (const auto& s : solved.perturbed.surfaces)
-        std::printf("  surface %-16s %6zu panels, %s\n", s.mesh.name.c_str(), s.mesh.size(), kind_name(s.kind));
-    std::printf("arithmetic: %s; %zu unknowns with objects\n",
-                std::is_same_v<S, double> ? "real (direct current or no capacitance)" : "complex", unknowns);
-    std::printf("time: baseline assemble %.2f s, solve %.2f s; with objects assemble %.2f s, solve %.2f s\n",
-                base.assemble, base.solve, pert.assemble, pert.solve);
-    if (solved.baseline.surfaces.empty()) return;  // no sensing body: the probes tell
-    const Surface<S>& body = solved.baseline.surfaces[0];
-    if (body.kind == InterfaceKind::membrane) {
-        const auto& before = solved.baseline_solution.surfaces[0];
-        const auto& after = solved.perturbed_solution.surfaces[0];
-        double lo = 1e300, hi = 0, peak = 0;
-        std::size_t at = 0;
-        for (Eigen::Index k = 0; k < before.outer_potential.size(); ++k) {
-            const double v = magnitude(before.inner_potential(k) - before.outer_potential(k));
-            lo = std::min(lo, v), hi = std::max(hi, v);
-            const double d = magnitude((after.inner_potential(k) - after.outer_potential(k)) -
-                                       (before.inner_potential(k) - before.outer_potential(k)));
-            if (d > peak) peak = d, at = static_cast<std::size_t>(k);
-        }
-        const Vec3 c = body.mesh.centroid(at);
-        std::printf("baseline transdermal voltage |V|: %.4g .. %.4g V over the skin\n", lo, hi);
-        std::printf("electric image: peak |change| %.4g V at panel %zu (%.4g, %.4g, %.4g) m\n", peak, at, c.x(), c.y(),
-                    c.z());
-    }
-    for (std::size_t e = 0; e < solved.baseline.electrodes.size(); ++e)
-        std::printf("electrode %-12s baseline %.6g V %.6g A; change %.4g V %.4g A\n",
-                    solved.baseline.electrodes[e].name.c_str(),
-                    magnitude(solved.baseline_solution.electrode_potential[e]),
-                    magnitude(solved.baseline_solution.electrode_current[e]),
-                    magnitude(solved.perturbed_solution.electrode_potential[e] - solved.baseline_solution.electrode_potential[e]),
-                    magnitude(solved.perturbed_solution.electrode_current[e] - solved.baseline_solution.electrode_current[e]));
-}
-
-// Real-valued panel fields for the XDMF sidecar (ParaView reads real cell
-// data): per surface the magnitude of the water-side potential with the objects,
-// and on membranes the magnitude of the change of the transdermal voltage.
-template <class S>
-std::vector<XdmfSurface> write_surface_magnitudes(H5Group& root, const SolvedCase<S>& solved) {
-    std::vector<XdmfSurface> surfaces;
-    for (std::size_t s = 0; s < solved.perturbed.surfaces.size(); ++s) {
-        const Surface<S>& surface = solved.perturbed.surfaces[s];
-        const std::string name = surface_group_name(surface.mesh.name);
-        const SurfaceSolution<S>& after = solved.perturbed_solution.surfaces[s];
-        XdmfSurface x{"/mesh/" + name, surface.mesh.vertices.size(), surface.mesh.size(), {}};
-        std::vector<double> v;
-        for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k) v.push_back(magnitude(after.outer_potential(k)));
-        root.write("perturbed/" + name + "/outer_potential_magnitude", v, "V", "magnitude of the water-side potential");
-        x.cell_attributes.push_back({"|potential| (V)", "/perturbed/" + name + "/outer_potential_magnitude"});
-        if (s < solved.baseline.surfaces.size() && surface.kind == InterfaceKind::membrane) {
-            const SurfaceSolution<S>& before = solved.baseline_solution.surfaces[s];
-            v.clear();
-            for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k)
-                v.push_back(magnitude((after.inner_potential(k) - after.outer_potential(k)) -
-                                      (before.inner_potential(k) - before.outer_potential(k))));
-            root.write("difference/" + name + "/transdermal_voltage_magnitude", v, "V",
-                       "magnitude of the change of the transdermal voltage (the electric image)");
-            x.cell_attributes.push_back({"electric image |dV| (V)", "/difference/" + name + "/transdermal_voltage_magnitude"});
-        }
-        surfaces.push_back(x);
-    }
-    return surfaces;
-}
-
-template <class S>
-int solve_case(const CaseSpec& spec, const SolveArgs& args, const std::string& command_line) {
-    // Refuse an existing result or an unusable name before spending time on the solve.
-    check_xdmf_file_name(std::filesystem::path(args.output_path).filename().string());
-    H5Output output(args.output_path, args.force, "pass --force to replace it");
-    const QuadratureOptions quad = quadrature_options(spec);
-
-    SolvedCase<S> solved;
-    solved.baseline = build_scene<S>(spec, false);
-    solved.perturbed = build_scene<S>(spec, true);
-    if (!args.quiet)
-        std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
-                    quad.near_ratio, quad.far_ratio);
-
-    StageTimes base, pert;
-    solved.baseline_solution = solve_timed(solved.baseline, quad, base);
-    solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
-
-    write_result_metadata(output.root(), spec, command_line,
-                          "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
-    write_solve_result(output.root(), solved);
-    const ProbeValues<S> probes_before = evaluate_probes(spec, solved.baseline, solved.baseline_solution, quad);
-    const ProbeValues<S> probes_after = evaluate_probes(spec, solved.perturbed, solved.perturbed_solution, quad);
-    H5Group root = output.root();
-    write_probes(root, spec, probes_before, probes_after);
-    const std::vector<XdmfSurface> sidecar = write_surface_magnitudes(root, solved);
-    output.commit();
-    if (!sidecar.empty())
-        write_xdmf_sidecar(xdmf_sidecar_path(args.output_path),
-                           std::filesystem::path(args.output_path).filename().string(), sidecar);
-
-    if (!args.quiet) {
-        std::size_t unknowns = 0;
-        for (const auto& s : solved.perturbed.surfaces)
-            unknowns += (s.kind == InterfaceKind::sealed ? 1 : 2) * s.mesh.size();
-        print_summary(spec, solved, base, pert, unknowns + solved.perturbed.electrodes.size());
-        for (const ProbeSpec& probe : spec.probes) {
-            double peak = 0;
-            for (std::size_t i = probe.first_point; i < probe.first_point + probe.point_count; ++i)
-                peak = std::max(peak, magnitude(probes_after.potential[i] - probes_before.potential[i]));
-            std::printf("probe %-12s %zu points, largest |change of potential| %.4g V\n", probe.name.c_str(),
-                        probe.point_count, peak);
-        }
-        std::printf("wrote %s%s%s\n", args.output_path.c_str(), sidecar.empty() ? "" : " and ",
-                    sidecar.empty() ? "" : xdmf_sidecar_path(args.output_path).c_str());
-    }
-    return 0;
-}
-
-}  // namespace
 
 int solve_command(const SolveArgs& args, const std::string& command_line) {
     if (args.threads > 0) omp_set_num_threads(args.threads);
-    const CaseSpec spec = read_case_file(args.case_path);
-    return case_needs_complex(spec) ? solve_case<Complex>(spec, args, command_line)
-                                    : solve_case<double>(spec, args, command_line);
+    SolveOptions options;
+    options.output_path = args.output_path;
+    options.command_line = command_line;
+    options.force = args.force;
+    options.quiet = args.quiet;
+    run_solve(read_case_file(args.case_path), options);
+    return 0;
 }
 
 }  // namespace murk::cli
