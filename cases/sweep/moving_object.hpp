@@ -51,6 +51,9 @@ public:
     // the origin, so that every point (and thread) gets the identical block.
     std::shared_ptr<const MovingBlock<S>> block(const MovingObject<S>& object, const QuadratureOptions& quad) const;
 
+    std::size_t size() const { return forms_.size(); }
+    const MovingObject<S>& form(std::size_t k) const { return *forms_.at(k); }
+
 private:
     const SweepPlan* plan_;
     std::vector<std::unique_ptr<MovingObject<S>>> forms_;  // C order over (moving, size, conductivity, water)

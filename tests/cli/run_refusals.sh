@@ -1,7 +1,9 @@
 #!/usr/bin/env bash
 # murk run refuses, with one line and exit status 2, what would waste or lose work:
 # a sweep direction into the body, a leftover partial file without --resume or
-# --force, and noise keys that belong to another noise model.
+# --force, noise keys that belong to another noise model, settings of another
+# method, and a run estimated to need more memory than it may use. --estimate
+# prints the plan without running it.
 set -uo pipefail
 murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
@@ -36,4 +38,16 @@ sed -e 's/^\[sweep\]/[sweep]\nmethod = "dipole"\ncheck_points = -1/' "$base" > "
 expect_bad "negative check points" "sweep.check_points" "$murk" run "$dir/checks.toml" -o "$dir/g.h5" --quiet
 sed -e 's/^\[sweep\]/[sweep]\ncoupling_tolerance = 0.1/' "$base" > "$dir/tolerance.toml"
 expect_bad "loose coupling tolerance" "sweep.coupling_tolerance" "$murk" run "$dir/tolerance.toml" -o "$dir/h.h5" --quiet
+
+# Memory: a run estimated to need more than --memory-limit is refused before anything is
+# assembled or written, naming the system's size; a limit without a unit is refused.
+expect_bad "estimated memory above the limit" "panels), more than the 1 MiB" "$murk" run "$base" -o "$dir/m.h5" --memory-limit "1 MiB"
+[ ! -e "$dir/m.h5" ] && [ ! -e "$dir/m.h5.partial" ] || { echo "FAIL a refused run left a file"; failures=$((failures + 1)); }
+expect_bad "memory limit without a unit" "--memory-limit" "$murk" run "$base" -o "$dir/m.h5" --memory-limit 100
+# --estimate prints the plan (the demo's 2 x 3 x 7 = 42 points, all exact) and writes nothing.
+"$murk" run "$base" --estimate > "$dir/estimate.txt" 2>&1 || { echo "FAIL --estimate: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }
+grep -q "42 in all: 42 exact, 0 dipole, 0 full re-solve, 0 masked" "$dir/estimate.txt" \
+  || { echo "FAIL --estimate counts: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }
+grep -q "^memory: *about" "$dir/estimate.txt" && grep -q "^time: *about" "$dir/estimate.txt" \
+  || { echo "FAIL --estimate gives no memory or time"; failures=$((failures + 1)); }
 [ "$failures" -eq 0 ]
