@@ -8,7 +8,9 @@
 #include "cases/scene/scene_builder.hpp"
 #include "cases/solve/probe_output.hpp"
 #include "cases/solve/solve_output.hpp"
+#include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/memory_budget.hpp"
 
 #include <chrono>
 #include <cstdio>
@@ -115,6 +117,23 @@ std::vector<XdmfSurface> write_surface_magnitudes(H5Group& root, const SolvedCas
     return surfaces;
 }
 
+// The dense system of the scene with its objects is the largest thing held; a
+// case that would not fit is refused before it is allocated.
+template <class S>
+void require_memory_for(const Scene<S>& scene, double limit_bytes, const std::string& where) {
+    const double n = double(system_layout(scene).size);
+    const double bytes = n * n * sizeof(S);
+    if (limit_bytes <= 0) limit_bytes = default_memory_limit_bytes();
+    if (bytes <= limit_bytes) return;
+    std::size_t panels = 0;
+    for (const Surface<S>& s : scene.surfaces) panels += s.mesh.size();
+    throw InputError(where + ": the solve needs about " + memory_text(bytes) + " (a dense system of " +
+                     std::to_string(std::size_t(n)) + " unknowns from " + std::to_string(panels) +
+                     " panels), more than the " + memory_text(limit_bytes) +
+                     " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
+                     "imported mesh, or raise --memory-limit");
+}
+
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
@@ -125,6 +144,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     SolvedCase<S> solved;
     solved.baseline = build_scene<S>(spec, false);
     solved.perturbed = build_scene<S>(spec, true);
+    require_memory_for(solved.perturbed, options.memory_limit_bytes, spec.path);
     if (!options.quiet)
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
                     quad.near_ratio, quad.far_ratio);

@@ -11,11 +11,7 @@ struct RunOptions {
     bool force = false;
     bool quiet = false;
     bool estimate_only = false;    // print the plan and its cost, run nothing
-    double memory_limit_bytes = 0;  // refuse a run estimated to need more; 0: a share of physical memory
+    double memory_limit_bytes = 0;  // refuse a run estimated to need more; 0: solver/memory_budget.hpp
 };
-
-// The default memory limit: 80 % of the machine's physical memory, leaving room
-// for the system and the estimate's own error.
-double default_memory_limit_bytes();
 
 }  // namespace murk

@@ -2,6 +2,7 @@
 
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/memory_budget.hpp"
 
 #include <cstdio>
 
@@ -53,13 +54,6 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
 
 namespace {
 
-std::string bytes_text(double b) {
-    char buf[64];
-    if (b >= 1024.0 * 1024 * 1024) std::snprintf(buf, sizeof buf, "%.1f GiB", b / (1024.0 * 1024 * 1024));
-    else std::snprintf(buf, sizeof buf, "%.0f MiB", b / (1024.0 * 1024));
-    return buf;
-}
-
 std::string seconds_text(double s) {
     char buf[64];
     if (s < 120) std::snprintf(buf, sizeof buf, "%.1f s", s);
@@ -88,7 +82,7 @@ std::string format_estimate(const SweepEstimate& e) {
                   e.rates.entry_rate, e.rates.lu_flop_rate * 1e-9, e.rates.solve_byte_rate * 1e-9,
                   e.rates.block_flop_rate * 1e-9);
     out += buf;
-    std::snprintf(buf, sizeof buf, "memory:  about %s\n", bytes_text(e.memory_bytes).c_str());
+    std::snprintf(buf, sizeof buf, "memory:  about %s\n", memory_text(e.memory_bytes).c_str());
     out += buf;
     std::snprintf(buf, sizeof buf, "time:    about %s on %d thread%s: fixed part %s, points %s\n",
                   seconds_text(e.total_seconds()).c_str(), e.rates.threads, e.rates.threads == 1 ? "" : "s",
@@ -99,9 +93,9 @@ std::string format_estimate(const SweepEstimate& e) {
 
 void require_memory(const SweepEstimate& e, double limit_bytes, const std::string& where) {
     if (e.memory_bytes <= limit_bytes) return;
-    throw InputError(where + ": the sweep needs about " + bytes_text(e.memory_bytes) + " (a dense system of " +
+    throw InputError(where + ": the sweep needs about " + memory_text(e.memory_bytes) + " (a dense system of " +
                      std::to_string(e.sizes.fixed_unknowns) + " unknowns from " + std::to_string(e.sizes.fixed_panels) +
-                     " panels), more than the " + bytes_text(limit_bytes) +
+                     " panels), more than the " + memory_text(limit_bytes) +
                      " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
                      "imported mesh, or raise --memory-limit");
 }

@@ -4,6 +4,7 @@
 #include "cases/sweep/path_check.hpp"
 #include "cases/sweep/sweep_estimate.hpp"
 #include "cases/sweep/sweep_points.hpp"
+#include "solver/memory_budget.hpp"
 
 #include <omp.h>
 

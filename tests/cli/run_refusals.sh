@@ -43,6 +43,8 @@ expect_bad "loose coupling tolerance" "sweep.coupling_tolerance" "$murk" run "$d
 # assembled or written, naming the system's size; a limit without a unit is refused.
 expect_bad "estimated memory above the limit" "panels), more than the 1 MiB" "$murk" run "$base" -o "$dir/m.h5" --memory-limit "1 MiB"
 [ ! -e "$dir/m.h5" ] && [ ! -e "$dir/m.h5.partial" ] || { echo "FAIL a refused run left a file"; failures=$((failures + 1)); }
+expect_bad "murk solve: memory above the limit" "panels), more than the 1 MiB" "$murk" solve "$src/cases/examples/fish_prey.toml" -o "$dir/s.h5" --memory-limit "1 MiB"
+[ ! -e "$dir/s.h5" ] && [ ! -e "$dir/s.h5.partial" ] || { echo "FAIL a refused solve left a file"; failures=$((failures + 1)); }
 expect_bad "memory limit without a unit" "--memory-limit" "$murk" run "$base" -o "$dir/m.h5" --memory-limit 100
 # --estimate prints the plan (the demo's 2 x 3 x 7 = 42 points, all exact) and writes nothing.
 "$murk" run "$base" --estimate > "$dir/estimate.txt" 2>&1 || { echo "FAIL --estimate: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }

@@ -20,6 +20,7 @@ struct SolveArgs {
     bool force = false;
     bool quiet = false;
     int threads = 0;  // 0: OpenMP's default
+    std::string memory_limit;  // e.g. "8 GiB"; empty: 80 % of physical memory
 };
 int solve_command(const SolveArgs& args, const std::string& command_line);
 

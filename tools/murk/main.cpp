@@ -52,6 +52,8 @@ int main(int argc, char** argv) {
     solve_cmd->add_flag("--force", solve.force, "replace an existing result file");
     solve_cmd->add_flag("--quiet", solve.quiet, "print nothing but errors");
     solve_cmd->add_option("--threads", solve.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+    solve_cmd->add_option("--memory-limit", solve.memory_limit,
+                          "refuse a case whose system needs more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
 
     murk::cli::MeshArgs mesh;
     auto* mesh_cmd = app.add_subcommand("mesh", "mesh statistics and quality report; conversion to STL or VTK");
