@@ -1,6 +1,7 @@
 #include "geometry/mesh_quality.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/spatial_index.hpp"
 #include "geometry/triangle_intersection.hpp"
@@ -277,7 +278,7 @@ MeshReport inspect_mesh(const TriangleMesh& m) {
 void require_valid_mesh(const TriangleMesh& mesh, const std::string& where) {
     const MeshReport r = inspect_mesh(mesh);
     if (r.problems.empty()) return;
-    std::string msg = where + ": mesh " + (mesh.name.empty() ? std::string() : "'" + mesh.name + "' ") + "is not usable: " +
+    std::string msg = where + ": mesh " + (mesh.name.empty() ? std::string() : in_quotes(mesh.name) + " ") + "is not usable: " +
                       r.problems.front();
     if (r.problems.size() > 1) msg += " (and " + plural(r.problems.size() - 1, "more problem", "more problems") + ")";
     throw InputError(msg);
@@ -285,7 +286,7 @@ void require_valid_mesh(const TriangleMesh& mesh, const std::string& where) {
 
 std::string format_report(const MeshReport& r) {
     auto yes = [](bool b) { return b ? "yes" : "no"; };
-    std::string s = "mesh" + (r.name.empty() ? std::string() : " '" + r.name + "'") + ": " + sz(r.panel_count) + " panels, " +
+    std::string s = "mesh" + (r.name.empty() ? std::string() : " " + in_quotes(r.name)) + ": " + sz(r.panel_count) + " panels, " +
                     sz(r.vertex_count) + " vertices, " + plural(r.component_count, "piece", "pieces") + "\n";
     s += "edge length: min " + num(r.min_edge) + " m, mean " + num(r.mean_edge) + " m, max " + num(r.max_edge) + " m\n";
     s += "panel area: min " + num(r.min_area) + " m^2, max " + num(r.max_area) + " m^2; worst aspect ratio " +

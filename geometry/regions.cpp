@@ -1,6 +1,7 @@
 #include "geometry/regions.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -10,9 +11,9 @@ namespace murk {
 namespace {
 
 std::string region_label(const TriangleMesh& mesh, int tag) {
-    const std::string where = mesh.name.empty() ? "" : " on mesh '" + mesh.name + "'";
+    const std::string where = mesh.name.empty() ? "" : " on mesh " + in_quotes(mesh.name);
     if (tag >= 0 && static_cast<std::size_t>(tag) < mesh.region_names.size() && !mesh.region_names[tag].empty())
-        return "region '" + mesh.region_names[tag] + "'" + where;
+        return "region " + in_quotes(mesh.region_names[tag]) + where;
     return "region " + std::to_string(tag) + where;
 }
 
@@ -27,7 +28,7 @@ std::string num(double v) {
 int add_region(TriangleMesh& mesh, const std::string& name) {
     if (name.empty()) throw InputError("region name must not be empty");
     if (std::find(mesh.region_names.begin(), mesh.region_names.end(), name) != mesh.region_names.end())
-        throw InputError("region '" + name + "' is defined twice" + (mesh.name.empty() ? "" : " on mesh '" + mesh.name + "'"));
+        throw InputError("region " + in_quotes(name) + " is defined twice" + (mesh.name.empty() ? "" : " on mesh " + in_quotes(mesh.name)));
     int tag = std::max<int>(1, static_cast<int>(mesh.region_names.size()));
     for (int r : mesh.region) tag = std::max(tag, r + 1);
     mesh.region_names.resize(tag + 1);

@@ -3,6 +3,7 @@
 #include <array>
 #include <cmath>
 #include <cstdint>
+#include <limits>
 #include <map>
 #include <unordered_map>
 #include <vector>
@@ -35,9 +36,21 @@ void weld_vertices(TriangleMesh& mesh, double tolerance) {
             }
         };
         std::unordered_map<Cell, std::vector<int>, CellHash> grid;
+        // Cells count from the lowest corner, so that a small mesh far from the origin
+        // does not need cell numbers beyond 64 bits; a mesh spanning more than 2^52
+        // cells shares its outermost ones, which costs time but not correctness (the
+        // distance test decides, and clamping never separates neighbouring cells).
+        Vec3 lo = Vec3::Constant(std::numeric_limits<double>::infinity());
+        for (std::size_t v = 0; v < nv; ++v)
+            if (used[v]) lo = lo.cwiseMin(mesh.vertices[v]);
+        constexpr double kMaxCell = 4503599627370496.0;  // 2^52
         auto cell_of = [&](const Vec3& p) {
-            return Cell{static_cast<std::int64_t>(std::floor(p.x() / tolerance)), static_cast<std::int64_t>(std::floor(p.y() / tolerance)),
-                        static_cast<std::int64_t>(std::floor(p.z() / tolerance))};
+            Cell c;
+            for (int d = 0; d < 3; ++d) {
+                const double x = std::floor((p[d] - lo[d]) / tolerance);
+                c[d] = static_cast<std::int64_t>(x >= 0.0 ? (x < kMaxCell ? x : kMaxCell) : 0.0);
+            }
+            return c;
         };
         for (std::size_t v = 0; v < nv; ++v) {
             if (!used[v]) continue;
