@@ -283,7 +283,7 @@ TEST_CASE("case reader: a case file that cannot be opened") {
         read_case_file("/nonexistent/murk/case.toml");
         FAIL("no error");
     } catch (const InputError& e) {
-        CHECK(std::string(e.what()) == "/nonexistent/murk/case.toml: cannot open the case file");
+        CHECK(std::string(e.what()).rfind("/nonexistent/murk/case.toml: cannot open the case file", 0) == 0);
     }
 }
 

@@ -1,7 +1,10 @@
 #include "cases/input/case_reader.hpp"
 
+#include "cases/input/case_limits.hpp"
 #include "cases/input/units.hpp"
+#include "geometry/file_bytes.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 
 #include <toml++/toml.h>
 
@@ -25,8 +28,10 @@ struct Context {
 
 int line_of(const toml::node& n) { return static_cast<int>(n.source().begin.line); }
 
+// "file:line: key": the file's name and the key may come from the user, so both are
+// made printable and short (message_text.hpp).
 std::string at(const Context& ctx, int line, const std::string& key) {
-    return ctx.file + (line > 0 ? ":" + std::to_string(line) : std::string()) + ": " + key;
+    return printable(ctx.file) + (line > 0 ? ":" + std::to_string(line) : std::string()) + ": " + printable(key);
 }
 
 [[noreturn]] void fail(const std::string& where, const std::string& what) {
@@ -42,7 +47,7 @@ std::string format_number(double v) {
 // What a node holds, in words, for "got ..." in messages.
 std::string describe(const toml::node& n) {
     switch (n.type()) {
-        case toml::node_type::string: return "'" + n.as_string()->get() + "'";
+        case toml::node_type::string: return in_quotes(n.as_string()->get());
         case toml::node_type::integer: return "the number " + std::to_string(n.as_integer()->get());
         case toml::node_type::floating_point: return "the number " + format_number(n.as_floating_point()->get());
         case toml::node_type::boolean: return n.as_boolean()->get() ? "true" : "false";
@@ -81,7 +86,8 @@ void check_keys(const Section& sec, const std::vector<std::string>& allowed) {
         const std::string k(key.str());
         if (std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
         const int line = key.source().begin.line ? static_cast<int>(key.source().begin.line) : line_of(node);
-        fail(at(sec.ctx, line, sec.key_path(k)), "unknown key; allowed here: " + join(allowed));
+        // The key is the user's: shown as short as a value, so that the list of allowed keys fits on the line.
+        fail(at(sec.ctx, line, sec.key_path(printable(k, kEchoedValueChars))), "unknown key; allowed here: " + join(allowed));
     }
 }
 
@@ -96,12 +102,25 @@ std::string read_string(const Section& sec, const std::string& key, const toml::
     return n.as_string()->get();
 }
 
+// A name (of an object, a probe, an electrode): it names results and appears in
+// messages, so it is short and on one line.
+std::string read_name(const Section& sec, const std::string& key, const toml::node& n) {
+    const std::string name = read_string(sec, key, n);
+    if (name.empty()) fail(sec.where(key), "must not be empty");
+    if (name.size() > kMaxNameBytes)
+        fail(sec.where(key), "a name has at most " + std::to_string(kMaxNameBytes) + " bytes, got " + in_quotes(name));
+    for (const char c : name)
+        if (static_cast<unsigned char>(c) < 0x20 || c == 0x7F)
+            fail(sec.where(key), "a name cannot hold control characters such as line breaks, got " + in_quotes(name));
+    return name;
+}
+
 // One of `choices`, written as a string.
 std::string read_choice(const Section& sec, const std::string& key, const toml::node& n,
                         const std::vector<std::string>& choices) {
     const std::string value = read_string(sec, key, n);
     if (std::find(choices.begin(), choices.end(), value) == choices.end())
-        fail(sec.where(key), "expected one of " + join(choices) + ", got '" + value + "'");
+        fail(sec.where(key), "expected one of " + join(choices) + ", got " + in_quotes(value));
     return value;
 }
 
@@ -193,7 +212,7 @@ const toml::table& as_table(const Section& parent, const std::string& key, const
     return *n.as_table();
 }
 
-SourceLine source_line(const Section& sec) { return SourceLine{sec.ctx.file, sec.line, sec.path}; }
+SourceLine source_line(const Section& sec) { return SourceLine{printable(sec.ctx.file), sec.line, sec.path}; }
 
 // ---- shapes ---------------------------------------------------------------
 
@@ -227,9 +246,9 @@ std::string read_mesh_file(const Section& sec) {
     std::string ext = path.extension().string();
     std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
     if (ext != ".stl" && ext != ".msh")
-        fail(sec.where("file"), "expected an STL (.stl) or Gmsh (.msh) file, got '" + name + "'");
+        fail(sec.where("file"), "expected an STL (.stl) or Gmsh (.msh) file, got " + in_quotes(name));
     std::error_code ec;
-    if (!fs::is_regular_file(path, ec)) fail(sec.where("file"), "no such file: '" + path.string() + "'");
+    if (!fs::is_regular_file(path, ec)) fail(sec.where("file"), "no such file: " + in_quotes(path.string(), kEchoedNameChars));
     return path.lexically_normal().string();
 }
 
@@ -290,7 +309,7 @@ WaterSpec read_water(const Section& sec) {
         PlaneSpec p;
         p.height_m = read_quantity(sec, key, *sec.find(key), Dimension::length);
         p.water_below = surface != nullptr;
-        p.source = SourceLine{sec.ctx.file, line_of(*sec.find(key)), sec.key_path(key)};
+        p.source = SourceLine{printable(sec.ctx.file), line_of(*sec.find(key)), sec.key_path(key)};
         w.plane = p;
     }
     return w;
@@ -319,6 +338,9 @@ std::vector<ProfileStation> default_fish_profile() {
 
 std::vector<ProfileStation> read_profile(const Section& sec, const toml::node& n) {
     const toml::array* arr = n.as_array();
+    if (arr && arr->size() > kMaxProfileStations)
+        fail(sec.where("profile"), "expected at most " + std::to_string(kMaxProfileStations) + " stations, got " +
+                                       std::to_string(arr->size()));
     if (!arr || arr->size() < 3)
         fail(sec.where("profile"), "expected an array of at least 3 stations [x, half_width, half_height] "
                                    "(fractions of the length), got " +
@@ -354,8 +376,8 @@ std::vector<ProfileStation> read_profile(const Section& sec, const toml::node& n
 }
 
 // A whole number from lo to hi (a count of points).
-int read_count(const Section& sec, const std::string& key, const toml::node& n, int lo, int hi) {
-    if (!n.is_integer() || n.as_integer()->get() < lo || n.as_integer()->get() > hi)
+int read_count(const Section& sec, const std::string& key, const toml::node& n, std::int64_t lo, std::size_t hi) {
+    if (!n.is_integer() || n.as_integer()->get() < lo || n.as_integer()->get() > static_cast<std::int64_t>(hi))
         fail(sec.where(key), "expected a whole number from " + std::to_string(lo) + " to " + std::to_string(hi) +
                                  ", got " + describe(n));
     return static_cast<int>(n.as_integer()->get());
@@ -370,6 +392,9 @@ std::vector<double> read_weights(const Section& sec) {
     if (!arr || arr->size() < 2)
         fail(sec.where("weights"), "expected an array of at least 2 numbers, got " +
                                        (arr ? "an array of " + std::to_string(arr->size()) : describe(n)));
+    if (arr->size() > kMaxLinePoints)
+        fail(sec.where("weights"), "expected at most " + std::to_string(kMaxLinePoints) + " weights (one point each), got " +
+                                       std::to_string(arr->size()));
     std::vector<double> w;
     for (std::size_t i = 0; i < arr->size(); ++i) {
         const toml::node& e = *arr->get(i);
@@ -417,7 +442,7 @@ OrganSpec read_organ(const Section& sec) {
             if (points) fail(sec.where("points"), "not used with the dipole distribution (always 2 points)");
             o.points = 2;
         } else if (points) {
-            o.points = read_count(sec, "points", *points, 2, 1000);
+            o.points = read_count(sec, "points", *points, 2, kMaxLinePoints);
         }
     }
     o.peak_current_A = required_positive(sec, "current", Dimension::current);
@@ -474,11 +499,10 @@ ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::stri
             fail(sec.where("form"), "region electrodes need a hull read from a Gmsh .msh file (robot.shape = \"mesh\")");
         e.region = read_string(sec, "region", required(sec, "region", "a physical group name of the mesh"));
     }
-    e.name = read_string(sec, "name", required(sec, "name"));
-    if (e.name.empty()) fail(sec.where("name"), "must not be empty");
+    e.name = read_name(sec, "name", required(sec, "name"));
     if (e.name.rfind(kObjectElectrodePrefix, 0) == 0)
         fail(sec.where("name"), "names starting with '" + kObjectElectrodePrefix +
-                                    "' are kept for conducting objects, got '" + e.name + "'");
+                                    "' are kept for conducting objects, got " + in_quotes(e.name));
 
     const std::string role = read_choice(sec, "role", required(sec, "role", "emitter or sensor"), {"emitter", "sensor"});
     const toml::node* current = sec.find("current");
@@ -520,7 +544,7 @@ RobotSpec read_robot(const Section& sec) {
         const toml::node& n = *arr->get(i);
         const Section es{*n.as_table(), sec.key_path("electrode[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx};
         ElectrodeSpec e = read_electrode(es, kind, r.hull.mesh_file);
-        if (!names.insert(e.name).second) fail(es.where("name"), "another electrode is already named '" + e.name + "'");
+        if (!names.insert(e.name).second) fail(es.where("name"), "another electrode is already named " + in_quotes(e.name));
         emitter = emitter || e.drive == ElectrodeDrive::current || e.drive == ElectrodeDrive::voltage;
         r.electrodes.push_back(std::move(e));
     }
@@ -535,8 +559,7 @@ ObjectSpec read_object(const Section& sec, std::size_t index) {
                            shape_keys(kind)));
     ObjectSpec o;
     o.source = source_line(sec);
-    o.name = sec.find("name") ? read_string(sec, "name", *sec.find("name")) : "object" + std::to_string(index + 1);
-    if (o.name.empty()) fail(sec.where("name"), "must not be empty");
+    o.name = sec.find("name") ? read_name(sec, "name", *sec.find("name")) : "object" + std::to_string(index + 1);
     o.shape = read_shape_sizes(sec, kind);
     o.position_m = read_lengths3(sec, "position", required(sec, "position", "the centre, [x, y, z]"), false);
     o.orientation = read_orientation(sec);
@@ -607,7 +630,7 @@ SourceSpec read_source(const Section& sec) {
     if (sec.find("peak_current"))
         fail(sec.where("peak_current"), "only used with weights; for an equal split give total_current");
     s.share = LineShare::equal;
-    s.points = read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, 1000);
+    s.points = read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, kMaxLinePoints);
     s.total_current_A = nonzero_current(
         sec, "total_current", "split equally over the points; or give weights = [...] with peak_current = \"...\"");
     return s;
@@ -673,7 +696,7 @@ ProbeSpec read_probe(const Section& sec) {
         p.form = ProbeForm::line;
         read_ends(sec, p.from_m, p.to_m);
         p.shape = {static_cast<std::size_t>(
-            read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, 1000))};
+            read_count(sec, "points", required(sec, "points", "number of points, 2 to 1000"), 2, kMaxLinePoints))};
     } else {
         check_keys(sec, {"name", "form", "corner", "along", "across", "points"});
         p.form = ProbeForm::grid;
@@ -687,13 +710,14 @@ ProbeSpec read_probe(const Section& sec) {
         read_array(sec, "points", required(sec, "points", "[points along, points across]"), 2,
                    "two whole numbers [points along, points across], each 2 to 1000",
                    [&](const std::string& where, const toml::node& e, std::size_t i) {
-                       if (!e.is_integer() || e.as_integer()->get() < 2 || e.as_integer()->get() > 1000)
-                           fail(where, "expected a whole number from 2 to 1000, got " + describe(e));
+                       if (!e.is_integer() || e.as_integer()->get() < 2 ||
+                           e.as_integer()->get() > static_cast<std::int64_t>(kMaxLinePoints))
+                           fail(where, "expected a whole number from 2 to " + std::to_string(kMaxLinePoints) + ", got " +
+                                           describe(e));
                        p.shape[i] = static_cast<std::size_t>(e.as_integer()->get());
                    });
     }
-    p.name = read_string(sec, "name", required(sec, "name", "a name for the probe's output"));
-    if (p.name.empty()) fail(sec.where("name"), "must not be empty");
+    p.name = read_name(sec, "name", required(sec, "name", "a name for the probe's output"));
     p.point_count = 1;
     for (std::size_t n : p.shape) p.point_count *= n;
     return p;
@@ -725,6 +749,9 @@ std::vector<double> read_axis_values(const Section& sec, const std::string& key,
     std::vector<double> values;
     if (const toml::array* arr = n.as_array()) {
         if (arr->empty()) fail(sec.where(key), "expected at least one value");
+        if (arr->size() > kMaxAxisValues)
+            fail(sec.where(key), "expected at most " + std::to_string(kMaxAxisValues) + " values, got an array of " +
+                                     std::to_string(arr->size()));
         for (std::size_t i = 0; i < arr->size(); ++i) {
             const toml::node& e = *arr->get(i);
             const std::string where = at(sec.ctx, line_of(e), sec.key_path(key) + "[" + std::to_string(i + 1) + "]");
@@ -742,7 +769,7 @@ std::vector<double> read_axis_values(const Section& sec, const std::string& key,
         const double from = any_sign ? read_quantity(range, "from", required(range, "from"), d)
                                      : required_positive(range, "from", d);
         const double to = any_sign ? read_quantity(range, "to", required(range, "to"), d) : required_positive(range, "to", d);
-        const int count = read_count(range, "count", required(range, "count"), 1, 100000);
+        const int count = read_count(range, "count", required(range, "count"), 1, kMaxAxisValues);
         std::string spacing = "linear";
         if (const toml::node* sp = range.find("spacing")) spacing = read_choice(range, "spacing", *sp, {"linear", "log"});
         if (spacing == "log" && !(from > 0.0)) fail(range.where("from"), "log spacing needs a positive 'from'");
@@ -806,6 +833,9 @@ SweepSpec read_sweep(const Section& sec) {
     if (const toml::node* list = sec.find("objects")) {
         const toml::array* arr = list->as_array();
         if (!arr || arr->empty()) fail(sec.where("objects"), "expected an array of object names, got " + describe(*list));
+        if (arr->size() > kMaxAxisValues)
+            fail(sec.where("objects"), "expected at most " + std::to_string(kMaxAxisValues) + " names, got an array of " +
+                                           std::to_string(arr->size()));
         for (std::size_t i = 0; i < arr->size(); ++i) {
             const toml::node& e = *arr->get(i);
             if (!e.is_string())
@@ -840,6 +870,17 @@ SweepSpec read_sweep(const Section& sec) {
     }
     if (s.grid && !s.distance_m.empty())
         fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
+    // Every combination of the axes' values is a point; each axis is at most
+    // kMaxAxisValues long, so the running product cannot overflow before the check.
+    std::size_t points = 1;
+    for (const std::size_t n : {s.distance_m.size(), s.size_m.size(), s.conductivity_S_per_m.size(),
+                                s.water_conductivity_S_per_m.size(), s.objects.size(), s.grid ? s.grid->u_m.size() : 0,
+                                s.grid ? s.grid->v_m.size() : 0}) {
+        points *= std::max<std::size_t>(n, 1);
+        if (points > kMaxSweepPoints)
+            fail(sec.where_self(), "the axes give more than " + std::to_string(kMaxSweepPoints) +
+                                       " points (the product of their lengths), the most murk runs in one sweep");
+    }
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
         s.water_conductivity_S_per_m.empty() && s.objects.empty())
@@ -872,6 +913,9 @@ DetectionSpec read_detection(const Section& sec) {
         if (const toml::node* zones = sec.find("receptor_zones")) {
             const toml::array* arr = zones->as_array();
             if (!arr) fail(sec.where("receptor_zones"), "expected an array of tables {from, to, density}, got " + describe(*zones));
+            if (arr->size() > kMaxReceptorZones)
+                fail(sec.where("receptor_zones"), "expected at most " + std::to_string(kMaxReceptorZones) +
+                                                      " zones, got an array of " + std::to_string(arr->size()));
             for (std::size_t i = 0; i < arr->size(); ++i) {
                 const toml::node& z = *arr->get(i);
                 const std::string key = "receptor_zones[" + std::to_string(i + 1) + "]";
@@ -939,14 +983,25 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     std::set<std::string> object_names;
     read_tables(sec, "object", [&](const Section& os, std::size_t i) {
         ObjectSpec o = read_object(os, i);
-        if (!object_names.insert(o.name).second) fail(os.where("name"), "another object is already named '" + o.name + "'");
+        if (!object_names.insert(o.name).second) fail(os.where("name"), "another object is already named " + in_quotes(o.name));
         spec.objects.push_back(std::move(o));
     });
-    read_tables(sec, "source", [&](const Section& ss, std::size_t) { spec.sources.push_back(read_source(ss)); });
+    std::size_t point_sources = spec.fish ? static_cast<std::size_t>(spec.fish->organ.points) : 0;
+    read_tables(sec, "source", [&](const Section& ss, std::size_t) {
+        SourceSpec s = read_source(ss);
+        point_sources += s.form == SourceForm::point ? 1 : static_cast<std::size_t>(s.points);
+        if (point_sources > kMaxPointSources)
+            fail(ss.where_self(), "the case would have more than " + std::to_string(kMaxPointSources) +
+                                      " point sources (the organ's and every [[source]]'s points), the most murk takes");
+        spec.sources.push_back(std::move(s));
+    });
     std::set<std::string> probe_names;
     read_tables(sec, "probe", [&](const Section& ps, std::size_t i) {
         ProbeSpec p = read_probe(ps);
-        if (!probe_names.insert(p.name).second) fail(ps.where("name"), "another probe is already named '" + p.name + "'");
+        if (!probe_names.insert(p.name).second) fail(ps.where("name"), "another probe is already named " + in_quotes(p.name));
+        if (p.point_count > kMaxProbePoints - spec.probe_points.size())
+            fail(ps.where_self(), "the probes would have more than " + std::to_string(kMaxProbePoints) +
+                                      " points in all, the most murk takes");
         p.first_point = spec.probe_points.size();
         for (ProbePoint& x : probe_points_of(p, i)) spec.probe_points.push_back(std::move(x));
         spec.probes.push_back(std::move(p));
@@ -967,7 +1022,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
         if (!spec.sweep->object.empty()) names.push_back(spec.sweep->object);
         for (const std::string& n : names)
             if (!object_names.count(n))
-                fail(sw.where(spec.sweep->objects.empty() ? "object" : "objects"), "no [[object]] is named '" + n + "'");
+                fail(sw.where(spec.sweep->objects.empty() ? "object" : "objects"), "no [[object]] is named " + in_quotes(n));
     }
 
     // Without a body nothing drives a current or reads one unless the case has
@@ -984,7 +1039,7 @@ CaseSpec read_case(const std::string& text, const Context& ctx) {
         root = toml::parse(std::string_view(text), std::string_view(ctx.file));
     } catch (const toml::parse_error& e) {
         throw InputError(at(ctx, static_cast<int>(e.source().begin.line), "TOML syntax") + ": " +
-                         std::string(e.description()));
+                         printable(e.description(), 120));
     }
     CaseSpec spec = read_root(root, ctx);
     spec.path = ctx.file;
@@ -995,12 +1050,7 @@ CaseSpec read_case(const std::string& text, const Context& ctx) {
 }  // namespace
 
 CaseSpec read_case_file(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) throw InputError(path + ": cannot open the case file");
-    std::ostringstream text;
-    text << in.rdbuf();
-    if (in.bad()) throw InputError(path + ": cannot read the case file");
-    return read_case(text.str(), Context{path, fs::path(path).parent_path()});
+    return read_case(read_file_bytes(path, kMaxCaseFileBytes, "case file"), Context{path, fs::path(path).parent_path()});
 }
 
 CaseSpec read_case_text(const std::string& text, const std::string& name_for_messages) {

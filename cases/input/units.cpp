@@ -1,6 +1,7 @@
 #include "cases/input/units.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 
 #include <udunits2.h>
 
@@ -17,6 +18,8 @@
 namespace murk {
 
 namespace {
+
+constexpr std::size_t kMaxQuantityBytes = 200;
 
 // The unit database, loaded once on first use. UDUNITS-2 keeps global state
 // (status, parser), so every call into it holds `mutex`.
@@ -151,13 +154,13 @@ std::optional<std::string> strip_root_hertz(const std::string& unit) {
 // an empty string when the unit is acceptable.
 std::string unit_syntax_problem(const std::string& unit) {
     const std::string fractional =
-        "fractional exponents are not supported in '" + unit +
-        "' (only integer powers such as m^2 or m^-1; write noise densities as 'nV/sqrt(Hz)')";
+        "fractional exponents are not supported in " + in_quotes(unit) +
+        " (only integer powers such as m^2 or m^-1; write noise densities as 'nV/sqrt(Hz)')";
     if (unit.find('@') != std::string::npos || unit.find("since") != std::string::npos)
-        return "'" + unit + "' is not a plain unit (offsets and time origins are not allowed)";
+        return in_quotes(unit) + " is not a plain unit (offsets and time origins are not allowed)";
     for (const char* log : {"lg(", "ln(", "lb(", "log("})
         if (unit.find(log) != std::string::npos)
-            return "'" + unit + "' is not a plain unit (logarithmic units are not allowed)";
+            return in_quotes(unit) + " is not a plain unit (logarithmic units are not allowed)";
     if (unit.find("sqrt") != std::string::npos || unit.find("√") != std::string::npos)
         return "a square root is only understood as a trailing '/sqrt(Hz)' of a noise density, not in '" +
                unit + "'";
@@ -181,7 +184,7 @@ std::string unit_syntax_problem(const std::string& unit) {
             p > 0 && (is_unit_letter(unit[p - 1]) || unit[p - 1] == '^' ||
                       (unit[p - 1] == '*' && p > 1 && unit[p - 2] == '*'));
         if (!exponent)
-            return "the unit '" + unit + "' contains a number; put the whole number in front of the unit";
+            return "the unit " + in_quotes(unit) + " contains a number; put the whole number in front of the unit";
         std::size_t end = i;
         while (end < unit.size() && is_digit(unit[end])) ++end;
         if (end + 1 < unit.size() && (unit[end] == '.' || unit[end] == '/') && is_digit(unit[end + 1]))
@@ -308,6 +311,13 @@ std::string example_quantity(Dimension d) {
 double parse_quantity(const std::string& text, Dimension expected, const std::string& where) {
     const std::string trimmed = trim(text);
     if (trimmed.empty()) fail(where, "empty text; " + expected_phrase(expected));
+    // UDUNITS-2 reads C strings: a NUL byte would hide the rest of the unit from it.
+    // A quantity is a short line of text; refusing more keeps that library on safe ground.
+    if (trimmed.size() > kMaxQuantityBytes)
+        fail(where, "a quantity is at most " + std::to_string(kMaxQuantityBytes) + " bytes of text, got " + in_quotes(trimmed));
+    for (const char c : trimmed)
+        if ((static_cast<unsigned char>(c) < 0x20 && c != ' ' && c != '\t') || c == 0x7F)
+            fail(where, "a quantity is one line of text without control characters, got " + in_quotes(trimmed));
 
     const std::size_t n = number_length(trimmed);
     if (n == 0) {
@@ -315,14 +325,14 @@ double parse_quantity(const std::string& text, Dimension expected, const std::st
         for (char c : trimmed) lower += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
         const std::size_t skip = (lower[0] == '+' || lower[0] == '-') ? 1 : 0;
         if (lower.compare(skip, 3, "nan") == 0 || lower.compare(skip, 3, "inf") == 0)
-            fail(where, "'" + trimmed + "' is not a finite number; " + expected_phrase(expected));
-        fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (it does not start with a number)");
+            fail(where, in_quotes(trimmed) + " is not a finite number; " + expected_phrase(expected));
+        fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (it does not start with a number)");
     }
     double number = 0.0;
     const std::string number_text = trimmed.substr(trimmed[0] == '+' ? 1 : 0, n - (trimmed[0] == '+' ? 1 : 0));
     const auto [end, error] = std::from_chars(number_text.data(), number_text.data() + number_text.size(), number);
     if (error != std::errc() || end != number_text.data() + number_text.size() || !std::isfinite(number))
-        fail(where, "the number in '" + trimmed + "' is out of range; " + expected_phrase(expected));
+        fail(where, "the number in " + in_quotes(trimmed) + " is out of range; " + expected_phrase(expected));
 
     std::string unit = trim(trimmed.substr(n));
     const std::optional<std::string> root_hertz_base = strip_root_hertz(unit);
@@ -330,46 +340,46 @@ double parse_quantity(const std::string& text, Dimension expected, const std::st
 
     if (unit.empty()) {
         if (root_hertz_base)
-            fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (no unit before /sqrt(Hz))");
+            fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (no unit before /sqrt(Hz))");
         if (allows_bare_number(expected)) return number;
-        fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (no unit)");
+        fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (no unit)");
     }
     if (const std::string problem = unit_syntax_problem(unit); !problem.empty()) fail(where, problem);
     if (expected == Dimension::frequency &&
         (unit.find("rad") != std::string::npos || unit.find("rpm") != std::string::npos))
-        fail(where, "angular frequencies are ambiguous ('" + trimmed + "'); give the frequency in Hz");
+        fail(where, "angular frequencies are ambiguous (" + in_quotes(trimmed) + "); give the frequency in Hz");
 
     const std::string expression = with_degree_names(unit);
     UnitSystem& units = unit_system();
     std::lock_guard<std::mutex> lock(units.mutex);
     const UnitPtr parsed = parse_unit_locked(expression);
-    if (!parsed) fail(where, "unknown unit '" + unit + "' in '" + trimmed + "'; " + expected_phrase(expected));
+    if (!parsed) fail(where, "unknown unit " + in_quotes(unit) + "; " + expected_phrase(expected));
 
     std::optional<double> value;
     if (root_hertz_base) {
         if (!is_noise_density(expected))
-            fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (a noise density)");
+            fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (a noise density)");
         value = convert_locked(number, parsed.get(), reference_expression(expected));
         if (!value)
-            fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (" +
+            fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (" +
                             describe_locked(parsed.get()) + " per root hertz)");
     } else if (is_noise_density(expected)) {
         // A power spectral density such as "100 nV^2/Hz": its square root.
         const std::string squared = reference_expression(expected) + "^2/Hz";
         value = convert_locked(number, parsed.get(), squared);
-        if (!value) fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (" +
+        if (!value) fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (" +
                                     describe_locked(parsed.get()) + ")");
         if (*value < 0.0)
-            fail(where, "a power spectral density cannot be negative, got '" + trimmed + "'");
+            fail(where, "a power spectral density cannot be negative, got " + in_quotes(trimmed));
         value = std::sqrt(*value);
     } else {
         value = convert_locked(number, parsed.get(), reference_expression(expected));
         if (!value)
-            fail(where, expected_phrase(expected) + ", got '" + trimmed + "' (" +
+            fail(where, expected_phrase(expected) + ", got " + in_quotes(trimmed) + " (" +
                             describe_locked(parsed.get()) + ")");
     }
     if (!std::isfinite(*value))
-        fail(where, "'" + trimmed + "' is out of range once converted to " + si_unit(expected));
+        fail(where, in_quotes(trimmed) + " is out of range once converted to " + si_unit(expected));
     return *value;
 }
 

@@ -4,6 +4,7 @@
 
 #include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 #include "geometry/mesh_io.hpp"
 #include "geometry/mesh_quality.hpp"
 #include "geometry/regions.hpp"
@@ -202,12 +203,12 @@ std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
             std::string known;
             for (const auto& name : hull.region_names)
                 if (!name.empty()) known += (known.empty() ? "" : ", ") + name;
-            throw InputError(e.source.where() + ".region: no region '" + e.region + "' in the hull mesh (it has: " +
-                             (known.empty() ? "no named regions" : known) + ")");
+            throw InputError(e.source.where() + ".region: no region " + in_quotes(e.region) + " in the hull mesh (it has: " +
+                             (known.empty() ? "no named regions" : printable(known)) + ")");
         }
         const int tag = static_cast<int>(it - hull.region_names.begin());
         if (region_size(hull, tag) == 0)
-            throw InputError(e.source.where() + ".region: region '" + e.region + "' of the hull mesh has no panel");
+            throw InputError(e.source.where() + ".region: region " + in_quotes(e.region) + " of the hull mesh has no panel");
         electrode_of_tag[tag] = static_cast<int>(k);
     }
     for (std::size_t k = 0; k < robot.electrodes.size(); ++k) {
@@ -225,8 +226,8 @@ std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
                 if (hull.region[t] != tag) continue;
                 const auto other = electrode_of_tag.find(before[t]);
                 if (other != electrode_of_tag.end())
-                    throw InputError("electrode '" + e.name + "' overlaps electrode '" +
-                                     robot.electrodes[other->second].name + "' (they share panel " +
+                    throw InputError("electrode " + in_quotes(e.name) + " overlaps electrode " +
+                                     in_quotes(robot.electrodes[other->second].name) + " (they share panel " +
                                      std::to_string(t) + ")");
             }
             return 0;
@@ -433,7 +434,7 @@ void check_probes(const Scene<S>& scene, const CaseSpec& spec, const std::vector
     for (const ProbePoint& pt : spec.probe_points) {
         const ProbeSpec& probe = spec.probes[pt.probe];
         const std::string what =
-            "probe '" + probe.name + "'" + (probe.form == ProbeForm::point ? "" : " point " + pt.label);
+            "probe " + in_quotes(probe.name) + (probe.form == ProbeForm::point ? "" : " point " + pt.label);
         const Vec3 x = to_vec(pt.position_m);
         require_free_point(parts, spec.water.plane, x, probe.source.where(), what,
                            "a probe may lie in the water or inside the fish");
@@ -610,7 +611,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     if (spec.robot) parts.push_back({&scene.surfaces[0].mesh, spec.robot->source, "the robot", false});
     for (std::size_t i = bodies; i < scene.surfaces.size(); ++i)
         parts.push_back({&scene.surfaces[i].mesh, spec.objects[i - bodies].source,
-                         "object '" + spec.objects[i - bodies].name + "'", false});
+                         "object " + in_quotes(spec.objects[i - bodies].name), false});
     if (spec.water.plane)
         for (const Part& p : parts) require_in_water(p, *spec.water.plane);
     require_apart(parts);

@@ -1,0 +1,22 @@
+#pragma once
+// The most a case file may ask for, wherever a number or a list in it decides how
+// much memory is allocated (points, values, stations). Each limit lies well beyond
+// any case murk can solve in reasonable time; it stops a slip or a hostile file
+// (a few lines asking for billions of points) with one clear line instead of an
+// allocation that fails or takes the machine's memory. Listed in cases/README.md.
+#include <cstddef>
+#include <cstdint>
+
+namespace murk {
+
+constexpr std::uint64_t kMaxCaseFileBytes = std::uint64_t{16} << 20;  // 16 MiB of TOML
+constexpr std::size_t kMaxLinePoints = 1000;       // points (or weights) of the organ, a source line, a probe line, a grid edge
+constexpr std::size_t kMaxPointSources = 100000;   // all point sources of a case: the organ's and every [[source]]'s
+constexpr std::size_t kMaxProbePoints = 1000000;   // all probe points of a case
+constexpr std::size_t kMaxProfileStations = 1000;  // stations of a fish profile
+constexpr std::size_t kMaxReceptorZones = 1000;    // [detection] receptor_zones
+constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (array or range)
+constexpr std::size_t kMaxSweepPoints = 1000000;   // points of a sweep: the product of its axes' lengths
+constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
+
+}  // namespace murk
