@@ -3,7 +3,8 @@
 // (ASCII), legacy VTK (ASCII POLYDATA, for ParaView). Lengths in files are converted
 // to metres by `scale` (e.g. 1e-3 for a file in millimetres). Every problem throws
 // InputError "<file>:<line>: <what was found, what was expected>" (binary STL: the
-// triangle number instead of the line). Readers do not judge the mesh: call
+// byte instead of the line). Files come from strangers: every count in them is
+// checked against the caps and the bytes left (input_limits.hpp) before it is used. Readers do not judge the mesh: call
 // require_valid_mesh (mesh_quality.hpp) afterwards. Meshes are named after the file
 // (its name without folder and extension).
 #include "geometry/mesh.hpp"
@@ -30,6 +31,11 @@ TriangleMesh read_stl(const std::string& path, double scale = 1.0);
 // element once per physical group; such repeats (same nodes, same elementary
 // entity) are kept once, with the first physical tag.
 TriangleMesh read_msh(const std::string& path, double scale = 1.0);
+
+// The same two readers on a file's content already in memory (tests, fuzzing);
+// `name` stands for the file in messages and names the mesh.
+TriangleMesh read_stl_bytes(const std::string& bytes, const std::string& name, double scale = 1.0);
+TriangleMesh read_msh_text(const std::string& text, const std::string& name, double scale = 1.0);
 
 // By extension: .stl or .msh (any letter case); anything else is an InputError.
 TriangleMesh read_mesh(const std::string& path, double scale = 1.0);

@@ -306,7 +306,11 @@ TriangleMesh assemble(const std::string& path, const std::vector<MshTriangle>& t
 
 TriangleMesh read_msh(const std::string& path, double scale) {
     check_scale(path, scale);
-    const std::string text = read_file_bytes(path, kMaxMeshFileBytes, "mesh file");
+    return read_msh_text(read_file_bytes(path, kMaxMeshFileBytes, "mesh file"), path, scale);
+}
+
+TriangleMesh read_msh_text(const std::string& text, const std::string& path, double scale) {
+    check_scale(path, scale);
     MshLines in(path, text);
     const std::string first(in.next("$MeshFormat")[0]);
     if (first != "$MeshFormat") throw InputError(in.where() + ": not a Gmsh MSH file: expected $MeshFormat, found " + in_quotes(first));

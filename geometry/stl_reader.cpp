@@ -139,7 +139,11 @@ bool starts_with_solid(const std::string& bytes) {
 
 TriangleMesh read_stl(const std::string& path, double scale) {
     check_scale(path, scale);
-    const std::string bytes = read_file_bytes(path, kMaxMeshFileBytes, "mesh file");
+    return read_stl_bytes(read_file_bytes(path, kMaxMeshFileBytes, "mesh file"), path, scale);
+}
+
+TriangleMesh read_stl_bytes(const std::string& bytes, const std::string& path, double scale) {
+    check_scale(path, scale);
     // Some binary files also start with "solid": their size decides, unless they are text.
     const bool solid = starts_with_solid(bytes);
     const bool binary_size = bytes.size() >= kBinaryHeaderBytes &&
