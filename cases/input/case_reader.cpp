@@ -1,6 +1,7 @@
 #include "cases/input/case_reader.hpp"
 
 #include "cases/input/case_limits.hpp"
+#include "cases/input/toml_precheck.hpp"
 #include "cases/input/units.hpp"
 #include "geometry/file_bytes.hpp"
 #include "geometry/input_error.hpp"
@@ -1034,6 +1035,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
 }
 
 CaseSpec read_case(const std::string& text, const Context& ctx) {
+    precheck_toml_text(text, printable(ctx.file));
     toml::table root;
     try {
         root = toml::parse(std::string_view(text), std::string_view(ctx.file));
