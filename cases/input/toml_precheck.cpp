@@ -8,6 +8,11 @@ namespace {
 
 bool non_ascii(char c) { return static_cast<unsigned char>(c) >= 0x80; }
 
+// What ends a value for toml++: white space (line breaks too), ']', '}', ',', '#'.
+bool ends_value(char c) {
+    return c == ' ' || c == '\t' || (c >= '\n' && c <= '\r') || c == ']' || c == '}' || c == ',' || c == '#';
+}
+
 // What surrounds the current byte, as TOML sees it.
 enum class Context { code, comment, basic_string, literal_string, multi_line_basic, multi_line_literal };
 
@@ -76,6 +81,23 @@ private:
     }
 
     void code(char c) {
+        // A value starting with a digit or a sign is scanned by toml++ up to the next
+        // white space, ']', '}', ',' or '#', whatever lies between (quotes included).
+        if (in_number_) {
+            if (!ends_value(c)) {
+                if (non_ascii(c)) refuse("characters outside the ASCII range belong inside quotes or comments");
+                before_ = c;
+                advance();
+                return;
+            }
+            in_number_ = false;
+        }
+        if ((before_ == '=' || before_ == '[' || before_ == ',') && ((c >= '0' && c <= '9') || c == '+' || c == '-')) {
+            in_number_ = true;
+            before_ = c;
+            advance();
+            return;
+        }
         // A quote opens a string only where TOML allows one: at the start of a line, after
         // '=', '[', ',', '{' or the '.' of a dotted key. Inside a bare word (1"x") it does
         // not, and toml++ reads on as if outside quotes.
@@ -92,12 +114,18 @@ private:
     }
 
     // A backslash in a multi-line basic string: an escape, or a line-ending backslash
-    // that swallows the white space and line breaks after it.
+    // that swallows the white space and line breaks after it. toml++ tests the first
+    // character after the backslash, after blanks following it, and after the
+    // swallowed white space, for being white space.
     void line_ending_backslash() {
         std::size_t k = 1;
         while (peek(k) == ' ' || peek(k) == '\t') ++k;
+        if (non_ascii(peek(k))) {
+            advance(k);
+            refuse("a backslash in a multi-line string cannot precede a character outside the ASCII range");
+        }
         if (peek(k) != '\n' && !(peek(k) == '\r' && peek(k + 1) == '\n')) {
-            advance(2);  // an ordinary escape such as \" or \n
+            advance(2);  // an escape such as \" or \n, or a mistake toml++ reports
             return;
         }
         advance(k);
@@ -112,7 +140,8 @@ private:
     std::size_t at_ = 0;
     std::size_t line_ = 1;
     Context context_ = Context::code;
-    char before_ = '\n';  // in code: the last character but blanks on this line, or '\n' at its start
+    char before_ = '\n';     // in code: the last character but blanks on this line, or '\n' at its start
+    bool in_number_ = false;  // in code: inside a value that starts with a digit or a sign
 };
 
 }  // namespace
