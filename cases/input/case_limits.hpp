@@ -15,8 +15,8 @@ constexpr std::size_t kMaxPointSources = 100000;   // all point sources of a cas
 constexpr std::size_t kMaxProbePoints = 1000000;   // all probe points of a case
 constexpr std::size_t kMaxProfileStations = 1000;  // stations of a fish profile
 constexpr std::size_t kMaxReceptorZones = 1000;    // [detection] receptor_zones
-constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (array or range)
-constexpr std::size_t kMaxSweepPoints = 1000000;   // points of a sweep: the product of its axes' lengths
+constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (array or range); their product,
+                                                   // the sweep's points, murk run checks against memory
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
 
 }  // namespace murk

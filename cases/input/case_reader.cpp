@@ -871,17 +871,6 @@ SweepSpec read_sweep(const Section& sec) {
     }
     if (s.grid && !s.distance_m.empty())
         fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
-    // Every combination of the axes' values is a point; each axis is at most
-    // kMaxAxisValues long, so the running product cannot overflow before the check.
-    std::size_t points = 1;
-    for (const std::size_t n : {s.distance_m.size(), s.size_m.size(), s.conductivity_S_per_m.size(),
-                                s.water_conductivity_S_per_m.size(), s.objects.size(), s.grid ? s.grid->u_m.size() : 0,
-                                s.grid ? s.grid->v_m.size() : 0}) {
-        points *= std::max<std::size_t>(n, 1);
-        if (points > kMaxSweepPoints)
-            fail(sec.where_self(), "the axes give more than " + std::to_string(kMaxSweepPoints) +
-                                       " points (the product of their lengths), the most murk runs in one sweep");
-    }
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
         s.water_conductivity_S_per_m.empty() && s.objects.empty())
