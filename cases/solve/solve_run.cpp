@@ -13,6 +13,8 @@
 #include "solver/memory_budget.hpp"
 
 #include <chrono>
+#include <cmath>
+#include <stdexcept>
 #include <cstdio>
 #include <filesystem>
 
@@ -134,6 +136,19 @@ void require_memory_for(const Scene<S>& scene, double limit_bytes, const std::st
                      "imported mesh, or raise --memory-limit");
 }
 
+// Nothing that is not a number is written or summarized.
+template <class S>
+void require_finite(const Solution<S>& solution, const char* what) {
+    bool finite = true;
+    for (const SurfaceSolution<S>& s : solution.surfaces)
+        finite = finite && s.outer_potential.allFinite() && s.current_density.allFinite() && s.inner_potential.allFinite();
+    for (const S& v : solution.electrode_potential) finite = finite && std::isfinite(std::abs(v));
+    for (const S& v : solution.electrode_current) finite = finite && std::isfinite(std::abs(v));
+    if (!finite)
+        throw std::runtime_error(std::string("the solve of ") + what + " gave values that are not finite; the case's "
+                                 "quantities are out of the range the solver can represent");
+}
+
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
@@ -152,6 +167,8 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     StageTimes base, pert;
     solved.baseline_solution = solve_timed(solved.baseline, quad, base);
     solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
+    require_finite(solved.baseline_solution, "the baseline");
+    require_finite(solved.perturbed_solution, "the scene with its objects");
 
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);

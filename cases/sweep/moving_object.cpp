@@ -98,11 +98,16 @@ MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : p
                     auto form = std::make_unique<MovingObject<S>>();
                     form->spec = sized;
                     if (conductivity_axis >= 0) set_material(form->spec, plan.axes[conductivity_axis].values[c]);
-                    Scene<S> holder;
+                    Scene<S> holder;  // the water decides whether a contrast is solved as its limit
+                    holder.water_conductivity = water_admittivity<S>(spec, plan.waters[w]);
                     add_object_surface(holder, spec, form->spec, mesh);
                     form->surface = std::move(holder.surfaces.front());
                     if (!holder.electrodes.empty()) form->electrode = holder.electrodes.front();
-                    form->water = water_admittivity<S>(spec, plan.waters[w]);
+                    // A contrast beyond the scene rules' limit was built as that limit;
+                    // the tensor must see the same material.
+                    if (form->surface.kind == InterfaceKind::sealed)
+                        form->spec.material = form->electrode ? Material::conductor : Material::insulator;
+                    form->water = holder.water_conductivity;
                     form->centre = centre;
                     form->half_extent = half_extent;
                     forms_.push_back(std::move(form));
