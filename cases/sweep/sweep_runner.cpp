@@ -40,6 +40,9 @@ public:
         const QuadratureOptions quad = quadrature_options(spec_);
         // Geometry: what moves where, nothing assembled yet.
         const SweepPlan plan = plan_sweep(spec_);
+        const double memory_limit =
+            options_.memory_limit_bytes > 0 ? options_.memory_limit_bytes : default_memory_limit_bytes();
+        require_point_memory(plan.total, memory_limit, plan.where);
         std::vector<Scene<S>> scenes = fixed_scenes<S>(spec_, plan);
         const MovingObjects<S> objects(spec_, plan);
         const PointPlacement placement(spec_, plan, meshes_of(scenes.front()));
@@ -52,9 +55,7 @@ public:
             std::printf("%s", format_estimate(estimate).c_str());
             return RunOutcome::complete;
         }
-        require_memory(estimate, options_.memory_limit_bytes > 0 ? options_.memory_limit_bytes
-                                                                 : default_memory_limit_bytes(),
-                       plan.where);
+        require_memory(estimate, memory_limit, plan.where);
         // The fixed part, factored once per water.
         const SweepBaselines<S> baselines = solve_baselines(spec_, plan, std::move(scenes), quad);
         SweepFile<S> file = options_.resume ? SweepFile<S>::resume(spec_, options_, plan, baselines)
