@@ -3,6 +3,7 @@
 #include "cases/solve/solve_run.hpp"
 
 #include "cases/output/result_metadata.hpp"
+#include "cases/output/stop_request.hpp"
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
@@ -152,8 +153,12 @@ void require_finite(const Solution<S>& solution, const char* what) {
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
+    // Refuse an existing result or an unusable name before spending time on the
+    // solve; the file itself is created only when there is something to write, so
+    // a solve stopped by a signal leaves nothing behind.
     check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
-    H5Output output(options.output_path, options.force, "pass --force to replace it");
+    if (!options.force && std::filesystem::exists(options.output_path))
+        throw InputError(options.output_path + " exists; pass --force to replace it");
     const QuadratureOptions quad = quadrature_options(spec);
 
     SolvedCase<S> solved;
@@ -170,6 +175,8 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     require_finite(solved.baseline_solution, "the baseline");
     require_finite(solved.perturbed_solution, "the scene with its objects");
 
+    on_stop(OnStop::finish_work);  // a result is being written: a stop waits until it is complete
+    H5Output output(options.output_path, options.force, "pass --force to replace it");
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
     write_solve_result(output.root(), solved);

@@ -60,6 +60,7 @@ public:
         const SweepBaselines<S> baselines = solve_baselines(spec_, plan, std::move(scenes), quad);
         SweepFile<S> file = options_.resume ? SweepFile<S>::resume(spec_, options_, plan, baselines)
                                             : SweepFile<S>(spec_, options_, plan, baselines);
+        on_stop(OnStop::finish_work);  // from now on a stop keeps what is finished
         stats_.assembly_seconds = baselines.assembly_seconds;
         stats_.factor_seconds = baselines.factor_seconds;
         stats_.factor_bytes = baselines.factor_bytes;

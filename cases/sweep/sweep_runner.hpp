@@ -14,7 +14,7 @@
 //   commit     sweep_output      surface fields, sidecar, the file under its name
 #include "cases/input/case_spec.hpp"
 #include "cases/sweep/run_stats.hpp"
-#include "cases/sweep/stop_request.hpp"
+#include "cases/output/stop_request.hpp"
 #include "cases/sweep/sweep_output.hpp"
 
 namespace murk {

@@ -40,7 +40,7 @@ int run_command(const RunArgs& args, const std::string& command_line) {
     if (!args.memory_limit.empty()) options.memory_limit_bytes = parse_memory_size(args.memory_limit, "--memory-limit");
     if (options.output_path.empty() && !options.estimate_only)
         throw InputError("murk run: -o OUT.h5 is required (only --estimate runs without it)");
-    install_stop_handlers();
+    on_stop(OnStop::exit_at_once);  // until the result file is open (cases/output/stop_request.hpp)
     return run_sweep(spec, options) == RunOutcome::complete ? 0 : 1;
 }
 
