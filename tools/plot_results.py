@@ -25,6 +25,9 @@ sweep points of the electric image by index along named axes (negative counts fr
 axes not named are at index 0), e.g. --points distance=0 distance=-1,size=2. By default: the
 nearest and the farthest computed distance at the first index of every other axis.
 
+Coded datasets (/sweep/status, /detection/status) are read through their own flag_values and
+flag_meanings: codes are looked up by their words ("computed", "crossed"), never by number.
+
 Run it with /usr/bin/python3 (Debian's h5py, numpy and matplotlib). Bad input gets one line
 on stderr and exit status 2.
 """
@@ -162,6 +165,24 @@ class Result:
             raise BadInput(f"{self.path}: dataset /{name} has shape {d.shape}, expected {tuple(shape)}")
         return d[()]
 
+    def words(self, name, shape=None):
+        """A coded dataset as the words its flag_values / flag_meanings give its codes."""
+        import numpy as np
+        d = self.dataset(name)
+        if "flag_values" not in d.attrs or "flag_meanings" not in d.attrs:
+            raise BadInput(f"{self.path}: dataset /{name} has no flag_values and flag_meanings: "
+                           "what its codes mean is unknown")
+        codes = [int(v) for v in np.atleast_1d(d.attrs["flag_values"])]
+        meanings = str(d.attrs["flag_meanings"]).split()
+        if len(codes) != len(meanings):
+            raise BadInput(f"{self.path}: dataset /{name} has {len(codes)} flag_values for {len(meanings)} words")
+        data = self.array(name, shape)
+        unknown = set(np.unique(data).tolist()) - set(codes)
+        if unknown:
+            raise BadInput(f"{self.path}: dataset /{name} holds {sorted(unknown)}, which its flag_values do not list")
+        word_of = dict(zip(codes, meanings))
+        return np.vectorize(lambda code: word_of[int(code)], otypes=[object])(data)
+
     def attribute(self, name, key):
         obj = self.file[name] if name in self.file else None
         if obj is None or key not in obj.attrs:
@@ -192,7 +213,8 @@ class Result:
         return tuple(len(a.values) for a in self.axes)
 
     def status(self):
-        return self.array("sweep/status", self.shape())
+        """What happened at each point, as words: "computed", "masked", "not_computed"."""
+        return self.words("sweep/status", self.shape())
 
     def body(self):
         """Name of the sensing body's mesh: the runner's `body` attribute, or the only mesh."""
@@ -439,13 +461,13 @@ def draw_ranges(result, ax, xk, yk):
     xa, ya = result.axes[xk], result.axes[yk]
     xv, yv = xa.coords(), ya.coords()
     rng, status = detection_slice(result, xk, yk)
-    crossed = np.isfinite(rng) & (status == 1)
+    crossed = np.isfinite(rng) & (status == "crossed")
     if crossed.any():
         ax.plot(xa.shown(rng[crossed]), yv[crossed], "o", color="white", markeredgecolor="black", markersize=8,
                 linestyle="none", zorder=4, label="detection range (/detection/range)")
-    for code, x, marker, text in ((2, xv.max(), ">", "detectable at every distance computed"),
-                                  (3, xv.min(), "<", "not detectable at any distance computed")):
-        hit = status == code
+    for word, x, marker, text in (("beyond_sweep", xv.max(), ">", "detectable at every distance computed"),
+                                  ("never_detectable", xv.min(), "<", "not detectable at any distance computed")):
+        hit = status == word
         if hit.any():
             ax.plot(np.full(hit.sum(), x), yv[hit], marker, color="white", markeredgecolor="black",
                     markersize=10, linestyle="none", zorder=4, label=text)
@@ -465,7 +487,8 @@ def detection_slice(result, dk, yk):
         if names is None or result.axes[yk].name not in names:
             raise BadInput(f"{result.path}: cannot tell which sweep axes /{name} lies over")
         index = tuple(slice(None) if n == result.axes[yk].name else 0 for n in names)
-        out.append(np.asarray(d[()], dtype=float)[index])
+        values = result.words(name) if name.endswith("status") else np.asarray(d[()], dtype=float)
+        out.append(values[index])
     return out
 
 
@@ -558,11 +581,11 @@ def default_points(result, status):
     d = result.axis_index("distance")
     if d is not None:
         line = slice_at(status, [0] * len(result.axes), (d,))
-        done = np.flatnonzero(line == 1)
+        done = np.flatnonzero(line == "computed")
         picks = sorted({done[0], done[-1]}) if done.size else []
         return [tuple(int(k) if j == d else 0 for j in range(len(result.axes))) for k in picks]
     peak = result.array("sweep/peak_perturbation", result.shape())
-    peak = np.where(status == 1, np.abs(peak), np.nan)
+    peak = np.where(status == "computed", np.abs(peak), np.nan)
     if not np.isfinite(peak).any():
         return []
     picks = [np.nanargmax(peak), np.nanargmin(peak)]
@@ -585,9 +608,8 @@ def electric_images(result, out_dir, stem, point_specs):
     units = str(perturbation.attrs.get("units", "V"))
     written = []
     for number, index in enumerate(points, start=1):
-        if status[index] != 1:
-            note(f"skipped electric image at {result.point_text(index)}: point "
-                 f"{'masked' if status[index] == 2 else 'not computed'}")
+        if status[index] != "computed":
+            note(f"skipped electric image at {result.point_text(index)}: point {status[index].replace('_', ' ')}")
             continue
         values = perturbation[index]
         where = result.point_text(index)
@@ -691,7 +713,7 @@ def falloff(result, out_dir, stem):
     fig = new_figure((8, 6), f"{result.title}\nfalloff of the peak perturbation" + (f", {held}" if held else ""))
     ax = fig.add_subplot()
     distances = result.axes[d].values
-    factor, unit = voltage_scale(peak[status == 1], units)
+    factor, unit = voltage_scale(peak[status == "computed"], units)
     count = 1 if curve_axis is None else min(len(result.axes[curve_axis].values), len(MARKERS))
     colours = [matplotlib.colormaps["viridis"](t) for t in np.linspace(0, 0.85, count)]
     anchor, plotted = None, []
@@ -700,7 +722,7 @@ def falloff(result, out_dir, stem):
         if curve_axis is not None:
             index[curve_axis] = c
         line = slice_at(peak, index, (d,))
-        ok = (slice_at(status, index, (d,)) == 1) & np.isfinite(line) & (line > 0)
+        ok = (slice_at(status, index, (d,)) == "computed") & np.isfinite(line) & (line > 0)
         label = result.axes[curve_axis].text(c) if curve_axis is not None else "peak perturbation"
         fit = fitted_line(result, index, d, distances[ok], line[ok])
         if fit:
