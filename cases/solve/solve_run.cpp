@@ -35,8 +35,10 @@ std::string value_text(double v, const char* unit, const char* format = "%.4g") 
     return std::string(number) + " " + unit;
 }
 std::string value_text(const Complex& v, const char* unit, const char* format = "%.4g") {
+    double degrees = std::arg(v) * 180.0 / M_PI;
+    if (std::abs(degrees) < 0.05) degrees = 0;  // "+0.0", not "-0.0"
     char phase[32];
-    std::snprintf(phase, sizeof phase, "%+.1f", std::arg(v) * 180.0 / M_PI);
+    std::snprintf(phase, sizeof phase, "%+.1f", degrees);
     return "|" + value_text(std::abs(v), unit, format) + "| at phase " + phase + " deg";
 }
 
