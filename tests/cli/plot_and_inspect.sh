@@ -48,6 +48,7 @@ check_png "$dir/png/sweep_detection_map.png" 800 650
 check_png "$dir/png/sweep_electric_image_1.png" 1200 500
 check_png "$dir/png/sweep_electric_image_2.png" 1200 500
 check_png "$dir/png/sweep_falloff.png" 800 600
+check_png "$dir/png/sweep_body_view.png" 1000 650
 grep -q "^skipped grid map: " "$dir/plot_sweep.txt" && ok "grid map skipped for a distance sweep" || fail "no note for the skipped grid map"
 grep -qx "$dir/png/sweep_falloff.png" "$dir/plot_sweep.txt" && ok "paths printed" || fail "the falloff path is not printed"
 
@@ -57,9 +58,12 @@ grep -q "^skipped falloff: " "$dir/plot_grid.txt" && ok "falloff skipped without
 
 plot "$dir/robot.h5" -o "$dir/png" > "$dir/plot_robot.txt" 2>&1 || fail "plot_results.py on the robot file: $(cat "$dir/plot_robot.txt")"
 check_png "$dir/png/robot_electric_image_1.png" 800 500
+grep -q "^skipped body view: the sensors are channels" "$dir/plot_robot.txt" && ok "no body view of a robot's channels" \
+  || fail "no note for the skipped body view of the robot"
 
 plot "$dir/solve.h5" -o "$dir/png" > "$dir/plot_solve.txt" 2>&1 || fail "plot_results.py on the solve file: $(cat "$dir/plot_solve.txt")"
 check_png "$dir/png/solve_electric_image_1.png" 1200 500
+check_png "$dir/png/solve_body_view.png" 1000 650
 
 rm -f "$dir/png/sweep_electric_image_"*
 plot "$dir/sweep.h5" -o "$dir/png" --points distance=3,size=1 > /dev/null 2>&1
