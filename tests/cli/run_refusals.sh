@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # murk run refuses, with one line and exit status 2, what would waste or lose work:
 # a sweep direction into the body, a leftover partial file without --resume or
-# --force, and noise keys that belong to another noise model.
+# --force, noise keys that belong to another noise model, and resuming a partial
+# file of an earlier layout.
 set -uo pipefail
 murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
@@ -36,4 +37,12 @@ sed -e 's/^\[sweep\]/[sweep]\nmethod = "dipole"\ncheck_points = -1/' "$base" > "
 expect_bad "negative check points" "sweep.check_points" "$murk" run "$dir/checks.toml" -o "$dir/g.h5" --quiet
 sed -e 's/^\[sweep\]/[sweep]\ncoupling_tolerance = 0.1/' "$base" > "$dir/tolerance.toml"
 expect_bad "loose coupling tolerance" "sweep.coupling_tolerance" "$murk" run "$dir/tolerance.toml" -o "$dir/h.h5" --quiet
+
+# A partial file written by a murk before the netCDF layout (no Conventions attribute): resuming
+# it would finish a file of two layouts, so it is refused, and kept.
+"$murk" run "$base" -o "$dir/old.h5" --quiet --threads 1 2> "$dir/err" || { cat "$dir/err"; echo "FAIL run"; failures=$((failures + 1)); }
+cp "$dir/old.h5" "$dir/older.h5.partial"
+/usr/bin/python3 -c 'import sys, h5py; del h5py.File(sys.argv[1], "r+").attrs["Conventions"]' "$dir/older.h5.partial"
+expect_bad "partial file of an earlier layout" "start over with --force" "$murk" run "$base" -o "$dir/older.h5" --resume --quiet
+[ -e "$dir/older.h5.partial" ] || { echo "FAIL the refused partial file was removed"; failures=$((failures + 1)); }
 [ "$failures" -eq 0 ]
