@@ -9,7 +9,6 @@
 #include <cmath>
 #include <cstdint>
 #include <cstdio>
-#include <mutex>
 #include <numeric>
 
 namespace murk {
@@ -275,50 +274,9 @@ MeshReport inspect_mesh(const TriangleMesh& m) {
     return r;
 }
 
-namespace {
-
-// Large meshes that passed, kept whole: a sweep builds the same body at every
-// point, and its self-intersection test would otherwise cost more than the
-// point's solve. A hit needs the same vertices and triangles, bit for bit.
-class ValidMeshMemo {
-public:
-    static constexpr std::size_t kMinPanels = 1000, kCapacity = 8;
-    bool contains(const TriangleMesh& m) {
-        std::lock_guard<std::mutex> lock(mutex_);
-        for (const auto& e : entries_)
-            if (e.vertices == m.vertices && e.triangles == m.triangles) return true;
-        return false;
-    }
-    void add(const TriangleMesh& m) {
-        std::lock_guard<std::mutex> lock(mutex_);
-        if (entries_.size() == kCapacity) entries_.erase(entries_.begin());
-        entries_.push_back({m.vertices, m.triangles});
-    }
-
-private:
-    struct Entry {
-        std::vector<Vec3> vertices;
-        std::vector<Triangle> triangles;
-    };
-    std::mutex mutex_;
-    std::vector<Entry> entries_;
-};
-
-ValidMeshMemo& valid_meshes() {
-    static ValidMeshMemo memo;
-    return memo;
-}
-
-}  // namespace
-
 void require_valid_mesh(const TriangleMesh& mesh, const std::string& where) {
-    const bool large = mesh.size() >= ValidMeshMemo::kMinPanels;
-    if (large && valid_meshes().contains(mesh)) return;
     const MeshReport r = inspect_mesh(mesh);
-    if (r.problems.empty()) {
-        if (large) valid_meshes().add(mesh);
-        return;
-    }
+    if (r.problems.empty()) return;
     std::string msg = where + ": mesh " + (mesh.name.empty() ? std::string() : "'" + mesh.name + "' ") + "is not usable: " +
                       r.problems.front();
     if (r.problems.size() > 1) msg += " (and " + plural(r.problems.size() - 1, "more problem", "more problems") + ")";

@@ -7,6 +7,7 @@
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"
 #include "geometry/shapes.hpp"
+#include "solver/bem_system.hpp"
 
 #include <doctest/doctest.h>
 
@@ -804,5 +805,64 @@ TEST_CASE("scene builder: the point emitter example holds what its comments say"
         const Point3& x = spec.probe_points[axis.first_point + k].position_m;
         CHECK(x[0] == doctest::Approx(-0.02 + 1e-3 * static_cast<double>(k)));
         CHECK(x[1] == doctest::Approx(1e-3));
+    }
+}
+
+TEST_CASE("objects of extreme contrast are solved as the limit they tend to, over 1e-300 to 1e300 S/m") {
+    // A point source, a 5 mm sphere 3 cm away in 0.01 S/m water, and the change of
+    // the potential it causes at a point between them. Physics (Maxwell's sphere,
+    // e.g. Jackson, "Classical Electrodynamics", 3rd ed., section 4.4, in its
+    // conductive form): the change grows monotonically with the sphere's
+    // conductivity from the insulator's value to the perfect conductor's, and
+    // beyond a contrast of 1e8 either way it is within 3e-8 of the limit.
+    const std::string text = R"(title = "contrast"
+[water]
+conductivity = "100 uS/cm"
+[mesh]
+panel_size = "2.5 mm"
+[[source]]
+form = "point"
+position = ["0 cm", "0 cm", "0 cm"]
+current = "10 uA"
+[[object]]
+name = "sphere"
+shape = "sphere"
+radius = "5 mm"
+position = ["3 cm", "0 cm", "0 cm"]
+conductivity = "1 S/m"
+[[probe]]
+name = "between"
+form = "point"
+position = ["2 cm", "2 mm", "0 cm"]
+)";
+    const QuadratureOptions quad;
+    Eigen::Matrix3Xd probe(3, 1);
+    probe.col(0) = Vec3(0.02, 0.002, 0.0);
+    auto change = [&](Material material, double sigma) {
+        CaseSpec spec = spec_of(text);
+        spec.objects[0].material = material;
+        spec.objects[0].conductivity_S_per_m = sigma;
+        const Scene<double> scene = build_scene<double>(spec, true);
+        return potential_at(scene, solve_scene(scene, quad), probe, quad, true)(0);
+    };
+    const double insulator = change(Material::insulator, 0);
+    const double conductor = change(Material::conductor, 0);
+    // The two limits pull the potential opposite ways (a conductor draws it toward
+    // its own, an insulator pushes the current around).
+    REQUIRE(conductor * insulator < 0);
+    const double direction = conductor > insulator ? 1.0 : -1.0, scale = std::abs(conductor - insulator);
+    double previous = insulator;
+    for (int e = -300; e <= 300; e += 10) {
+        const double sigma = std::pow(10.0, e);
+        const double v = change(Material::conducting, sigma);
+        CAPTURE(sigma);
+        REQUIRE(std::isfinite(v));
+        CHECK(direction * (v - previous) >= -1e-9 * scale);  // monotone, to rounding
+        CHECK(std::min(insulator, conductor) - 1e-9 * scale <= v);
+        CHECK(v <= std::max(insulator, conductor) + 1e-9 * scale);
+        const double contrast = sigma / 0.01;
+        if (contrast >= 1e8) CHECK(v == doctest::Approx(conductor).epsilon(1e-7));
+        if (contrast <= 1e-8) CHECK(v == doctest::Approx(insulator).epsilon(1e-7));
+        previous = v;
     }
 }

@@ -275,6 +275,21 @@ void add_object_surface(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec&
     switch (o.material) {
         case Material::conducting:
             surface.inner_conductivity = to_scalar<S>(admittivity(o.conductivity_S_per_m, o.permittivity_relative, omega));
+            if (!o.membrane) {
+                // Beyond these contrasts the object is solved as the limit it tends to
+                // (cases/scene/scene_rules.hpp).
+                const double contrast = std::abs(surface.inner_conductivity) / std::abs(scene.water_conductivity);
+                if (contrast >= kLimitContrast) {
+                    ObjectSpec limit = o;
+                    limit.material = Material::conductor;
+                    return add_object_surface(scene, spec, limit, std::move(surface.mesh));
+                }
+                if (contrast <= 1.0 / kLimitContrast) {
+                    ObjectSpec limit = o;
+                    limit.material = Material::insulator;
+                    return add_object_surface(scene, spec, limit, std::move(surface.mesh));
+                }
+            }
             if (o.membrane) {
                 surface.kind = InterfaceKind::membrane;
                 surface.membrane_resistance = to_scalar<S>(

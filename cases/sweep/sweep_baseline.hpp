@@ -46,12 +46,23 @@ struct SweepBaselines {
     std::size_t factor_bytes = 0;          // the largest fixed part's factors
 };
 
-// Refuses (InputError, naming the case line) sensors that cannot be read and
-// noise models that do not fit the sensors.
+// The fixed part's scene in each water of the plan (meshed and checked, not
+// assembled): the body and the objects that stay.
 template <class S>
-SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, const QuadratureOptions& quad);
+std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan);
 
-extern template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
-extern template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, const QuadratureOptions&);
+// Assembles and factors each fixed scene (solves it, for method "full"), and
+// reads the sensors. Refuses (InputError, naming the case line) sensors that
+// cannot be read and noise models that do not fit the sensors.
+template <class S>
+SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, std::vector<Scene<S>> scenes,
+                                  const QuadratureOptions& quad);
+
+extern template std::vector<Scene<double>> fixed_scenes(const CaseSpec&, const SweepPlan&);
+extern template std::vector<Scene<Complex>> fixed_scenes(const CaseSpec&, const SweepPlan&);
+extern template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<double>>,
+                                                       const QuadratureOptions&);
+extern template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<Complex>>,
+                                                        const QuadratureOptions&);
 
 }  // namespace murk

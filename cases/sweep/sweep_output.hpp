@@ -8,6 +8,7 @@
 // renamed onto OUT.h5, with its XDMF sidecar beside it.
 #include "cases/input/case_spec.hpp"
 #include "cases/output/hdf5_file.hpp"
+#include "cases/sweep/run_options.hpp"
 #include "cases/sweep/point_result.hpp"
 #include "cases/sweep/sweep_baseline.hpp"
 #include "cases/sweep/sweep_plan.hpp"
@@ -18,13 +19,6 @@
 
 namespace murk {
 
-struct RunOptions {
-    std::string output_path;   // OUT.h5
-    std::string command_line;  // written into the file
-    bool resume = false;
-    bool force = false;
-    bool quiet = false;
-};
 
 // The dipole points re-solved exactly (stage checks).
 struct PathCheck {

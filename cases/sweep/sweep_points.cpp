@@ -45,7 +45,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
     for_each_in_parallel(plan.total, [&](std::size_t p) {
         const std::vector<std::size_t> index = plan.index_of(p);
         const MovingObject<S>& object = objects.at(index);
-        const Placement where = placement.place(index, object.surface.mesh);
+        const Placement where = placement.place(index, object.shape->mesh);
         mask[p] = where.mask;
         if (where.mask != MaskReason::none) return;
         PlacedPoint<S>& q = placed[p];
@@ -53,7 +53,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
         q.water = plan.water_of(index);
         q.object = &object;
         q.offset = where.offset;
-        if (measure) q.size_to_distance = object.half_extent / placement.distance_to_fixed(q.centre());
+        if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre());
     });
     PointRoutes<S> routes;
     std::vector<std::vector<PlacedPoint<S>>> dipoles(plan.waters.size());

@@ -2,7 +2,11 @@
 
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/path_check.hpp"
+#include "cases/sweep/sweep_estimate.hpp"
 #include "cases/sweep/sweep_points.hpp"
+#include "solver/memory_budget.hpp"
+
+#include <omp.h>
 
 #include <sys/resource.h>
 
@@ -34,22 +38,35 @@ public:
         const auto start = Clock::now();
         auto since_start = [&] { return std::chrono::duration<double>(Clock::now() - start).count(); };
         const QuadratureOptions quad = quadrature_options(spec_);
+        // Geometry: what moves where, nothing assembled yet.
         const SweepPlan plan = plan_sweep(spec_);
-        const SweepBaselines<S> baselines = solve_baselines<S>(spec_, plan, quad);
+        const double memory_limit =
+            options_.memory_limit_bytes > 0 ? options_.memory_limit_bytes : default_memory_limit_bytes();
+        require_point_memory(plan.total, memory_limit, plan.where);
+        std::vector<Scene<S>> scenes = fixed_scenes<S>(spec_, plan);
         const MovingObjects<S> objects(spec_, plan);
-        const PointPlacement placement(spec_, plan, fixed_meshes(baselines));
+        const PointPlacement placement(spec_, plan, meshes_of(scenes.front()));
+        const PointRoutes<S> routes = route_points(plan, placement, objects, kDipoleBlockSize);
+        stats_.placement_seconds = since_start();
+        // The cost, before paying it.
+        const CostModel cost{measured_or_reference_rates(), sweep_sizes(scenes, objects, plan)};
+        const SweepEstimate estimate = estimate_sweep(plan, routes, cost);
+        if (options_.estimate_only) {
+            std::printf("%s", format_estimate(estimate).c_str());
+            return RunOutcome::complete;
+        }
+        require_memory(estimate, memory_limit, plan.where);
+        // The fixed part, factored once per water.
+        const SweepBaselines<S> baselines = solve_baselines(spec_, plan, std::move(scenes), quad);
         SweepFile<S> file = options_.resume ? SweepFile<S>::resume(spec_, options_, plan, baselines)
                                             : SweepFile<S>(spec_, options_, plan, baselines);
         stats_.assembly_seconds = baselines.assembly_seconds;
         stats_.factor_seconds = baselines.factor_seconds;
         stats_.factor_bytes = baselines.factor_bytes;
-        stats_.setup_seconds = since_start();
+        stats_.setup_seconds = since_start() - stats_.placement_seconds;
         try {
             const PathContext<S> context{&baselines, &objects, quad, CouplingOptions{plan.sweep.coupling_tolerance}};
             const PointPaths<S> paths = make_point_paths(context);
-            const std::size_t block = paths.dipole ? paths.dipole->block_size() : 1;
-            const PointRoutes<S> routes = route_points(plan, placement, objects, block);
-            stats_.placement_seconds = since_start() - stats_.setup_seconds;
             compute_points(routes, paths, baselines, file, options_.quiet, stats_);
             const double before_checks = since_start();
             if (!stop_requested()) check_paths(plan, routes, paths, baselines, file);
@@ -80,10 +97,17 @@ public:
 
 private:
     // The surfaces that stay, for placement: geometry only, the same in every water.
-    static std::vector<TriangleMesh> fixed_meshes(const SweepBaselines<S>& baselines) {
+    static std::vector<TriangleMesh> meshes_of(const Scene<S>& scene) {
         std::vector<TriangleMesh> meshes;
-        for (const Surface<S>& s : baselines.waters.front().scene().surfaces) meshes.push_back(s.mesh);
+        for (const Surface<S>& s : scene.surfaces) meshes.push_back(s.mesh);
         return meshes;
+    }
+
+    // The estimate a person reads uses this machine's rates; a run's own memory
+    // check needs only sizes, so it skips the half second of measuring.
+    MachineRates measured_or_reference_rates() const {
+        const int threads = omp_get_max_threads();
+        return options_.estimate_only ? measure_rates(threads) : reference_rates(threads);
     }
 
     void check_paths(const SweepPlan& plan, const PointRoutes<S>& routes, const PointPaths<S>& paths,

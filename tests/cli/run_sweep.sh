@@ -167,6 +167,10 @@ st = status[()]
 check(set(np.unique(st)) <= {1, 2}, f"status holds {np.unique(st)} in a finished run (expected 1 and 2 only)")
 check((st[..., 5] == 2).all(), "a pebble 40 mm above the body would leave the water: those points must be masked")
 check((st[..., :5] == 1).all(), "points at 10 mm or less lie well inside the water and must be computed")
+# Why each point is masked (codes in cases/RESULT_LAYOUT.md): 3 = reaches through the plane.
+reason = a["sweep/mask_reason"][()]
+check((reason[..., 5] == 3).all(), f"the pebbles above the water surface must be masked as beyond the plane, got {np.unique(reason[..., 5])}")
+check((reason[..., :5] == 0).all(), "computed points must carry mask reason 0")
 masked, done = st == 2, st == 1
 pert = a["sweep/perturbation"][()]
 check(pert.dtype.kind == "f", f"/sweep/perturbation is {pert.dtype} (direct current: expected real)")
@@ -287,7 +291,8 @@ v_direction = [0, 1, 0]
 u = ["1 cm"]
 v = ["1 mm", "3 cm"]
 EOF
-"$murk" run "$dir/grid.toml" -o "$dir/grid.h5" --quiet --threads 1 2> "$dir/err.txt" || fail "grid run: $(cat "$dir/err.txt")"
+"$murk" run "$dir/grid.toml" -o "$dir/grid.h5" --threads 1 > /dev/null 2> "$dir/err.txt" || fail "grid run: $(cat "$dir/err.txt")"
+grep -q "masked points: 1 touching the body" "$dir/err.txt" || fail "the run does not print its masked points per reason: $(cat "$dir/err.txt")"
 "$py" - "$dir/grid.h5" <<'PY' || failures=$((failures + 1))
 import sys
 import h5py
@@ -297,6 +302,9 @@ with h5py.File(sys.argv[1], "r") as f:
     assert st.shape == (1, 1, 2), st.shape
     assert st[0, 0, 0] == 2, f"the grid point inside the body has status {st[0, 0, 0]}, expected 2 (masked)"
     assert st[0, 0, 1] == 1, f"the grid point 3 cm out has status {st[0, 0, 1]}, expected 1"
+    reason = f["sweep/mask_reason"][()]
+    assert reason[0, 0, 0] == 1, f"the point inside the body has mask reason {reason[0, 0, 0]}, expected 1 (touches the body)"
+    assert reason[0, 0, 1] == 0, "a computed point must carry mask reason 0"
     for k in ("perturbation", "peak_perturbation", "image_width"):
         v = f[f"sweep/{k}"][()]
         assert np.isnan(v[0, 0, 0]).all(), f"{k} of the masked point is not NaN"

@@ -20,6 +20,7 @@ struct SolveArgs {
     bool force = false;
     bool quiet = false;
     int threads = 0;  // 0: OpenMP's default
+    std::string memory_limit;  // e.g. "8 GiB"; empty: 80 % of physical memory
 };
 int solve_command(const SolveArgs& args, const std::string& command_line);
 
@@ -42,7 +43,13 @@ struct RunArgs {
     bool resume = false;
     bool force = false;
     bool quiet = false;
+    bool estimate = false;     // print the plan and its cost only
+    std::string memory_limit;  // e.g. "8 GiB"; empty: 80 % of physical memory
 };
+
+// Bytes in a memory size written with its unit: "512 MiB", "8 GiB", "2.5 GB",
+// "1e9 B". Throws InputError naming the option for anything else.
+double parse_memory_size(const std::string& text, const std::string& option);
 int run_command(const RunArgs& args, const std::string& command_line);
 
 }  // namespace murk::cli

@@ -32,11 +32,14 @@ int main(int argc, char** argv) {
     murk::cli::RunArgs run;
     auto* run_cmd = app.add_subcommand("run", "solve the case's sweep and write detection maps");
     run_cmd->add_option("case", run.case_path, "case file (TOML) with a [sweep] section")->required();
-    run_cmd->add_option("-o,--output", run.output_path, "result file (HDF5)")->required();
+    run_cmd->add_option("-o,--output", run.output_path, "result file (HDF5); not needed with --estimate");
     run_cmd->add_flag("--resume", run.resume, "finish the points an interrupted run left in OUT.h5.partial");
     run_cmd->add_flag("--force", run.force, "replace an existing result file");
     run_cmd->add_flag("--quiet", run.quiet, "no progress lines");
     run_cmd->add_option("--threads", run.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+    run_cmd->add_flag("--estimate", run.estimate, "print the points per path, memory and time the run would take; run nothing");
+    run_cmd->add_option("--memory-limit", run.memory_limit,
+                        "refuse a run estimated to need more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
 
     murk::cli::InspectArgs inspect;
     auto* inspect_cmd = app.add_subcommand("inspect", "a readable summary of a result file");
@@ -49,6 +52,8 @@ int main(int argc, char** argv) {
     solve_cmd->add_flag("--force", solve.force, "replace an existing result file");
     solve_cmd->add_flag("--quiet", solve.quiet, "print nothing but errors");
     solve_cmd->add_option("--threads", solve.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+    solve_cmd->add_option("--memory-limit", solve.memory_limit,
+                          "refuse a case whose system needs more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
 
     murk::cli::MeshArgs mesh;
     auto* mesh_cmd = app.add_subcommand("mesh", "mesh statistics and quality report; conversion to STL or VTK");

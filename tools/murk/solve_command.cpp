@@ -14,6 +14,7 @@ int solve_command(const SolveArgs& args, const std::string& command_line) {
     options.command_line = command_line;
     options.force = args.force;
     options.quiet = args.quiet;
+    if (!args.memory_limit.empty()) options.memory_limit_bytes = parse_memory_size(args.memory_limit, "--memory-limit");
     run_solve(read_case_file(args.case_path), options);
     return 0;
 }
