@@ -2,8 +2,8 @@
 # murk run refuses, with one line and exit status 2, what would waste or lose work:
 # a sweep direction into the body, a leftover partial file without --resume or
 # --force, noise keys that belong to another noise model, settings of another
-# method, and a run estimated to need more memory than it may use. --estimate
-# prints the plan without running it.
+# method, a run estimated to need more memory than it may use, and resuming a
+# partial file of an earlier layout. --estimate prints the plan without running it.
 set -uo pipefail
 murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
@@ -64,4 +64,12 @@ grep -q "42 in all: 42 exact, 0 dipole, 0 full re-solve, 0 masked" "$dir/estimat
   || { echo "FAIL --estimate counts: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }
 grep -q "^memory: *about" "$dir/estimate.txt" && grep -q "^time: *about" "$dir/estimate.txt" \
   || { echo "FAIL --estimate gives no memory or time"; failures=$((failures + 1)); }
+
+# A partial file written by a murk before the netCDF layout (no Conventions attribute): resuming
+# it would finish a file of two layouts, so it is refused, and kept.
+"$murk" run "$base" -o "$dir/old.h5" --quiet --threads 1 2> "$dir/err" || { cat "$dir/err"; echo "FAIL run"; failures=$((failures + 1)); }
+cp "$dir/old.h5" "$dir/older.h5.partial"
+/usr/bin/python3 -c 'import sys, h5py; del h5py.File(sys.argv[1], "r+").attrs["Conventions"]' "$dir/older.h5.partial"
+expect_bad "partial file of an earlier layout" "start over with --force" "$murk" run "$base" -o "$dir/older.h5" --resume --quiet
+[ -e "$dir/older.h5.partial" ] || { echo "FAIL the refused partial file was removed"; failures=$((failures + 1)); }
 [ "$failures" -eq 0 ]

@@ -175,15 +175,20 @@ for name in sorted(set(a) & set(b)):
         bad.append(f"/{name}: values differ")
     ka = {k for k in x.attrs if k not in SCALE_ATTRS}
     kb = {k for k in y.attrs if k not in SCALE_ATTRS}
-    if ka != kb or any(np.any(x.attrs[k] != y.attrs[k]) for k in ka):
+    if ka != kb or any(not np.array_equal(x.attrs[k], y.attrs[k], equal_nan=np.asarray(x.attrs[k]).dtype.kind == "f")
+                       for k in ka):
         bad.append(f"/{name}: attributes differ")
     if [[d.name for d in dim.values()] for dim in x.dims] != [[d.name for d in dim.values()] for dim in y.dims]:
         bad.append(f"/{name}: dimension scales differ")
 for k in set(resumed.attrs) | set(full.attrs):
-    if k in ("created_utc", "command", "peak_memory_MiB"):  # differ from run to run by nature
+    if k in ("created_utc", "command", "history", "peak_memory_MiB"):  # differ from run to run by nature
         continue
     if k not in resumed.attrs or k not in full.attrs or np.any(resumed.attrs[k] != full.attrs[k]):
         bad.append(f"root attribute {k} differs")
+# The CF history holds the first command and then the resuming one, each after its UTC time.
+history = resumed.attrs["history"].split("\n")
+if len(history) != 2 or not all(" run " in line and "--resume" in line for line in history[1:]) or "--resume" in history[0]:
+    bad.append(f"history {history!r} is not the first run's line and then the resuming one")
 st = resumed["sweep/status"][()]
 if (st == 0).any():
     bad.append(f"{(st == 0).sum()} points are still not computed after --resume")
