@@ -496,32 +496,23 @@ TEST_CASE("hdf5: a partial file left by a dead run is replaced by a new run") {
     CHECK_FALSE(fs::exists(H5Output::partial_path(path)));
 }
 
-TEST_CASE("hdf5: a run killed after a flush can be resumed from its partial file") {
+TEST_CASE("hdf5: an output can be written under a temporary name of the caller's choosing") {
     TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
-    const std::string partial = H5Output::partial_path(path);
-    const std::string snapshot = dir / "snapshot";
+    const std::string temp = dir / "out.h5.writing";
     {
-        H5Output out(path, false);
-        H5Dataset map = out.root().create_filled<double>("sweep/map", {4}, "V", "perturbation");
-        map.write_slab<double>({0}, {1}, {0.25});
-        out.file().flush();
-        // The bytes on disk now are what a run killed at this moment leaves behind.
-        fs::copy_file(partial, snapshot);
-    }
-    CHECK_FALSE(fs::exists(partial));
-    fs::rename(snapshot, partial);
-    {
-        H5Output out = H5Output::resume(path, false);
-        H5Dataset map = out.root().dataset("sweep/map");
-        CHECK(map.read_slab<double>({0}, {1}) == std::vector<double>{0.25});
-        CHECK(std::isnan(map.read_slab<double>({1}, {1})[0]));
-        map.write_slab<double>({1}, {3}, {0.5, 0.75, 1.0});
+        H5Output out(path, false, "", temp);
+        out.root().set_attribute("count", 3);
+        CHECK(fs::exists(temp));
+        CHECK_FALSE(fs::exists(H5Output::partial_path(path)));
         out.commit();
     }
-    CHECK(H5File::open_readonly(path).root().read<double>("sweep/map").values == std::vector<double>{0.25, 0.5, 0.75, 1.0});
-    CHECK(input_error_message([&] { H5Output::resume(dir / "other.h5", false); })
-              .find(H5Output::partial_path(dir / "other.h5") + ": no such file") == 0);
+    CHECK_FALSE(fs::exists(temp));
+    CHECK(H5File::open_readonly(path).root().int_attribute("count") == 3);
+    {
+        H5Output abandoned(dir / "other.h5", false, "", dir / "other.h5.writing");
+    }
+    CHECK_FALSE(fs::exists(dir / "other.h5.writing"));
 }
 
 TEST_CASE("hdf5: bad files and paths are InputErrors naming the file") {

@@ -919,8 +919,9 @@ void H5File::close() {
 
 // ---- H5Output -------------------------------------------------------------------------------
 
-H5Output::H5Output(std::string path, bool overwrite, std::string exists_hint, H5File file)
-    : path_(std::move(path)), overwrite_(overwrite), exists_hint_(std::move(exists_hint)), file_(std::move(file)) {}
+H5Output::H5Output(std::string path, bool overwrite, std::string exists_hint, std::string temp, H5File file)
+    : path_(std::move(path)), temp_(std::move(temp)), overwrite_(overwrite), exists_hint_(std::move(exists_hint)),
+      file_(std::move(file)) {}
 
 namespace {
 
@@ -930,29 +931,23 @@ void check_output_allowed(const std::string& path, bool overwrite, std::string_v
     check_directory_of(path);
 }
 
-H5File start_partial(const std::string& path, bool overwrite, std::string_view hint) {
+H5File start_temporary(const std::string& path, const std::string& temp, bool overwrite, std::string_view hint) {
     check_output_allowed(path, overwrite, hint);
-    // A partial file here was left by a run that died; starting afresh means starting without it.
+    // A file here was left by a run that died while writing; starting afresh means starting without it.
     std::error_code error;
-    fs::remove(H5Output::partial_path(path), error);
-    return H5File::create(H5Output::partial_path(path));
+    fs::remove(temp, error);
+    return H5File::create(temp);
 }
 
 }  // namespace
 
-H5Output::H5Output(const std::string& path, bool overwrite, std::string_view exists_hint)
-    : H5Output(path, overwrite, std::string(exists_hint), start_partial(path, overwrite, exists_hint)) {}
-
-H5Output H5Output::resume(const std::string& path, bool overwrite, std::string_view exists_hint) {
-    check_output_allowed(path, overwrite, exists_hint);
-    const std::string partial = partial_path(path);
-    std::error_code error;
-    if (!fs::exists(partial, error)) throw InputError(partial + ": no such file, so there is nothing to resume");
-    return H5Output(path, overwrite, std::string(exists_hint), H5File::open_readwrite(partial));
-}
+H5Output::H5Output(const std::string& path, bool overwrite, std::string_view exists_hint, const std::string& temp)
+    : H5Output(path, overwrite, std::string(exists_hint), temp.empty() ? partial_path(path) : temp,
+               start_temporary(path, temp.empty() ? partial_path(path) : temp, overwrite, exists_hint)) {}
 
 H5Output::H5Output(H5Output&& other) noexcept
     : path_(std::move(other.path_)),
+      temp_(std::move(other.temp_)),
       overwrite_(other.overwrite_),
       exists_hint_(std::move(other.exists_hint_)),
       file_(std::move(other.file_)),
@@ -966,13 +961,7 @@ H5Output::~H5Output() {
         // Being removed anyway; a destructor has no one to tell.
     }
     std::error_code error;
-    fs::remove(partial_path(path_), error);
-}
-
-void H5Output::suspend() {
-    if (done_) return;
-    file_.close();
-    done_ = true;
+    fs::remove(temp_, error);
 }
 
 H5File& H5Output::file() {
@@ -982,7 +971,7 @@ H5File& H5Output::file() {
 
 void H5Output::commit() {
     if (done_) throw std::logic_error(path_ + " is already committed");
-    const std::string partial = partial_path(path_);
+    const std::string& partial = temp_;
     file_.close();
     // On disk before it gets its name: otherwise a power cut after the rename could leave a
     // complete-looking name over incomplete data.

@@ -279,17 +279,16 @@ private:
     std::string path_;
 };
 
-// A result file that appears under its name only when complete. Everything is written to
-// "<path>.partial" in the same directory; commit() closes it, syncs it to disk and renames
-// it onto `path`. Destroyed without commit() (an exception, a failed run), it removes the
-// partial file; a run that is killed leaves the partial file for resume().
+// A result file that appears under its name only when complete. Everything is written to a
+// temporary file in the same directory; commit() closes it, syncs it to disk and renames it
+// onto `path`. Destroyed without commit() (an exception, a failed run), it removes the
+// temporary file; a process that is killed may leave it, and the next run replaces it.
 class H5Output {
 public:
     // Without `overwrite`, an existing `path` is an InputError "<path> exists; <hint>".
-    // A partial file left by an earlier run is replaced.
-    H5Output(const std::string& path, bool overwrite, std::string_view exists_hint = {});
-    // Reopens the partial file an interrupted run left behind, to go on writing it.
-    static H5Output resume(const std::string& path, bool overwrite, std::string_view exists_hint = {});
+    // The file is written under `temp` (default: partial_path(path)); one left there by a
+    // run that died is replaced.
+    H5Output(const std::string& path, bool overwrite, std::string_view exists_hint = {}, const std::string& temp = {});
     static std::string partial_path(const std::string& path) { return path + ".partial"; }
 
     H5Output(H5Output&& other) noexcept;
@@ -304,13 +303,11 @@ public:
     // If `path` appeared meanwhile and overwrite is off, throws InputError and keeps the
     // partial file, so the work is not lost.
     void commit();
-    // Closes the partial file and keeps it for resume(): a sweep that is interrupted or
-    // fails part-way must not lose the points it finished.
-    void suspend();
 
 private:
-    H5Output(std::string path, bool overwrite, std::string exists_hint, H5File file);
+    H5Output(std::string path, bool overwrite, std::string exists_hint, std::string temp, H5File file);
     std::string path_;
+    std::string temp_;  // where the file is written until commit()
     bool overwrite_;
     std::string exists_hint_;
     H5File file_;

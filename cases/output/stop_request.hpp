@@ -6,6 +6,8 @@
 // request: the points in progress finish and are written, and the partial file
 // stays for --resume. While a finished result is being written, a stop waits
 // until the file is complete.
+#include <string>
+
 namespace murk {
 
 enum class OnStop {
@@ -13,8 +15,11 @@ enum class OnStop {
     finish_work,   // set the request; the run stops at its next safe point
 };
 
-// Installs the handlers (idempotent) and sets what a stop does from now on.
-void on_stop(OnStop mode);
+// Installs the handlers (idempotent) and sets what a stop does from now on. With
+// exit_at_once, a file named by `remove_on_exit` (a journal this run just
+// started, with nothing in it yet) goes too. SIGXFSZ is ignored, so that a
+// file-size limit makes a write fail (and the run say so) rather than end it.
+void on_stop(OnStop mode, const std::string& remove_on_exit = {});
 bool stop_requested();
 // The signal that asked for the stop (0 if none), for the exit status 128 + signal.
 int stop_signal();

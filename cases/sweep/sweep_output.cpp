@@ -6,6 +6,7 @@
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
+#include "cases/sweep/path_check.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "geometry/input_error.hpp"
 
@@ -76,66 +77,11 @@ double PathCheck::largest() const {
 
 template <class S>
 SweepFile<S>::SweepFile(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
-                        const SweepBaselines<S>& baselines, H5Output output)
-    : spec_(&spec), options_(options), plan_(&plan), baselines_(&baselines), output_(std::move(output)),
-      partial_(H5Output::partial_path(options.output_path)), mask_count_(kMaskReasonCount, 0) {}
-
-template <class S>
-SweepFile<S>::SweepFile(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
                         const SweepBaselines<S>& baselines)
-    : SweepFile(spec, options, plan, baselines, [&] {
-          check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
-          const std::string partial = H5Output::partial_path(options.output_path);
-          if (!options.force && std::filesystem::exists(partial))
-              throw InputError(partial + " holds the points of an interrupted run; pass --resume to finish it, "
-                                         "or --force to start over");
-          return H5Output(options.output_path, options.force, kExistsHint);
-      }()) {
+    : spec_(&spec), options_(options), plan_(&plan), baselines_(&baselines) {
+    check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
+    output_.emplace(options.output_path, options.force, kExistsHint, writing_path(options.output_path));
     create_datasets();
-}
-
-template <class S>
-SweepFile<S> SweepFile<S>::resume(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
-                                  const SweepBaselines<S>& baselines) {
-    SweepFile file(spec, options, plan, baselines, H5Output::resume(options.output_path, options.force, kExistsHint));
-    try {
-        H5Group root = file.output_->root();
-        if (root.string_attribute("case_sha256") != sha256_hex(spec.text))
-            throw InputError(file.partial_ + ": was started from a different case file; refusing to resume it with " +
-                             spec.path);
-        if (!root.exists("sweep/path") || !root.exists("sweep/mask_reason"))
-            throw InputError(file.partial_ +
-                             ": was written by an earlier murk that did not record each point's path and mask "
-                             "reason; start over with --force");
-        if (!root.has_attribute("Conventions"))
-            throw InputError(file.partial_ +
-                             ": was written by an earlier murk whose files netCDF readers cannot open; start over "
-                             "with --force");
-        for (std::uint8_t s : root.read<std::uint8_t>("sweep/status").values) file.status_.push_back(PointStatus(s));
-        for (std::uint8_t p : root.read<std::uint8_t>("sweep/path").values) file.path_.push_back(PathCode(p));
-        if (file.status_.size() != plan.total || file.path_.size() != plan.total)
-            throw InputError(file.partial_ + ": holds " + std::to_string(file.status_.size()) +
-                             " points, the case sweeps " + std::to_string(plan.total) + "; start over with --force");
-        file.count_masks();
-        root.append_to_attribute("history", history_line(utc_now_iso8601(), options.command_line));
-    } catch (...) {
-        file.output_->suspend();  // not ours to delete: the partial file keeps its finished points
-        throw;
-    }
-    return file;
-}
-
-template <class S>
-void SweepFile<S>::count_masks() {
-    const std::vector<std::uint8_t> reasons = output_->root().read<std::uint8_t>("sweep/mask_reason").values;
-    for (std::size_t p = 0; p < reasons.size(); ++p)
-        if (status_[p] == PointStatus::masked && reasons[p] < kMaskReasonCount) ++mask_count_[reasons[p]];
-}
-
-template <class S>
-std::size_t SweepFile<S>::finished() const {
-    return std::size_t(std::count_if(status_.begin(), status_.end(),
-                                     [](PointStatus s) { return s != PointStatus::not_computed; }));
 }
 
 template <class S>
@@ -261,8 +207,6 @@ void SweepFile<S>::create_datasets() {
     }
     coded(kPath, "path that computed the point", flags_of<PathCode>());
     status_.assign(plan.total, PointStatus::not_computed);
-    path_.assign(plan.total, PathCode::none);
-    output_->file().flush();
 }
 
 template <class S>
@@ -277,7 +221,6 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
         write_at(sweep, "peak_sensor", index, {}, std::vector<std::int32_t>{-1});
         write_at(sweep, "mask_reason", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.mask)});
         status = PointStatus::masked;
-        ++mask_count_[static_cast<int>(r.mask)];
     } else {
         const Vec3 c = r.centre;
         write_at(sweep, "object_position", index, {3}, std::vector<double>{c.x(), c.y(), c.z()});
@@ -293,31 +236,15 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
         }
     }
     status_[r.point] = status;
-    path_[r.point] = r.path;
     write_at(sweep, "path", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.path)});
-    // The status is written last and flushed: a point counts as done only once
-    // all its values are on disk.
     write_at(sweep, "status", index, {}, std::vector<std::uint8_t>{std::uint8_t(status)});
-    output_->file().flush();
 }
 
 template <class S>
-std::vector<S> SweepFile<S>::perturbation(std::size_t point) const {
-    const std::vector<std::size_t> index = plan_->index_of(point);
-    H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-    offset.push_back(0), count.push_back(baselines_->sensors.size());
-    return output_->root().dataset("sweep/perturbation").template read_slab<S>(offset, count);
-}
-
-template <class S>
-std::optional<PathCheck> SweepFile<S>::path_check() const {
-    H5Group root = output_->root();
-    if (!root.exists("sweep/path_check")) return std::nullopt;
-    PathCheck c;
-    c.points = root.read<std::int64_t>("sweep/path_check/point").values;
-    c.discrepancy = root.read<double>("sweep/path_check/discrepancy").values;
-    c.size_to_distance = root.read<double>("sweep/path_check/size_to_distance").values;
-    return c;
+void SweepFile<S>::set_history(const std::vector<std::string>& lines) {
+    std::string text;
+    for (const std::string& line : lines) text += (text.empty() ? "" : "\n") + line;
+    if (!text.empty()) output_->root().set_attribute("history", text);
 }
 
 template <class S>
@@ -331,8 +258,7 @@ void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) 
                               "max over sensors |dipole - exact| / max over sensors |exact| at that point");
     d.label_dimensions({kCheckPoint});
     check.write("size_to_distance", c.size_to_distance, "1",
-                "object half-extent / distance of its centre from the body (NaN: computed by an earlier, "
-                "interrupted run)")
+                "object half-extent / distance of its centre from the nearest surface that stays, source or probe")
         .label_dimensions({kCheckPoint})
         .set_fill_value(std::numeric_limits<double>::quiet_NaN());
     d.set_attribute("max_discrepancy", c.largest());
@@ -371,16 +297,18 @@ std::vector<XdmfAttribute> sidecar_attributes(const H5Group& root, const SweepPl
 }
 
 template <class S>
-void SweepFile<S>::commit(double peak_memory_MiB) {
+void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
     const SweepPlan& plan = *plan_;
     const SweepBaselines<S>& base = *baselines_;
     H5Group root = output_->root();
-    write_sweep_analysis(root, plan.axes, spec_->detection);
-    const std::vector<XdmfAttribute> fields =
-        base.sensors.probes ? std::vector<XdmfAttribute>{} : sidecar_attributes(root, plan, base, status_);
+    std::vector<XdmfAttribute> fields;
+    if (whole) {
+        write_sweep_analysis(root, plan.axes, spec_->detection);
+        if (!base.sensors.probes) fields = sidecar_attributes(root, plan, base, status_);
+    }
     root.set_attribute("peak_memory_MiB", peak_memory_MiB);
     output_->commit();
-    if (base.sensors.probes) {  // no surface to show
+    if (!whole || base.sensors.probes) {  // no surface to show, or a part of a whole
         if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), plan.total);
         return;
     }
@@ -394,7 +322,24 @@ void SweepFile<S>::commit(double peak_memory_MiB) {
                     xdmf_sidecar_path(options_.output_path).c_str());
 }
 
+template <class S>
+void write_result_from_journal(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
+                               const SweepBaselines<S>& baselines, const PointJournal& journal,
+                               double peak_memory_MiB) {
+    SweepFile<S> file(spec, options, plan, baselines);
+    file.set_history(journal.history());
+    for (std::size_t p = 0; p < plan.total; ++p)
+        if (journal.has(p)) file.write_point(journal.template read<S>(p));
+    // In point order, as a run that was never interrupted lists them.
+    if (!journal.checks().empty()) file.write_path_check(path_check_of(journal), plan.sweep);
+    file.commit(peak_memory_MiB, journal.header().share_count == 1);
+}
+
 template class SweepFile<double>;
 template class SweepFile<Complex>;
+template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
+                                        const SweepBaselines<double>&, const PointJournal&, double);
+template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
+                                        const SweepBaselines<Complex>&, const PointJournal&, double);
 
 }  // namespace murk

@@ -12,6 +12,7 @@
 #include "cases/output/hdf5_file.hpp"
 #include "cases/output/result_layout.hpp"
 #include "geometry/input_error.hpp"
+#include "cases/sweep/point_journal.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <H5DSpublic.h>
@@ -653,7 +654,34 @@ void print_run(const H5Group& root) {
 
 }  // namespace
 
+// The journal of a run in progress or interrupted (OUT.h5.partial): how far it got.
+void print_journal(const std::string& path) {
+    const PointJournal j = PointJournal::inspect(path);
+    const JournalHeader& h = j.header();
+    std::size_t computed = 0, masked = 0;
+    for (std::size_t p = 0; p < h.points; ++p)
+        if (j.has(p)) (j.status(p) == PointStatus::masked ? masked : computed) += 1;
+    std::printf("file:             %s\n", path.c_str());
+    std::printf("kind:             journal of a murk run %s (murk %s)\n",
+                j.held_by_a_run() ? "in progress" : "that was interrupted", h.murk_version.c_str());
+    std::printf("written by:       process %lld on %s, started %s\n", static_cast<long long>(h.pid), h.host.c_str(),
+                h.started_utc.c_str());
+    std::printf("case SHA-256:     %.12s...\n", h.case_sha256.c_str());
+    if (h.share_count > 1) std::printf("share:            %u/%u\n", h.share_index + 1, h.share_count);
+    std::printf("points:           %zu of %llu finished: %zu computed, %zu masked\n", j.finished(),
+                static_cast<unsigned long long>(h.points), computed, masked);
+    std::printf("dipole checks:    %zu\n", j.checks().size());
+    if (j.dropped_bytes() > 0)
+        std::printf("torn end:         %zu bytes of a record cut short (a resume drops them)\n", j.dropped_bytes());
+    std::printf("%s\n", j.held_by_a_run() ? "the run is alive; it writes the result file when it finishes"
+                                          : "finish it with: murk run CASE.toml -o OUT.h5 --resume");
+}
+
 int inspect_command(const InspectArgs& args) {
+    if (PointJournal::is_journal(args.path)) {
+        print_journal(args.path);
+        return 0;
+    }
     const H5File file = H5File::open_readonly(args.path);
     const H5Group root = file.root();
     print_header(file, root);
