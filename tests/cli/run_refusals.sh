@@ -65,8 +65,8 @@ grep -q "42 in all: 42 exact, 0 dipole, 0 full re-solve, 0 masked" "$dir/estimat
 grep -q "^memory: *about" "$dir/estimate.txt" && grep -q "^time: *about" "$dir/estimate.txt" \
   || { echo "FAIL --estimate gives no memory or time"; failures=$((failures + 1)); }
 
-# A partial file written by a murk before the netCDF layout (no Conventions attribute): resuming
-# it would finish a file of two layouts, so it is refused, and kept.
+# A partial file of an earlier murk (an HDF5 file, not this murk's journal): it cannot be
+# resumed, so it is refused, and kept.
 "$murk" run "$base" -o "$dir/old.h5" --quiet --threads 1 2> "$dir/err" || { cat "$dir/err"; echo "FAIL run"; failures=$((failures + 1)); }
 cp "$dir/old.h5" "$dir/older.h5.partial"
 /usr/bin/python3 -c 'import sys, h5py; del h5py.File(sys.argv[1], "r+").attrs["Conventions"]' "$dir/older.h5.partial"
