@@ -7,6 +7,7 @@ set -euo pipefail
 murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
 sed -e 's/^distance = .*/distance = ["4 mm", "1 cm", "2 cm"]/' -e 's/^water_conductivity = .*//' \
+    -e 's/^panel_size = "1 mm"/panel_size = "3 mm"/' \
     "$src/cases/examples/fish_detection.toml" > "$dir/small.toml"
 for method in exact dipole auto; do
 sed -e "s/^\[sweep\]/[sweep]\nmethod = \"$method\"/" "$dir/small.toml" > "$dir/$method.toml"
