@@ -58,9 +58,9 @@ expect_bad "points beyond memory" "1000000000000 points" "$murk" run "$dir/many.
 sed -e 's/count = 65536/count = 400/g' "$dir/wrap.toml" > "$dir/forms.toml"
 expect_bad "too many object forms" "forms (objects x sizes" "$murk" run "$dir/forms.toml" -o "$dir/w.h5" --quiet --memory-limit "100 TiB"
 
-# --estimate prints the plan (the demo's 2 x 3 x 7 = 42 points, all exact) and writes nothing.
+# --estimate prints the plan (the demo's 2 x 3 x 13 = 78 points, all exact) and writes nothing.
 "$murk" run "$base" --estimate > "$dir/estimate.txt" 2>&1 || { echo "FAIL --estimate: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }
-grep -q "42 in all: 42 exact, 0 dipole, 0 full re-solve, 0 masked" "$dir/estimate.txt" \
+grep -q "78 in all: 78 exact, 0 dipole, 0 full re-solve, 0 masked" "$dir/estimate.txt" \
   || { echo "FAIL --estimate counts: $(cat "$dir/estimate.txt")"; failures=$((failures + 1)); }
 grep -q "^memory: *about" "$dir/estimate.txt" && grep -q "^time: *about" "$dir/estimate.txt" \
   || { echo "FAIL --estimate gives no memory or time"; failures=$((failures + 1)); }
