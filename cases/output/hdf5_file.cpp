@@ -436,6 +436,12 @@ void H5Object::append_to_attribute(std::string_view name, std::string_view line)
     set_attribute(name, string_attribute(name) + "\n" + std::string(line));
 }
 
+void H5Object::remove_attribute(std::string_view name) const {
+    if (!has_attribute(name)) return;
+    const std::string n(name);
+    checked(H5Adelete(id(), n.c_str()), "H5Adelete", id(), {}, "attribute " + n);
+}
+
 bool H5Object::has_attribute(std::string_view name) const {
     const std::string n(name);
     return checked(H5Aexists(id(), n.c_str()), "H5Aexists", id(), {}, "attribute " + n) > 0;
@@ -663,6 +669,12 @@ H5Group H5Group::group(std::string_view path) const {
         }
     }
     return H5Group(std::move(current));
+}
+
+void H5Group::remove(std::string_view path) const {
+    if (!exists(path)) return;
+    const std::string p(path);
+    checked(H5Ldelete(id(), p.c_str(), H5P_DEFAULT), "H5Ldelete", id(), p);
 }
 
 bool H5Group::exists(std::string_view path) const {
@@ -944,6 +956,15 @@ H5File start_temporary(const std::string& path, const std::string& temp, bool ov
 H5Output::H5Output(const std::string& path, bool overwrite, std::string_view exists_hint, const std::string& temp)
     : H5Output(path, overwrite, std::string(exists_hint), temp.empty() ? partial_path(path) : temp,
                start_temporary(path, temp.empty() ? partial_path(path) : temp, overwrite, exists_hint)) {}
+
+H5Output H5Output::copy_of(const std::string& source, const std::string& path, bool overwrite,
+                           std::string_view exists_hint, const std::string& temp) {
+    check_output_allowed(path, overwrite, exists_hint);
+    std::error_code error;
+    fs::copy_file(source, temp, fs::copy_options::overwrite_existing, error);
+    if (error) throw InputError(temp + ": cannot copy " + source + " there (" + error.message() + ")");
+    return H5Output(path, overwrite, std::string(exists_hint), temp, H5File::open_readwrite(temp));
+}
 
 H5Output::H5Output(H5Output&& other) noexcept
     : path_(std::move(other.path_)),

@@ -128,6 +128,8 @@ public:
     // Text appended to a string attribute on a new line (or set, if it is missing): a
     // resumed run adds itself to `history`.
     void append_to_attribute(std::string_view name, std::string_view line) const;
+    // Removes the attribute if it is there.
+    void remove_attribute(std::string_view name) const;
     // Any integer (but not bool) is stored as int64.
     template <class I, std::enable_if_t<std::is_integral_v<I> && !std::is_same_v<I, bool>, int> = 0>
     void set_attribute(std::string_view name, I value) const {
@@ -208,6 +210,8 @@ public:
     // Opens an existing group; a missing one is an InputError naming the file.
     H5Group open_group(std::string_view path) const;
     bool exists(std::string_view path) const;
+    // Unlinks the group or dataset at `path` if it is there (its space is not reclaimed).
+    void remove(std::string_view path) const;
 
     // Writes a new dataset at `path` (parents are created). `units` is a UDUNITS string
     // ("m", "S m-1", "V", "1" if dimensionless); `long_name` says what the numbers are. An
@@ -290,6 +294,10 @@ public:
     // run that died is replaced.
     H5Output(const std::string& path, bool overwrite, std::string_view exists_hint = {}, const std::string& temp = {});
     static std::string partial_path(const std::string& path) { return path + ".partial"; }
+    // The same, starting from a copy of the file `source` (murk merge builds a result on one
+    // of its parts).
+    static H5Output copy_of(const std::string& source, const std::string& path, bool overwrite,
+                            std::string_view exists_hint, const std::string& temp);
 
     H5Output(H5Output&& other) noexcept;
     H5Output& operator=(H5Output&&) = delete;

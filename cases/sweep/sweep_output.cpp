@@ -7,6 +7,7 @@
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/path_check.hpp"
+#include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "geometry/input_error.hpp"
 
@@ -96,6 +97,10 @@ void SweepFile<S>::create_datasets() {
     root.set_attribute("sweep_method", std::string(method_name(plan.sweep.method)));
     if (plan.sweep.method != SweepMethod::full) root.set_attribute("coupling_tolerance", plan.sweep.coupling_tolerance);
     if (plan.sweep.method == SweepMethod::automatic) root.set_attribute("dipole_accuracy", plan.sweep.dipole_accuracy);
+    if (options_.share_count > 1) {  // a part of a job array: which share it holds (murk merge checks)
+        root.set_attribute("share_index", std::int64_t(options_.share_index + 1));
+        root.set_attribute("share_count", std::int64_t(options_.share_count));
+    }
     if (!sensors.probes) {
         const Surface<S>& body = base.waters.front().scene().surfaces.front();
         const std::string body_name = surface_group_name(body.mesh.name);
@@ -107,10 +112,14 @@ void SweepFile<S>::create_datasets() {
     using namespace layout;
     H5Group sweep = root.group(kSweep);
     std::vector<std::string> axis_names;
+    std::string axes_attribute;
     for (const SweepAxis& a : plan.axes) {
         sweep.write_coordinate(a.name, a.values, a.units, a.long_name);
         axis_names.push_back(a.name);
+        axes_attribute += (axes_attribute.empty() ? "" : " ") + a.name;
     }
+    // The axes in their order: what a reader (murk merge) needs to rebuild the point index.
+    sweep.set_attribute("axes", axes_attribute);
     if (!plan.sweep.objects.empty()) {
         // The object axis holds indices into object_names; as CF flags, xarray and ncdump show the names.
         std::string names, words;
@@ -247,10 +256,9 @@ void SweepFile<S>::set_history(const std::vector<std::string>& lines) {
     if (!text.empty()) output_->root().set_attribute("history", text);
 }
 
-template <class S>
-void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) {
+void write_path_check(const H5Group& root, const PathCheck& c, std::optional<double> accuracy_target) {
     using layout::kCheckPoint;
-    H5Group check = output_->root().group(std::string(layout::kSweep) + "/" + layout::kPathCheck);
+    H5Group check = root.group(std::string(layout::kSweep) + "/" + layout::kPathCheck);
     // The checked points' flat indices are the coordinate of the group's one dimension.
     check.write_coordinate(kCheckPoint, c.points, "1",
                            "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
@@ -262,64 +270,25 @@ void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) 
         .label_dimensions({kCheckPoint})
         .set_fill_value(std::numeric_limits<double>::quiet_NaN());
     d.set_attribute("max_discrepancy", c.largest());
-    if (sweep.method == SweepMethod::automatic) d.set_attribute("accuracy_target", sweep.dipole_accuracy);
+    if (accuracy_target) d.set_attribute("accuracy_target", *accuracy_target);
 }
 
-// The sidecar's panel fields of the body (cases/output/surface_output.hpp): the baseline
-// and, for a fish, the electric image at the point with the largest peak, which is written
-// as /sweep/strongest_image for the purpose.
 template <class S>
-std::vector<XdmfAttribute> sidecar_attributes(const H5Group& root, const SweepPlan& plan, const SweepBaselines<S>& base,
-                                              const std::vector<PointStatus>& status) {
-    const Surface<S>& body = base.waters.front().scene().surfaces.front();
-    const H5Group baseline = root.group("baseline/" + surface_group_name(body.mesh.name));
-    std::vector<XdmfAttribute> fields = sidecar_fields(baseline, "outer_potential", "baseline potential", layout::kPanel);
-    if (!base.sensors.skin) return fields;
-    for (XdmfAttribute& a : sidecar_fields(baseline, layout::kTransdermal, "baseline transdermal voltage", layout::kPanel))
-        fields.push_back(a);
-
-    const H5Group sweep = root.group(layout::kSweep);
-    const std::vector<double> peak = sweep.read<double>(layout::kPeakPerturbation).values;
-    std::size_t best = plan.total;
-    for (std::size_t p = 0; p < plan.total; ++p)
-        if (status[p] == PointStatus::computed && (best == plan.total || peak[p] > peak[best])) best = p;
-    if (best == plan.total) return fields;
-    const std::vector<std::size_t> index = plan.index_of(best);
-    H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-    offset.push_back(0), count.push_back(base.sensors.size());
-    const std::vector<S> image = sweep.dataset("perturbation").read_slab<S>(offset, count);
-    sweep.write("strongest_image", image, "V", "electric image at the sweep point with the largest peak")
-        .label_dimensions({layout::kSensor})
-        .set_attribute("point", static_cast<std::int64_t>(best));
-    for (XdmfAttribute& a : sidecar_fields(sweep, "strongest_image", "strongest electric image dV", layout::kSensor))
-        fields.push_back(a);
-    return fields;
+void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) {
+    murk::write_path_check(output_->root(), c,
+                     sweep.method == SweepMethod::automatic ? std::optional<double>(sweep.dipole_accuracy) : std::nullopt);
 }
 
 template <class S>
 void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
-    const SweepPlan& plan = *plan_;
-    const SweepBaselines<S>& base = *baselines_;
     H5Group root = output_->root();
-    std::vector<XdmfAttribute> fields;
-    if (whole) {
-        write_sweep_analysis(root, plan.axes, spec_->detection);
-        if (!base.sensors.probes) fields = sidecar_attributes(root, plan, base, status_);
-    }
+    const std::vector<XdmfSurface> surfaces = whole ? finish_result(root) : std::vector<XdmfSurface>{};
     root.set_attribute("peak_memory_MiB", peak_memory_MiB);
     output_->commit();
-    if (!whole || base.sensors.probes) {  // no surface to show, or a part of a whole
-        if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), plan.total);
-        return;
-    }
-    const Surface<S>& body = base.waters.front().scene().surfaces.front();
-    const std::string h5_name = std::filesystem::path(options_.output_path).filename().string();
-    write_xdmf_sidecar(xdmf_sidecar_path(options_.output_path), h5_name,
-                       {{"/mesh/" + surface_group_name(body.mesh.name), body.mesh.vertices.size(), body.mesh.size(),
-                         fields}});
+    write_result_sidecar(options_.output_path, surfaces);
     if (!options_.quiet)
-        std::printf("wrote %s (%zu points) and %s\n", options_.output_path.c_str(), plan.total,
-                    xdmf_sidecar_path(options_.output_path).c_str());
+        std::printf("wrote %s (%zu points)%s%s\n", options_.output_path.c_str(), plan_->total,
+                    surfaces.empty() ? "" : " and ", surfaces.empty() ? "" : xdmf_sidecar_path(options_.output_path).c_str());
 }
 
 template <class S>

@@ -30,6 +30,9 @@ struct PathCheck {
     double largest() const;
 };
 
+// /sweep/path_check: the dipole points re-solved exactly; `accuracy_target` with method "auto".
+void write_path_check(const H5Group& root, const PathCheck& check, std::optional<double> accuracy_target);
+
 template <class S>
 class SweepFile {
 public:

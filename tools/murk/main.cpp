@@ -38,8 +38,18 @@ int main(int argc, char** argv) {
     run_cmd->add_flag("--quiet", run.quiet, "no progress lines");
     run_cmd->add_option("--threads", run.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
     run_cmd->add_flag("--estimate", run.estimate, "print the points per path, memory and time the run would take; run nothing");
+    run_cmd->add_option("--shard", run.shard,
+                        "K/N: compute share K of N of the points (a job-array task; join the shares with murk merge)");
     run_cmd->add_option("--memory-limit", run.memory_limit,
                         "refuse a run estimated to need more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
+
+    murk::cli::MergeArgs merge;
+    auto* merge_cmd = app.add_subcommand("merge", "join the shares of a sweep (murk run --shard K/N) into one result");
+    merge_cmd->add_option("parts", merge.parts, "result files of the shares")->required();
+    merge_cmd->add_option("-o,--output", merge.output_path, "result file (HDF5)")->required();
+    merge_cmd->add_flag("--partial", merge.partial, "accept missing points: they stay marked not computed");
+    merge_cmd->add_flag("--force", merge.force, "replace an existing result file");
+    merge_cmd->add_flag("--quiet", merge.quiet, "print nothing but errors");
 
     murk::cli::InspectArgs inspect;
     auto* inspect_cmd = app.add_subcommand("inspect", "a readable summary of a result file");
@@ -73,6 +83,7 @@ int main(int argc, char** argv) {
     try {
         if (*run_cmd) return murk::cli::run_command(run, joined(argc, argv));
         if (*inspect_cmd) return murk::cli::inspect_command(inspect);
+        if (*merge_cmd) return murk::cli::merge_command(merge, joined(argc, argv));
         if (*verify_cmd) return murk::cli::verify_command(verify);
         if (*solve_cmd) return murk::cli::solve_command(solve, joined(argc, argv));
         if (*mesh_cmd) return murk::cli::mesh_command(mesh);

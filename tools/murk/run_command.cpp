@@ -5,6 +5,7 @@
 #include "tools/murk/commands.hpp"
 
 #include <cmath>
+#include <cstdio>
 #include <cstdlib>
 #include <map>
 
@@ -38,6 +39,16 @@ int run_command(const RunArgs& args, const std::string& command_line) {
     options.quiet = args.quiet;
     options.estimate_only = args.estimate;
     if (!args.memory_limit.empty()) options.memory_limit_bytes = parse_memory_size(args.memory_limit, "--memory-limit");
+    if (!args.shard.empty()) {
+        // "K/N" with 1 <= K <= N: shares are numbered from 1, as job-array tasks usually are not;
+        // a script passes $((SLURM_ARRAY_TASK_ID + 1)) or numbers its array from 1.
+        unsigned long k = 0, n = 0;
+        char tail = 0;
+        if (std::sscanf(args.shard.c_str(), "%lu/%lu%c", &k, &n, &tail) != 2 || n < 1 || k < 1 || k > n || n > 100000)
+            throw InputError("--shard: '" + args.shard + "' is not a share; write K/N with 1 <= K <= N, e.g. 3/8");
+        options.share_index = k - 1;
+        options.share_count = n;
+    }
     if (options.output_path.empty() && !options.estimate_only)
         throw InputError("murk run: -o OUT.h5 is required (only --estimate runs without it)");
     on_stop(OnStop::exit_at_once);  // until the result file is open (cases/output/stop_request.hpp)
