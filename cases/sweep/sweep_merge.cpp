@@ -83,7 +83,7 @@ void copy_perturbation(const H5Dataset& from, const H5Dataset& to, const std::ve
 }  // namespace
 
 void merge_results(const std::vector<std::string>& paths, const MergeOptions& options) {
-    if (paths.empty()) throw InputError("murk merge: no parts given");
+    if (paths.empty()) throw InputError("no parts to merge");
     std::vector<Part> parts;
     for (const std::string& path : paths) parts.push_back(open_part(path));
 
@@ -125,7 +125,7 @@ void merge_results(const std::vector<std::string>& paths, const MergeOptions& op
         std::string absent;
         for (std::int64_t s = 1; s <= shares; ++s)
             if (!by_share.count(s)) absent += (absent.empty() ? "" : ", ") + std::to_string(s);
-        throw InputError("murk merge: " + std::to_string(missing) + " of " + std::to_string(points) +
+        throw InputError(std::to_string(missing) + " of " + std::to_string(points) +
                          " points are in no part" +
                          (absent.empty() ? " (some parts are unfinished)" : " (shares missing: " + absent + " of " +
                                                                                 std::to_string(shares) + ")") +
