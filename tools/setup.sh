@@ -9,6 +9,7 @@ root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 
 packages=(build-essential cmake libeigen3-dev libboost-dev libhdf5-dev hdf5-tools libcli11-dev
           doctest-dev libtomlplusplus-dev libudunits2-dev libssl-dev libopenblas-dev liblapacke-dev
+          libopenmpi-dev openmpi-bin zlib1g-dev
           python3 python3-h5py python3-numpy python3-matplotlib python3-meshio "$@")
 missing=()
 for p in "${packages[@]}"; do

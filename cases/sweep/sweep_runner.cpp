@@ -15,6 +15,7 @@
 #include <sys/resource.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cstdio>
 #include <filesystem>
@@ -99,9 +100,10 @@ public:
         count_points(plan, journal);
         if (stop_requested()) {
             if (!options_.quiet) print_stats(plan);
+            const std::size_t mine = share.empty() ? plan.total : std::size_t(std::count(share.begin(), share.end(), 1));
             std::fprintf(stderr,
-                         "murk: interrupted; %zu of %zu points are kept in %s; run again with --resume to finish\n",
-                         journal.finished(), plan.total, journal.path().c_str());
+                         "murk: interrupted; %zu of %zu points%s are kept in %s; run again with --resume to finish\n",
+                         journal.finished(), mine, share.empty() ? "" : " of this share", journal.path().c_str());
             return RunOutcome::interrupted;
         }
         // analysis and commit: the result file, written once from the journal.
