@@ -1,6 +1,7 @@
 #include "geometry/shapes.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/zone_refinement.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -121,6 +122,41 @@ void keep_volume_cross_section(TriangleMesh& m, double v_true) {
     }
 }
 
+// Refines `m` toward `zones` (new vertices projected onto the true surface), then
+// keeps the true volume with `keep`. Keeping the volume moves the vertices a
+// little (a scale of a few per cent), which can stretch a zone's edges just past
+// its size or carry an edge from just outside its ball to just inside. The
+// refinement is then redone from `m` with the sizes divided by the largest
+// stretch of an edge and the radii grown by the largest move of a vertex, until
+// every zone holds on the final mesh.
+template <class Keep>
+TriangleMesh refine_keeping_volume(const TriangleMesh& m, const std::vector<RefinementZone>& zones,
+                                   const SurfaceProjection& project, Keep keep) {
+    std::vector<RefinementZone> aimed = zones;
+    double stretch = 1.0, moved = 0.0;  // the largest seen so far
+    for (int attempt = 0;; ++attempt) {
+        TriangleMesh refined = m;
+        refine_in_zones(refined, aimed, project);
+        TriangleMesh out = refined;
+        keep(out);
+        if (zones.empty() || zone_edge_excess(out, zones) <= 1.0) return out;
+        // The scale differs little between attempts: two or three are the rule.
+        if (attempt == 8) throw InputError("refinement zones: could not meet the zones' panel sizes");
+        for (const Triangle& t : out.triangles)
+            for (int k = 0; k < 3; ++k) {
+                const int a = t[k], b = t[(k + 1) % 3];
+                stretch = std::max(stretch, (out.vertices[a] - out.vertices[b]).norm() /
+                                                (refined.vertices[a] - refined.vertices[b]).norm());
+            }
+        for (std::size_t v = 0; v < out.vertices.size(); ++v)
+            moved = std::max(moved, (out.vertices[v] - refined.vertices[v]).norm());
+        for (std::size_t k = 0; k < aimed.size(); ++k) {
+            aimed[k].panel_size = zones[k].panel_size / (stretch * (1.0 + 1e-6));  // 1e-6: beyond rounding
+            aimed[k].radius = zones[k].radius + moved;
+        }
+    }
+}
+
 int check_level(int subdivisions, const char* what) {
     if (subdivisions < 0 || subdivisions > 8)
         throw InputError(std::string(what) + ": subdivision level must be 0..8, got " + std::to_string(subdivisions));
@@ -180,6 +216,23 @@ double ellipse_perimeter(double a, double b) {
     return kPi * (3.0 * (a + b) - std::sqrt((3.0 * a + b) * (a + 3.0 * b)));
 }
 
+// Onto the body: a point keeps its x and moves within its cross-section along
+// the ray from the axis, scaled to the ellipse of the profile at that x.
+SurfaceProjection body_projection(const BodyProfile& p) {
+    return [p](const Vec3& q) {
+        const std::size_t n = p.x.size();
+        const double x = std::clamp(q.x(), p.x.front(), p.x.back());
+        std::size_t i = std::upper_bound(p.x.begin(), p.x.end(), x) - p.x.begin();
+        i = std::clamp<std::size_t>(i, 1, n - 1) - 1;  // segment [i, i + 1] holds x
+        const double t = (x - p.x[i]) / (p.x[i + 1] - p.x[i]);
+        const double a = (1.0 - t) * p.half_width[i] + t * p.half_width[i + 1];
+        const double b = (1.0 - t) * p.half_height[i] + t * p.half_height[i + 1];
+        if (!(a > 0.0 && b > 0.0)) return Vec3(x, 0.0, 0.0);  // a tip
+        const double s = std::hypot(q.y() / a, q.z() / b);
+        return s > 0.0 ? Vec3(x, q.y() / s, q.z() / s) : q;
+    };
+}
+
 void validate_profile(const BodyProfile& p) {
     const std::size_t n = p.x.size();
     if (p.half_width.size() != n || p.half_height.size() != n)
@@ -216,25 +269,36 @@ TriangleMesh make_icosphere(double radius, int subdivisions) {
     return m;
 }
 
-TriangleMesh make_sphere(double radius, double target_edge) {
+TriangleMesh make_sphere(double radius, double target_edge, const std::vector<RefinementZone>& zones) {
     require_positive(radius, "sphere radius");
     require_positive(target_edge, "sphere target edge");
-    return make_icosphere(radius, sphere_level_for(radius, target_edge, "sphere"));
+    if (zones.empty()) return make_icosphere(radius, sphere_level_for(radius, target_edge, "sphere"));
+    TriangleMesh m = unit_icosphere(sphere_level_for(radius, target_edge, "sphere"));
+    scale_all(m, Vec3::Constant(radius));
+    m = refine_keeping_volume(
+        m, zones, [radius](const Vec3& p) { return Vec3(radius * p.normalized()); },
+        [radius](TriangleMesh& x) { keep_volume_uniform(x, 4.0 / 3.0 * kPi * radius * radius * radius); });
+    finish(m, "sphere");
+    return m;
 }
 
-TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge) {
+TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge, const std::vector<RefinementZone>& zones) {
     require_positive(semi_axes.x(), "ellipsoid semi-axis x");
     require_positive(semi_axes.y(), "ellipsoid semi-axis y");
     require_positive(semi_axes.z(), "ellipsoid semi-axis z");
     require_positive(target_edge, "ellipsoid target edge");
     TriangleMesh m = unit_icosphere(sphere_level_for(semi_axes.maxCoeff(), target_edge, "ellipsoid"));
     scale_all(m, semi_axes);
-    keep_volume_uniform(m, 4.0 / 3.0 * kPi * semi_axes.prod());
+    // Onto the ellipsoid along the ray from its centre.
+    auto project = [semi_axes](const Vec3& p) { return Vec3(p / p.cwiseQuotient(semi_axes).norm()); };
+    m = refine_keeping_volume(m, zones, project,
+                              [&](TriangleMesh& x) { keep_volume_uniform(x, 4.0 / 3.0 * kPi * semi_axes.prod()); });
     finish(m, "ellipsoid");
     return m;
 }
 
-TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge) {
+TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge,
+                          const std::vector<RefinementZone>& zones) {
     require_positive(radius, "capsule radius");
     require_positive(target_edge, "capsule target edge");
     if (!(std::isfinite(cylinder_length) && cylinder_length >= 0.0))
@@ -262,8 +326,15 @@ TriangleMesh make_capsule(double radius, double cylinder_length, double target_e
         r.push_back(k == 0 ? 0.0 : radius * std::sin(ph));
     }
     r.front() = 0.0;
-    TriangleMesh m = loft(x, r, r, n_theta);
-    keep_volume_cross_section(m, kPi * radius * radius * cylinder_length + 4.0 / 3.0 * kPi * radius * radius * radius);
+    // Onto the capsule: away from the nearest point of its axis segment.
+    auto project = [radius, h](const Vec3& p) {
+        const Vec3 axis(std::clamp(p.x(), -h, h), 0.0, 0.0);
+        const Vec3 out = p - axis;
+        return out.norm() > 0.0 ? Vec3(axis + radius * out.normalized()) : p;
+    };
+    const double v_true = kPi * radius * radius * cylinder_length + 4.0 / 3.0 * kPi * radius * radius * radius;
+    TriangleMesh m = refine_keeping_volume(loft(x, r, r, n_theta), zones, project,
+                                           [v_true](TriangleMesh& y) { keep_volume_cross_section(y, v_true); });
     finish(m, "capsule");
     return m;
 }
@@ -279,7 +350,7 @@ double body_profile_volume(const BodyProfile& p) {
     return kPi * v;
 }
 
-TriangleMesh make_body(const BodyProfile& p, double target_edge) {
+TriangleMesh make_body(const BodyProfile& p, double target_edge, const std::vector<RefinementZone>& zones) {
     require_positive(target_edge, "body target edge");
     const double v_true = body_profile_volume(p);
     const double s = kGridSpacingFactor * target_edge;
@@ -304,13 +375,13 @@ TriangleMesh make_body(const BodyProfile& p, double target_edge) {
     b.push_back(0.0);
     const double n_theta_d = std::max(8.0, std::ceil(widest / s));
     require_panel_budget(2.0 * n_theta_d * static_cast<double>(x.size()), "body");
-    TriangleMesh m = loft(x, a, b, static_cast<int>(n_theta_d));
-    keep_volume_cross_section(m, v_true);
+    TriangleMesh m = refine_keeping_volume(loft(x, a, b, static_cast<int>(n_theta_d)), zones, body_projection(p),
+                                           [v_true](TriangleMesh& y) { keep_volume_cross_section(y, v_true); });
     finish(m, "body");
     return m;
 }
 
-TriangleMesh make_box(const Vec3& size, double target_edge) {
+TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<RefinementZone>& zones) {
     require_positive(size.x(), "box size x");
     require_positive(size.y(), "box size y");
     require_positive(size.z(), "box size z");
@@ -355,6 +426,8 @@ TriangleMesh make_box(const Vec3& size, double target_edge) {
                     }
                 }
     }
+    // Flat faces: an edge's midpoint is already on the surface, and the volume stays exact.
+    refine_in_zones(m, zones, [](const Vec3& p) { return p; });
     finish(m, "box");
     return m;
 }

@@ -6,12 +6,18 @@
 // non-finite sizes, a target edge so small that the mesh would exceed kMaxPanels)
 // throw InputError.
 //
+// Refinement zones: every generator except make_icosphere takes optional zones
+// (zone_refinement.hpp, in the shape's own frame) inside which the panels are
+// made smaller, new vertices lying on the true surface; the volume rule below is
+// applied to the refined mesh, and the zones' sizes hold after it.
+//
 // Volume rule: a faceted mesh whose vertices lie on a curved surface encloses less
 // than the true solid (an icosphere of 1280 panels about 0.9 % less). Because the
 // solver's answers depend on the enclosed volume to first order (dipole strength of a
 // small object), every curved generator rescales its vertices so that the mesh
 // volume equals the true volume to rounding. Each generator states how it scales.
 #include "geometry/mesh.hpp"
+#include "geometry/zone_refinement.hpp"
 
 #include <vector>
 
@@ -23,7 +29,7 @@ constexpr std::size_t kMaxGeneratedPanels = 2000000;
 // Sphere of `radius` (m) as a refined icosahedron: the lowest subdivision level whose
 // mean edge length is <= target_edge (m). Volume kept: vertices scaled uniformly by
 // (V_true / V_mesh)^(1/3), so they sit slightly outside the true sphere.
-TriangleMesh make_sphere(double radius, double target_edge);
+TriangleMesh make_sphere(double radius, double target_edge, const std::vector<RefinementZone>& zones = {});
 
 // Sphere as an icosahedron subdivided `subdivisions` times (0 -> 20 panels, each level
 // x4: 3 -> 1280 panels), 0 <= subdivisions <= 8. Same volume rule as make_sphere.
@@ -32,19 +38,20 @@ TriangleMesh make_icosphere(double radius, int subdivisions);
 // Ellipsoid with semi-axes (a, b, c) along x, y, z (m): the unit icosphere mapped by
 // diag(a, b, c), subdivision level chosen as for a sphere of radius max(a, b, c).
 // Volume kept (4/3 pi a b c) by a uniform scale (V_true / V_mesh)^(1/3).
-TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge);
+TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge, const std::vector<RefinementZone>& zones = {});
 
 // Capsule (cylinder with hemispherical ends) along x: total length
 // cylinder_length + 2 radius (m); cylinder_length >= 0 (0 gives a sphere).
 // Latitude/longitude grid. Volume kept (pi r^2 L + 4/3 pi r^3) by scaling the
 // cross-section (y, z) by sqrt(V_true / V_mesh): the axial length stays exact and the
 // polygonal cross-sections get the area of the true circles on average.
-TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge);
+TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge,
+                          const std::vector<RefinementZone>& zones = {});
 
 // Rectangular box with full edge lengths `size` (m) along x, y, z; every face a
 // structured grid of cells no longer than about target_edge, each cell split in two
 // triangles. Flat faces: the volume is exact without correction.
-TriangleMesh make_box(const Vec3& size, double target_edge);
+TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<RefinementZone>& zones = {});
 
 // Elongated body with elliptic cross-sections, e.g. a fish. Stations along x
 // (strictly increasing, m), with the semi-axes of the cross-section along y
@@ -62,7 +69,7 @@ struct BodyProfile {
 // cross-sections (y, z) scaled by sqrt(V_true / V_mesh), where V_true is the exact
 // volume of the piecewise-linear elliptic body (body_profile_volume). Invalid profiles
 // throw InputError naming the offending station.
-TriangleMesh make_body(const BodyProfile& profile, double target_edge);
+TriangleMesh make_body(const BodyProfile& profile, double target_edge, const std::vector<RefinementZone>& zones = {});
 
 // Exact volume (m^3) of the solid described by `profile`: the integral of
 // pi a(x) b(x) dx with a, b linear on each segment, i.e. per segment

@@ -993,3 +993,77 @@ v = ["-1 cm", "0 cm", "3 cm"]
     log_grid.replace(log_grid.find("count = 5 }"), 11, "count = 5, spacing = \"log\" }");
     check_error(log_grid, "u = {", "sweep.grid.u.from", "log spacing needs a positive");
 }
+
+TEST_CASE("case reader: [[mesh.zone]] refinement zones") {
+    const std::string text = kFish + R"([mesh]
+panel_size = "7 mm"
+[[mesh.zone]]
+centre = ["3 cm", "7.5 mm", "0 cm"]
+radius = "8 mm"
+panel_size = "1.5 mm"
+[[mesh.zone]]
+centre = ["-2 cm", "0 cm", "1 cm"]
+radius = "0.5 cm"
+panel_size = "2 mm"
+)";
+    const CaseSpec s = read_case_text(text, "case.toml");
+    REQUIRE(s.mesh.zones.size() == 2);
+    const MeshZoneSpec& z = s.mesh.zones[0];
+    CHECK(z.centre_m[0] == doctest::Approx(0.03));  // 3 cm
+    CHECK(z.centre_m[1] == doctest::Approx(0.0075));  // 7.5 mm
+    CHECK(z.centre_m[2] == 0.0);
+    CHECK(z.radius_m == doctest::Approx(0.008));
+    CHECK(z.panel_size_m == doctest::Approx(0.0015));
+    CHECK(z.source.where() == "case.toml:" + std::to_string(line_with(text, "[[mesh.zone]]")) + ": mesh.zone[1]");
+    CHECK(z.centre_source.where() == "case.toml:" + std::to_string(line_with(text, "centre")) + ": mesh.zone[1].centre");
+    CHECK(s.mesh.zones[1].panel_size_source.where() ==
+          "case.toml:" + std::to_string(line_with(text, "panel_size = \"2 mm\"")) + ": mesh.zone[2].panel_size");
+    CHECK(s.mesh.zones[1].radius_m == doctest::Approx(0.005));  // 0.5 cm
+    CHECK(read_case_text(kFish, "case.toml").mesh.zones.empty());
+}
+
+TEST_CASE("case reader: bad refinement zones") {
+    const std::string zone = "[[mesh.zone]]\ncentre = [\"3 cm\", \"7.5 mm\", \"0 cm\"]\n";
+    check_error(kFish + zone + "radius = \"0 mm\"\npanel_size = \"1 mm\"\n", "radius", "mesh.zone[1].radius",
+                "must be positive");
+    check_error(kFish + zone + "radius = \"5 mm\"\npanel_size = \"-1 mm\"\n", "panel_size", "mesh.zone[1].panel_size",
+                "must be positive");
+    check_error(kFish + zone + "radius = \"5 mm\"\npanel_size = \"1 mA\"\n", "panel_size", "mesh.zone[1].panel_size",
+                "expected a length");
+    check_error(kFish + zone + "radius = 5\npanel_size = \"1 mm\"\n", "radius", "mesh.zone[1].radius",
+                "written with a unit");
+    check_error(kFish + zone + "panel_size = \"1 mm\"\n", "[[mesh.zone]]", "mesh.zone[1].radius",
+                "missing required key");
+    check_error(kFish + "[[mesh.zone]]\nradius = \"5 mm\"\npanel_size = \"1 mm\"\n", "[[mesh.zone]]",
+                "mesh.zone[1].centre", "missing required key");
+    check_error(kFish + zone + "radius = \"5 mm\"\npanel_size = \"1 mm\"\nsize = \"3 mm\"\n", "size = \"3 mm\"",
+                "mesh.zone[1].size", "unknown key; allowed here: centre, radius, panel_size");
+    check_error(kFish + "[[mesh.zone]]\ncentre = [\"3 cm\", \"0 cm\"]\nradius = \"5 mm\"\npanel_size = \"1 mm\"\n",
+                "centre", "mesh.zone[1].centre", "expected an array of three lengths");
+    check_error(kFish + "[mesh.zone]\ncentre = [\"3 cm\", \"0 cm\", \"0 cm\"]\nradius = \"5 mm\"\npanel_size = \"1 mm\"\n",
+                "[mesh.zone]", "mesh.zone", "expected [[mesh.zone]] tables");
+    // Zones refine the sensing body: a case without one, or an imported hull, has none to refine.
+    check_error(kOpenWater + zone + "radius = \"5 mm\"\npanel_size = \"1 mm\"\n", "[[mesh.zone]]", "mesh.zone[1]",
+                "the case has no [fish] or [robot]");
+    std::string robot = kRobot;
+    robot.replace(robot.find("shape = \"capsule\"\nradius = \"2 cm\"\nlength = \"30 cm\""),
+                  std::string("shape = \"capsule\"\nradius = \"2 cm\"\nlength = \"30 cm\"").size(),
+                  "shape = \"mesh\"\nfile = \"hull.stl\"");
+    namespace fs = std::filesystem;
+    const fs::path dir = fs::temp_directory_path() / "murk_test_mesh_zone";
+    fs::create_directories(dir);
+    { std::ofstream(dir / "hull.stl") << "solid hull\nendsolid hull\n"; }
+    const std::string hull_text = robot + zone + "radius = \"5 mm\"\npanel_size = \"1 mm\"\n";
+    { std::ofstream(dir / "case.toml") << hull_text; }
+    const std::string m = [&] {
+        try {
+            read_case_file((dir / "case.toml").string());
+        } catch (const InputError& e) {
+            return std::string(e.what());
+        }
+        return std::string();
+    }();
+    CHECK(m.find(":" + std::to_string(line_with(hull_text, "[[mesh.zone]]")) + ": mesh.zone[1]: ") != std::string::npos);
+    CHECK(m.find("an imported mesh keeps its own panels") != std::string::npos);
+    fs::remove_all(dir);
+}

@@ -84,17 +84,19 @@ void write_sample(const std::string& path) {
         for (std::size_t j = 0; j < kBigCols; ++j) big[i * kBigCols + j] = big_value(i, j);
     sweep.write("big", big, {kBigRows, kBigCols}, "V", "compressed test array", H5Layout::compressed(4));
 
-    H5Dataset snr = sweep.create_extendible<double>("snr", {5, 3}, "1", "signal-to-noise ratio");
+    H5Dataset snr = sweep.create_filled<double>("snr", {5, 3}, "1", "signal-to-noise ratio");
     snr.attach_scale(x, 0);
     snr.attach_scale(y, 1);
     snr.write_slab<double>({1, 0}, {2, 3}, kSnrBlock);
 
-    H5Dataset perturbation = sweep.create_extendible<double>("perturbation", {5, 3, 2}, "V", "perturbation per sensor");
+    H5Dataset perturbation = sweep.create_filled<double>("perturbation", {5, 3, 4}, "V", "perturbation per sensor");
     perturbation.write_slab<double>({2, 1, 0}, {1, 1, 2}, kPerturbation);
-    perturbation.extend({5, 3, 4});
 
-    H5Dataset status = sweep.create_extendible<std::uint8_t>("status", {5, 3}, "1", "1 where computed");
+    H5Dataset status = sweep.create_filled<std::uint8_t>("status", {5, 3}, "1", "1 where computed");
     status.write_slab<std::uint8_t>({2, 1}, {1, 1}, {1});
+    H5Dataset peak = sweep.create_filled<std::int32_t>("peak", {5, 3}, "1", "peak sensor", {}, std::int32_t{-1});
+    peak.label_dimensions({"x", "y"});
+    peak.write_slab<std::int32_t>({2, 1}, {1, 1}, std::vector<std::int32_t>{0});
 
     out.commit();
 }
@@ -209,11 +211,13 @@ TEST_CASE("hdf5: every kind of data survives a round trip through the layer") {
     H5Dataset perturbation = root.dataset("sweep/perturbation");
     CHECK(perturbation.shape() == H5Shape{5, 3, 4});
     CHECK(perturbation.read_slab<double>({2, 1, 0}, {1, 1, 2}) == kPerturbation);
-    const auto grown = perturbation.read_slab<double>({2, 1, 2}, {1, 1, 2});  // added by extend()
-    CHECK(std::isnan(grown[0]));
-    CHECK(std::isnan(grown[1]));
+    const auto unwritten = perturbation.read_slab<double>({2, 1, 2}, {1, 1, 2});  // the fill value
+    CHECK(std::isnan(unwritten[0]));
+    CHECK(std::isnan(unwritten[1]));
     const auto status = root.read<std::uint8_t>("sweep/status");
     CHECK(status.values == std::vector<std::uint8_t>{0, 0, 0, 0, 0, 0, 0, 1, 0, 0, 0, 0, 0, 0, 0});
+    const auto peak = root.read<std::int32_t>("sweep/peak");
+    CHECK(peak.values == std::vector<std::int32_t>{-1, -1, -1, -1, -1, -1, -1, 0, -1, -1, -1, -1, -1, -1, -1});
 }
 
 TEST_CASE("hdf5: h5py reads the file as numpy types with units and named dimensions") {
@@ -284,13 +288,15 @@ check(len(snr.dims[0]) == 1 and snr.dims[0][0].name == "/sweep/x", "snr dim 0 ->
 check(len(snr.dims[1]) == 1 and snr.dims[1][0].name == "/sweep/y", "snr dim 1 -> y")
 check(h5py.h5ds.is_attached(snr.id, y.id, 1) and not h5py.h5ds.is_attached(snr.id, y.id, 0), "is_attached")
 check(np.array_equal(x[...], [-0.02, -0.01, 0, 0.01, 0.02]), "x values")
-check(snr.maxshape == (None, None) and snr.chunks is not None, "snr extendible")
+check(snr.maxshape == (5, 3) and snr.chunks is not None, "snr chunked, of fixed size")
+check("_FillValue" in snr.attrs and snr.attrs["_FillValue"].dtype == np.float64 and np.isnan(snr.attrs["_FillValue"]).all(),
+      "snr _FillValue NaN")
 expected = np.full((5, 3), np.nan)
 expected[1:3, :] = [[1.5, 2.5, 3.5], [4.5, 5.5, 6.5]]
 check(np.array_equal(snr[...], expected, equal_nan=True), "snr values")
 
 pert = f["/sweep/perturbation"]
-check(pert.shape == (5, 3, 4) and pert.maxshape == (None, None, None), "perturbation shape")
+check(pert.shape == (5, 3, 4) and pert.maxshape == (5, 3, 4), "perturbation shape")
 expected = np.full((5, 3, 4), np.nan)
 expected[2, 1, 0:2] = [1e-6, -2e-6]
 check(np.array_equal(pert[...], expected, equal_nan=True), "perturbation values")
@@ -298,7 +304,105 @@ status = f["/sweep/status"]
 expected = np.zeros((5, 3), dtype=np.uint8)
 expected[2, 1] = 1
 check(status.dtype == np.uint8 and np.array_equal(status[...], expected), "status")
+check("_FillValue" not in status.attrs, "status has a _FillValue, but its 0 is a code")
+peak = f["/sweep/peak"]
+check(list(peak.attrs["_FillValue"]) == [-1] and peak.attrs["_FillValue"].dtype == np.int32, "peak _FillValue -1 as int32")
+check(peak[2, 1] == 0 and peak[0, 0] == -1, "peak values")
+# The complex compound is the named datatype /complex (h5py: Datatype objects, "committed").
+check(isinstance(f["complex"], h5py.Datatype) and f["complex"].dtype == np.complex128, "/complex is a named complex type")
+check(p.id.get_type().committed(), "/baseline/potential uses the named type")
 
+for failure in failures:
+    print("FAILED:", failure)
+sys.exit(1 if failures else 0)
+)PY";
+    std::string log;
+    const int status = run_python(dir, script, path, log);
+    INFO(log);
+    CHECK(status == 0);
+}
+
+// A small file laid out as murk's results are: every group self-contained (each dimension a
+// coordinate of the group), a named complex type, fixed-size filled datasets, a scalar, flags.
+void write_netcdf_sample(const std::string& path) {
+    H5Output out(path, false);
+    H5Group root = out.root();
+    root.set_attribute("Conventions", "CF-1.8");
+    H5Group sweep = root.group("sweep");
+    sweep.write_coordinate("distance", kY, "m", "distance");
+    sweep.write_coordinate("sensor", std::vector<std::int32_t>{0, 1}, "1", "sensor index");
+    sweep.write_label_coordinate("xyz", {"x", "y", "z"}, "Cartesian component");
+    sweep.create_filled<std::complex<double>>("perturbation", {3, 2}, "V", "perturbation", H5Layout::compressed(4, {1, 2}))
+        .label_dimensions({"distance", "sensor"})
+        .write_slab<std::complex<double>>({1, 0}, {1, 2}, {{1, 2}, {-0.5, 0}});
+    const H5Dataset status = sweep.create_filled<std::uint8_t>("status", {3}, "1", "what happened");
+    status.label_dimensions({"distance"}).set_flags<std::uint8_t>({0, 1, 2}, "not_computed computed masked");
+    status.write_slab<std::uint8_t>({1}, {1}, {1});
+    sweep.create_filled<double>("peak", {3}, "V", "peak").label_dimensions({"distance"}).write_slab<double>({1}, {1}, {2.5});
+    sweep.write("position", std::vector<double>{0, 0, 0.01, 0, 0, 0.02, 0, 0, 0.03}, {3, 3}, "m", "position")
+        .label_dimensions({"distance", "xyz"});
+    sweep.write("exponent", std::vector<double>{-3.9}, {}, "1", "fitted exponent");
+    H5Group detection = root.group("detection");
+    detection.write_coordinate("size", kX, "m", "size");
+    detection.write("range", std::vector<double>{0.01, NAN, 0.02, 0.03, 0.04}, "m", "range")
+        .label_dimensions({"size"})
+        .set_fill_value(std::numeric_limits<double>::quiet_NaN());
+    out.commit();
+}
+
+TEST_CASE("hdf5: xarray (h5netcdf and netCDF4 engines) and ncdump read self-contained groups") {
+    // Independent readers: xarray 2023.01 with h5netcdf 1.1 and with netCDF4-python 1.6.2 on
+    // netCDF-C 4.9.0, and ncdump (Debian python3-xarray, python3-h5netcdf, python3-netcdf4,
+    // netcdf-bin). Expected values are the inputs of write_netcdf_sample, typed in again.
+    // What a netCDF reader makes of HDF5: dimension scales become named dimensions (netCDF
+    // User's Guide, "Interoperability with HDF5"); a named compound becomes a user-defined type,
+    // which netCDF4-python returns as a numpy structured array (its documentation, "Compound
+    // data types") and h5netcdf, through h5py, as complex128 (h5py documentation, "Complex numbers").
+    TempDir dir("murk-test-hdf5");
+    const std::string path = dir / "netcdf.h5";
+    write_netcdf_sample(path);
+    const std::string script = R"PY(
+import subprocess, sys, warnings
+import numpy as np
+import xarray as xr
+warnings.simplefilter("ignore")  # xarray's notes about engines are not failures
+path = sys.argv[1]
+failures = []
+def check(condition, what):
+    if not condition:
+        failures.append(what)
+
+for engine in ("h5netcdf", "netcdf4"):
+    for group in ("/", "sweep", "detection"):
+        try:
+            xr.open_dataset(path, group=group, engine=engine).close()
+        except Exception as error:
+            failures.append(f"{engine} cannot open {group}: {error}")
+    s = xr.open_dataset(path, group="sweep", engine=engine)
+    check(s.perturbation.dims == ("distance", "sensor"), engine + " perturbation dims " + str(s.perturbation.dims))
+    check(list(s.distance.values) == [0.01, 0.02, 0.03] and s.distance.attrs["units"] == "m", engine + " distance")
+    check(list(s.xyz.values) == ["x", "y", "z"], engine + " xyz labels " + str(s.xyz.values))
+    check(s.position.sel(xyz="z", distance=0.02).item() == 0.02, engine + " position by label")
+    check(s.status.dtype == np.uint8 and list(s.status.values) == [0, 1, 0], engine + " status, 0 not masked")
+    check(list(s.status.attrs["flag_values"]) == [0, 1, 2], engine + " flag_values")
+    check(s.status.attrs["flag_meanings"] == "not_computed computed masked", engine + " flag_meanings")
+    check(s.peak.values[1] == 2.5 and np.isnan(s.peak.values[[0, 2]]).all(), engine + " peak")
+    check(s.exponent.shape == () and s.exponent.item() == -3.9, engine + " scalar")
+    p = s.perturbation.values
+    if engine == "h5netcdf":
+        check(p.dtype == np.complex128 and p[1, 0] == 1 + 2j and p[1, 1] == -0.5, "h5netcdf complex " + str(p.dtype))
+        check(np.isnan(p[0]).all(), "h5netcdf complex fill")
+    else:
+        check(p.dtype.names == ("r", "i"), "netCDF4 complex as a structured array: " + str(p.dtype))
+        check(p["r"][1, 0] == 1 and p["i"][1, 0] == 2 and p["r"][1, 1] == -0.5, "netCDF4 complex parts")
+    d = xr.open_dataset(path, group="detection", engine=engine)
+    check(list(d.size.values) == [-0.02, -0.01, 0, 0.01, 0.02], engine + " detection has its own size axis")
+    check(np.isnan(d.range.values[1]) and d.range.values[2] == 0.02, engine + " range")
+
+header = subprocess.run(["ncdump", "-h", path], capture_output=True, text=True)
+check(header.returncode == 0, "ncdump -h failed: " + header.stderr)
+check("compound complex" in header.stdout and "complex perturbation(distance, sensor)" in header.stdout,
+      "ncdump does not show the named complex type and the complex variable")
 for failure in failures:
     print("FAILED:", failure)
 sys.exit(1 if failures else 0)
@@ -392,32 +496,23 @@ TEST_CASE("hdf5: a partial file left by a dead run is replaced by a new run") {
     CHECK_FALSE(fs::exists(H5Output::partial_path(path)));
 }
 
-TEST_CASE("hdf5: a run killed after a flush can be resumed from its partial file") {
+TEST_CASE("hdf5: an output can be written under a temporary name of the caller's choosing") {
     TempDir dir("murk-test-hdf5");
     const std::string path = dir / "out.h5";
-    const std::string partial = H5Output::partial_path(path);
-    const std::string snapshot = dir / "snapshot";
+    const std::string temp = dir / "out.h5.writing";
     {
-        H5Output out(path, false);
-        H5Dataset map = out.root().create_extendible<double>("sweep/map", {4}, "V", "perturbation");
-        map.write_slab<double>({0}, {1}, {0.25});
-        out.file().flush();
-        // The bytes on disk now are what a run killed at this moment leaves behind.
-        fs::copy_file(partial, snapshot);
-    }
-    CHECK_FALSE(fs::exists(partial));
-    fs::rename(snapshot, partial);
-    {
-        H5Output out = H5Output::resume(path, false);
-        H5Dataset map = out.root().dataset("sweep/map");
-        CHECK(map.read_slab<double>({0}, {1}) == std::vector<double>{0.25});
-        CHECK(std::isnan(map.read_slab<double>({1}, {1})[0]));
-        map.write_slab<double>({1}, {3}, {0.5, 0.75, 1.0});
+        H5Output out(path, false, "", temp);
+        out.root().set_attribute("count", 3);
+        CHECK(fs::exists(temp));
+        CHECK_FALSE(fs::exists(H5Output::partial_path(path)));
         out.commit();
     }
-    CHECK(H5File::open_readonly(path).root().read<double>("sweep/map").values == std::vector<double>{0.25, 0.5, 0.75, 1.0});
-    CHECK(input_error_message([&] { H5Output::resume(dir / "other.h5", false); })
-              .find(H5Output::partial_path(dir / "other.h5") + ": no such file") == 0);
+    CHECK_FALSE(fs::exists(temp));
+    CHECK(H5File::open_readonly(path).root().int_attribute("count") == 3);
+    {
+        H5Output abandoned(dir / "other.h5", false, "", dir / "other.h5.writing");
+    }
+    CHECK_FALSE(fs::exists(dir / "other.h5.writing"));
 }
 
 TEST_CASE("hdf5: bad files and paths are InputErrors naming the file") {
@@ -477,7 +572,7 @@ TEST_CASE("hdf5: HDF5 failures are exceptions naming the call and object, and pr
     CHECK(printed.empty());
 
     // Misuse by the calling code is caught before HDF5 sees it.
-    H5Dataset map = out.root().create_extendible<double>("map", {5, 3}, "V", "map");
+    H5Dataset map = out.root().create_filled<double>("map", {5, 3}, "V", "map");
     H5Dataset x = out.root().write("x", kX, "m", "x");
     H5Dataset y = out.root().write("y", kY, "m", "y");
     CHECK_THROWS_AS(map.attach_scale(x, 0), std::invalid_argument);  // not yet a scale
@@ -489,6 +584,12 @@ TEST_CASE("hdf5: HDF5 failures are exceptions naming the call and object, and pr
     CHECK_THROWS_AS(map.write_slab<std::int64_t>({0, 0}, {1, 1}, {1}), std::invalid_argument);  // wrong kind
     CHECK_THROWS_AS(out.root().write("bad", kX, {2, 2}, "m", "x"), std::invalid_argument);     // 5 values for 4
     CHECK_THROWS_AS(out.root().write("nounits", kX, "", "x"), std::invalid_argument);
+    CHECK_THROWS_AS(map.label_dimensions({"x"}), std::invalid_argument);          // two dimensions, one name
+    CHECK_THROWS_AS(map.label_dimensions({"x", "z"}), std::invalid_argument);     // no coordinate z
+    CHECK_THROWS_AS(map.label_dimensions({"y", "x"}), std::invalid_argument);     // lengths 3 and 5 for 5 and 3
+    CHECK_THROWS_AS(map.set_flags<double>({0, 1}, "one"), std::invalid_argument);  // two codes, one word
+    CHECK_THROWS_AS(map.set_fill_value<std::int32_t>(-1), std::invalid_argument);  // not the data's type
+    CHECK_THROWS_AS(out.root().create_filled<double>("scalar", {}, "V", "s"), std::invalid_argument);
 }
 
 TEST_CASE("hdf5: no HDF5 identifier outlives its owner, also when an exception is thrown") {
@@ -532,7 +633,7 @@ TEST_CASE("hdf5: no HDF5 identifier outlives its owner, also when an exception i
         {
             H5Dataset a = out_root.write("sweep/a", kX, "m", "a");
             a.make_scale("a");
-            out_root.create_extendible<double>("sweep/b", {5}, "V", "b").attach_scale(a, 0);
+            out_root.create_filled<double>("sweep/b", {5}, "V", "b").attach_scale(a, 0);
             out_root.group("mesh/body").set_attribute("n", 3);
             // Copies share one identifier; the last one closes it.
             H5Group copy = out_root.group("mesh");

@@ -88,10 +88,10 @@ struct Setup {
     }
     Placement place(std::size_t point) const {
         const auto index = plan.index_of(point);
-        return placement.place(index, objects.at(index).surface.mesh);
+        return placement.place(index, objects.at(index).shape->mesh);
     }
     TriangleMesh placed_mesh(std::size_t point, const Placement& p) const {
-        TriangleMesh m = objects.at(plan.index_of(point)).surface.mesh;
+        TriangleMesh m = objects.at(plan.index_of(point)).shape->mesh;
         translate(m, p.offset);
         return m;
     }

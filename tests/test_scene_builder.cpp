@@ -7,6 +7,7 @@
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"
 #include "geometry/shapes.hpp"
+#include "solver/bem_system.hpp"
 
 #include <doctest/doctest.h>
 
@@ -805,4 +806,160 @@ TEST_CASE("scene builder: the point emitter example holds what its comments say"
         CHECK(x[0] == doctest::Approx(-0.02 + 1e-3 * static_cast<double>(k)));
         CHECK(x[1] == doctest::Approx(1e-3));
     }
+}
+
+TEST_CASE("objects of extreme contrast are solved as the limit they tend to, over 1e-300 to 1e300 S/m") {
+    // A point source, a 5 mm sphere 3 cm away in 0.01 S/m water, and the change of
+    // the potential it causes at a point between them. Physics (Maxwell's sphere,
+    // e.g. Jackson, "Classical Electrodynamics", 3rd ed., section 4.4, in its
+    // conductive form): the change grows monotonically with the sphere's
+    // conductivity from the insulator's value to the perfect conductor's, and
+    // beyond a contrast of 1e8 either way it is within 3e-8 of the limit.
+    const std::string text = R"(title = "contrast"
+[water]
+conductivity = "100 uS/cm"
+[mesh]
+panel_size = "2.5 mm"
+[[source]]
+form = "point"
+position = ["0 cm", "0 cm", "0 cm"]
+current = "10 uA"
+[[object]]
+name = "sphere"
+shape = "sphere"
+radius = "5 mm"
+position = ["3 cm", "0 cm", "0 cm"]
+conductivity = "1 S/m"
+[[probe]]
+name = "between"
+form = "point"
+position = ["2 cm", "2 mm", "0 cm"]
+)";
+    const QuadratureOptions quad;
+    Eigen::Matrix3Xd probe(3, 1);
+    probe.col(0) = Vec3(0.02, 0.002, 0.0);
+    auto change = [&](Material material, double sigma) {
+        CaseSpec spec = spec_of(text);
+        spec.objects[0].material = material;
+        spec.objects[0].conductivity_S_per_m = sigma;
+        const Scene<double> scene = build_scene<double>(spec, true);
+        return potential_at(scene, solve_scene(scene, quad), probe, quad, true)(0);
+    };
+    const double insulator = change(Material::insulator, 0);
+    const double conductor = change(Material::conductor, 0);
+    // The two limits pull the potential opposite ways (a conductor draws it toward
+    // its own, an insulator pushes the current around).
+    REQUIRE(conductor * insulator < 0);
+    const double direction = conductor > insulator ? 1.0 : -1.0, scale = std::abs(conductor - insulator);
+    double previous = insulator;
+    for (int e = -300; e <= 300; e += 10) {
+        const double sigma = std::pow(10.0, e);
+        const double v = change(Material::conducting, sigma);
+        CAPTURE(sigma);
+        REQUIRE(std::isfinite(v));
+        CHECK(direction * (v - previous) >= -1e-9 * scale);  // monotone, to rounding
+        CHECK(std::min(insulator, conductor) - 1e-9 * scale <= v);
+        CHECK(v <= std::max(insulator, conductor) + 1e-9 * scale);
+        const double contrast = sigma / 0.01;
+        if (contrast >= 1e8) CHECK(v == doctest::Approx(conductor).epsilon(1e-7));
+        if (contrast <= 1e-8) CHECK(v == doctest::Approx(insulator).epsilon(1e-7));
+        previous = v;
+    }
+}
+
+namespace {
+
+// Longest edge of `m` among those passing within `radius` of `point`, found by
+// sampling each edge at 101 points; 0 when none does.
+double longest_edge_near(const TriangleMesh& m, const Vec3& point, double radius) {
+    double longest = 0.0;
+    for (const Triangle& t : m.triangles)
+        for (int k = 0; k < 3; ++k) {
+            const Vec3& a = m.vertices[t[k]];
+            const Vec3& b = m.vertices[t[(k + 1) % 3]];
+            bool near = false;
+            for (int s = 0; s <= 100 && !near; ++s) near = (a + (b - a) * (s / 100.0) - point).norm() <= radius;
+            if (near) longest = std::max(longest, (b - a).norm());
+        }
+    return longest;
+}
+
+}  // namespace
+
+TEST_CASE("scene builder: refinement zones are placed with the body") {
+    // The fish turned to face +y (heading 90 deg) with its centre at (1, 2, 0.5) m:
+    // its own +x goes to world +y and its own +y (left flank) to world -x. At 0.3 of
+    // the length from the nose (own x = 7.5 - 4.5 = 3 cm from the centre) the built-in
+    // outline is 0.05 * 15 cm = 7.5 mm wide, so the left flank is at world
+    // (1 - 0.0075, 2.03, 0.5) and the right flank at (1 + 0.0075, 2.03, 0.5).
+    std::string text = kFish;
+    text.insert(text.find("interior_conductivity"), "centre = [\"1 m\", \"2 m\", \"0.5 m\"]\nheading = \"90 deg\"\n");
+    text += "[[mesh.zone]]\ncentre = [\"992.5 mm\", \"2.03 m\", \"0.5 m\"]\nradius = \"6 mm\"\npanel_size = \"1.5 mm\"\n";
+    const Scene<double> scene = build_scene<double>(spec_of(text), false);
+    const TriangleMesh& skin = scene.surfaces[0].mesh;
+    const double near_left = longest_edge_near(skin, Vec3(0.9925, 2.03, 0.5), 0.006);
+    CHECK(near_left > 0.0005);
+    CHECK(near_left <= 0.0015);
+    CHECK(longest_edge_near(skin, Vec3(1.0075, 2.03, 0.5), 0.002) > 0.003);  // the other flank stays coarse
+
+    // A capsule hull 30 cm long, radius 2 cm, turned like the fish and placed at
+    // (1, 2, 0.5) m: its own point (10 cm, 0, 2 cm) on top of the cylinder is at
+    // world (1, 2.1, 0.52).
+    const std::string robot = R"(title = "r"
+[water]
+conductivity = "200 uS/cm"
+[mesh]
+panel_size = "1 cm"
+[[mesh.zone]]
+centre = ["1 m", "2.1 m", "0.52 m"]
+radius = "1 cm"
+panel_size = "3 mm"
+[robot]
+shape = "capsule"
+radius = "2 cm"
+length = "30 cm"
+position = ["1 m", "2 m", "0.5 m"]
+heading = "90 deg"
+[[robot.electrode]]
+name = "E"
+form = "ring"
+from = "-2 cm"
+to = "2 cm"
+role = "emitter"
+current = "1 mA"
+)";
+    const Scene<double> hull = build_scene<double>(spec_of(robot), false);
+    const double near_top = longest_edge_near(hull.surfaces[0].mesh, Vec3(1.0, 2.1, 0.52), 0.01);
+    CHECK(near_top > 0.001);
+    CHECK(near_top <= 0.003);
+    CHECK(longest_edge_near(hull.surfaces[0].mesh, Vec3(1.0, 1.9, 0.52), 0.005) > 0.006);  // the other end
+}
+
+TEST_CASE("scene builder: refinement zones off the body or coarser than its panels are refused") {
+    const std::string off = kFish + "[[mesh.zone]]\ncentre = [\"3 cm\", \"3 cm\", \"0 cm\"]\nradius = \"1 cm\"\n"
+                                    "panel_size = \"2 mm\"\n";
+    // The flank is 7.5 mm from the axis at x = 3 cm: the centre is about 22 mm from the skin.
+    std::string m = build_error(off);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(off, "centre = [\"3 cm\"")) + ": mesh.zone[1].centre: ", 0) == 0);
+    CHECK(m.find("does not reach the fish's skin") != std::string::npos);
+    CHECK(m.find("more than its radius (10 mm)") != std::string::npos);
+
+    const std::string coarse = kFish + "[[mesh.zone]]\ncentre = [\"3 cm\", \"7.5 mm\", \"0 cm\"]\nradius = \"1 cm\"\n"
+                                       "panel_size = \"9 mm\"\n";
+    m = build_error(coarse);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(coarse, "panel_size = \"9 mm\"")) +
+                      ": mesh.zone[1].panel_size: 9 mm is larger than the body's panel size (8 mm, mesh.panel_size)",
+                  0) == 0);
+    // Without mesh.panel_size the body's panels are its length / 30 = 5 mm.
+    std::string by_default = coarse;
+    by_default.erase(by_default.find("[mesh]"), std::string("[mesh]\npanel_size = \"8 mm\"\n").size());
+    by_default.replace(by_default.find("\"9 mm\""), 6, "\"6 mm\"");
+    m = build_error(by_default);
+    CAPTURE(m);
+    CHECK(m.find(": mesh.zone[1].panel_size: 6 mm is larger than the body's panel size (5 mm, the default") !=
+          std::string::npos);
+    by_default.replace(by_default.find("\"6 mm\""), 6, "\"5 mm\"");
+    CHECK(build_error(by_default).empty());  // equal to the body's panels: allowed
 }

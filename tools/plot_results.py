@@ -15,6 +15,9 @@ into DIR (default: the folder of OUT.h5), each figure titled with the case's tit
                                and a distance^-4 reference through the data
   <name>_grid_map.png          detection probability over a planar grid of object positions,
                                with the body's outline, to scale
+  <name>_body_view.png         a 3-D view of the body with the strongest electric image painted
+                               on its skin (signed, on a colour scale centred on zero, for direct
+                               current; magnitudes for complex images), and the object beside it
 
 Conductivity, object and any axis holding 0 or inf are drawn as equal cells in sweep order
 (conductivity 0 reads 'insulator', inf 'conductor'); grid axes are linear and to scale; other
@@ -24,6 +27,9 @@ Figures that do not apply to the file are skipped with a one-line note. --points
 sweep points of the electric image by index along named axes (negative counts from the end;
 axes not named are at index 0), e.g. --points distance=0 distance=-1,size=2. By default: the
 nearest and the farthest computed distance at the first index of every other axis.
+
+Coded datasets (/sweep/status, /detection/status) are read through their own flag_values and
+flag_meanings: codes are looked up by their words ("computed", "crossed"), never by number.
 
 Run it with /usr/bin/python3 (Debian's h5py, numpy and matplotlib). Bad input gets one line
 on stderr and exit status 2.
@@ -162,6 +168,24 @@ class Result:
             raise BadInput(f"{self.path}: dataset /{name} has shape {d.shape}, expected {tuple(shape)}")
         return d[()]
 
+    def words(self, name, shape=None):
+        """A coded dataset as the words its flag_values / flag_meanings give its codes."""
+        import numpy as np
+        d = self.dataset(name)
+        if "flag_values" not in d.attrs or "flag_meanings" not in d.attrs:
+            raise BadInput(f"{self.path}: dataset /{name} has no flag_values and flag_meanings: "
+                           "what its codes mean is unknown")
+        codes = [int(v) for v in np.atleast_1d(d.attrs["flag_values"])]
+        meanings = str(d.attrs["flag_meanings"]).split()
+        if len(codes) != len(meanings):
+            raise BadInput(f"{self.path}: dataset /{name} has {len(codes)} flag_values for {len(meanings)} words")
+        data = self.array(name, shape)
+        unknown = set(np.unique(data).tolist()) - set(codes)
+        if unknown:
+            raise BadInput(f"{self.path}: dataset /{name} holds {sorted(unknown)}, which its flag_values do not list")
+        word_of = dict(zip(codes, meanings))
+        return np.vectorize(lambda code: word_of[int(code)], otypes=[object])(data)
+
     def attribute(self, name, key):
         obj = self.file[name] if name in self.file else None
         if obj is None or key not in obj.attrs:
@@ -192,7 +216,8 @@ class Result:
         return tuple(len(a.values) for a in self.axes)
 
     def status(self):
-        return self.array("sweep/status", self.shape())
+        """What happened at each point, as words: "computed", "masked", "not_computed"."""
+        return self.words("sweep/status", self.shape())
 
     def body(self):
         """Name of the sensing body's mesh: the runner's `body` attribute, or the only mesh."""
@@ -439,13 +464,13 @@ def draw_ranges(result, ax, xk, yk):
     xa, ya = result.axes[xk], result.axes[yk]
     xv, yv = xa.coords(), ya.coords()
     rng, status = detection_slice(result, xk, yk)
-    crossed = np.isfinite(rng) & (status == 1)
+    crossed = np.isfinite(rng) & (status == "crossed")
     if crossed.any():
         ax.plot(xa.shown(rng[crossed]), yv[crossed], "o", color="white", markeredgecolor="black", markersize=8,
                 linestyle="none", zorder=4, label="detection range (/detection/range)")
-    for code, x, marker, text in ((2, xv.max(), ">", "detectable at every distance computed"),
-                                  (3, xv.min(), "<", "not detectable at any distance computed")):
-        hit = status == code
+    for word, x, marker, text in (("beyond_sweep", xv.max(), ">", "detectable at every distance computed"),
+                                  ("never_detectable", xv.min(), "<", "not detectable at any distance computed")):
+        hit = status == word
         if hit.any():
             ax.plot(np.full(hit.sum(), x), yv[hit], marker, color="white", markeredgecolor="black",
                     markersize=10, linestyle="none", zorder=4, label=text)
@@ -465,7 +490,8 @@ def detection_slice(result, dk, yk):
         if names is None or result.axes[yk].name not in names:
             raise BadInput(f"{result.path}: cannot tell which sweep axes /{name} lies over")
         index = tuple(slice(None) if n == result.axes[yk].name else 0 for n in names)
-        out.append(np.asarray(d[()], dtype=float)[index])
+        values = result.words(name) if name.endswith("status") else np.asarray(d[()], dtype=float)
+        out.append(values[index])
     return out
 
 
@@ -558,11 +584,11 @@ def default_points(result, status):
     d = result.axis_index("distance")
     if d is not None:
         line = slice_at(status, [0] * len(result.axes), (d,))
-        done = np.flatnonzero(line == 1)
+        done = np.flatnonzero(line == "computed")
         picks = sorted({done[0], done[-1]}) if done.size else []
         return [tuple(int(k) if j == d else 0 for j in range(len(result.axes))) for k in picks]
     peak = result.array("sweep/peak_perturbation", result.shape())
-    peak = np.where(status == 1, np.abs(peak), np.nan)
+    peak = np.where(status == "computed", np.abs(peak), np.nan)
     if not np.isfinite(peak).any():
         return []
     picks = [np.nanargmax(peak), np.nanargmin(peak)]
@@ -585,9 +611,8 @@ def electric_images(result, out_dir, stem, point_specs):
     units = str(perturbation.attrs.get("units", "V"))
     written = []
     for number, index in enumerate(points, start=1):
-        if status[index] != 1:
-            note(f"skipped electric image at {result.point_text(index)}: point "
-                 f"{'masked' if status[index] == 2 else 'not computed'}")
+        if status[index] != "computed":
+            note(f"skipped electric image at {result.point_text(index)}: point {status[index].replace('_', ' ')}")
             continue
         values = perturbation[index]
         where = result.point_text(index)
@@ -691,7 +716,7 @@ def falloff(result, out_dir, stem):
     fig = new_figure((8, 6), f"{result.title}\nfalloff of the peak perturbation" + (f", {held}" if held else ""))
     ax = fig.add_subplot()
     distances = result.axes[d].values
-    factor, unit = voltage_scale(peak[status == 1], units)
+    factor, unit = voltage_scale(peak[status == "computed"], units)
     count = 1 if curve_axis is None else min(len(result.axes[curve_axis].values), len(MARKERS))
     colours = [matplotlib.colormaps["viridis"](t) for t in np.linspace(0, 0.85, count)]
     anchor, plotted = None, []
@@ -700,7 +725,7 @@ def falloff(result, out_dir, stem):
         if curve_axis is not None:
             index[curve_axis] = c
         line = slice_at(peak, index, (d,))
-        ok = (slice_at(status, index, (d,)) == 1) & np.isfinite(line) & (line > 0)
+        ok = (slice_at(status, index, (d,)) == "computed") & np.isfinite(line) & (line > 0)
         label = result.axes[curve_axis].text(c) if curve_axis is not None else "peak perturbation"
         fit = fitted_line(result, index, d, distances[ok], line[ok])
         if fit:
@@ -852,6 +877,108 @@ def convex_hull(points):
     return np.array(ring + ring[:1])
 
 
+# ------------------------------------------------------------------ (e) 3-D view of the body
+
+def strongest_point(result):
+    """The computed point of largest peak perturbation (the one the sweep's XDMF sidecar shows)."""
+    import numpy as np
+    peak = np.where(result.status() == "computed", np.abs(result.array("sweep/peak_perturbation", result.shape())),
+                    -np.inf)
+    if not np.isfinite(peak).any():
+        raise Skip("no computed point")
+    return tuple(int(i) for i in np.unravel_index(int(np.argmax(peak)), peak.shape))
+
+
+def body_view(result, out_dir, stem):
+    import numpy as np
+    if result.is_sweep:
+        sensor = result.dataset("sweep/sensor")
+        if "sensor_names" in sensor.attrs:
+            raise Skip("the sensors are channels, not skin panels")
+        body = result.body()
+        index = strongest_point(result)
+        perturbation = result.dataset("sweep/perturbation")
+        values, units = perturbation[index], str(perturbation.attrs.get("units", "V"))
+        where = "strongest electric image of the sweep: " + result.point_text(index)
+        centre = result.array("sweep/object_position", result.shape() + (3,))[index]
+        s = result.axis_index("size")
+        radius = result.axes[s].values[index[s]] if s is not None else None
+    else:
+        surfaces = [n for n in (result.file["mesh"] if result.has("mesh") else [])
+                    if result.has(f"difference/{n}/transdermal_voltage")]
+        if not surfaces:
+            raise Skip("no /difference/<surface>/transdermal_voltage in this murk solve file")
+        body = surfaces[0]
+        d = result.dataset(f"difference/{body}/transdermal_voltage")
+        values, units = d[()], str(d.attrs.get("units", "V"))
+        where, centre, radius = "electric image of the case's configuration (murk solve)", None, None
+    vertices, triangles = result.mesh(body)
+    if len(values) != len(triangles):
+        raise BadInput(f"{result.path}: {len(values)} image values for the {len(triangles)} panels of /mesh/{body}")
+    return [draw_body(result, vertices, triangles, values, units, where, centre, radius,
+                      os.path.join(out_dir, f"{stem}_body_view.png"))]
+
+
+def draw_body(result, vertices, triangles, values, units, where, centre, radius, path):
+    """The skin panels coloured by the image; a real image on a diverging map centred on zero
+    (the sign tells a conductor from an insulator), a complex one by its magnitude."""
+    import matplotlib
+    import numpy as np
+    from matplotlib.colors import Normalize
+    from mpl_toolkits.mplot3d.art3d import Poly3DCollection
+    complex_values = np.iscomplexobj(values)
+    shown = np.abs(values) if complex_values else np.asarray(values, dtype=float)
+    factor, unit = voltage_scale(shown, units)
+    shown = shown * factor
+    if complex_values:
+        cmap, norm = matplotlib.colormaps["viridis"], Normalize(0, float(np.nanmax(shown)))
+        label = f"|change of transdermal voltage| ({unit}), magnitude of a complex image"
+    else:
+        reach = float(np.nanmax(np.abs(shown))) or 1.0
+        cmap, norm = matplotlib.colormaps["RdBu_r"], Normalize(-reach, reach)
+        label = f"change of transdermal voltage ({unit}); red +, blue -"
+    fig = new_figure((10, 6.5), f"{result.title}\n{where}")
+    ax = fig.add_subplot(projection="3d", computed_zorder=False)
+    mm = vertices * 1e3
+    ax.add_collection3d(Poly3DCollection(mm[triangles], facecolors=cmap(norm(shown)), edgecolors=(0, 0, 0, 0.15),
+                                         linewidths=0.2))
+    corners = [mm.min(axis=0), mm.max(axis=0)]
+    if centre is not None and np.isfinite(centre).all():
+        c = centre * 1e3
+        if radius:
+            u, v = np.meshgrid(np.linspace(0, 2 * np.pi, 24), np.linspace(0, np.pi, 12))
+            r = radius * 1e3
+            ax.plot_surface(c[0] + r * np.cos(u) * np.sin(v), c[1] + r * np.sin(u) * np.sin(v), c[2] + r * np.cos(v),
+                            color="0.45", linewidth=0, zorder=3)
+            corners += [c - r, c + r]
+        else:
+            ax.scatter(*c, color="0.2", s=40, zorder=3)
+            corners.append(c)
+        ax.plot([], [], "o", color="0.45", label="object at this point")
+        ax.legend(loc="upper left", fontsize=9)
+    low, high = np.min(corners, axis=0), np.max(corners, axis=0)
+    # Equal scales on the three axes: each axis spans what is drawn along it (a slender body's
+    # thin sides padded to a fifth of its length, so that the box keeps some depth), and the
+    # box has the proportions of those spans.
+    middle = (low + high) / 2
+    half = np.maximum((high - low) / 2 * 1.05, (high - low).max() / 10)
+    for set_lim, m, h in zip((ax.set_xlim, ax.set_ylim, ax.set_zlim), middle, half):
+        set_lim(m - h, m + h)
+    ax.set_box_aspect(tuple(half), zoom=1.25)
+    ax.set_xlabel("x (mm)")
+    ax.set_ylabel("y (mm)")
+    ax.set_zlabel("z (mm)")
+    # Looking at the side of the body where the image is strongest (its y side, from the half of
+    # the body it lies in), from a little above or below it.
+    centroids = mm[triangles].mean(axis=1)
+    peak = centroids[int(np.nanargmax(np.abs(shown)))] - mm.mean(axis=0)
+    ax.view_init(elev=25 if peak[2] >= -abs(peak[1]) else -25,
+                 azim=math.degrees(math.atan2(math.copysign(1, peak[1]), math.copysign(0.8, peak[0]))))
+    mappable = matplotlib.cm.ScalarMappable(norm=norm, cmap=cmap)
+    fig.colorbar(mappable, ax=ax, location="bottom", shrink=0.6, pad=0.02, aspect=40, label=label)
+    return save(fig, path)
+
+
 # ------------------------------------------------------------------ driver
 
 def note(text):
@@ -869,7 +996,8 @@ def make_figures(args):
     figures = [("detection map", lambda: detection_map(result, out_dir, stem)),
                ("electric image", lambda: electric_images(result, out_dir, stem, args.points)),
                ("falloff", lambda: falloff(result, out_dir, stem)),
-               ("grid map", lambda: grid_map(result, out_dir, stem))]
+               ("grid map", lambda: grid_map(result, out_dir, stem)),
+               ("body view", lambda: body_view(result, out_dir, stem))]
     for name, make in figures:
         try:
             for path in make():

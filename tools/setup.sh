@@ -2,13 +2,15 @@
 # Shared set-up of murk on Debian 12: installs the Debian packages that are
 # missing (apt-get update first), configures a Release build in build/ and
 # builds it. Idempotent: a second run installs nothing and rebuilds only what
-# changed. Sourced by tools/demo.sh and tools/test.sh.
+# changed. Sourced by tools/demo.sh and tools/test.sh; packages given as arguments
+# (test-only ones, from tools/test.sh) are installed too.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 
 packages=(build-essential cmake libeigen3-dev libboost-dev libhdf5-dev hdf5-tools libcli11-dev
           doctest-dev libtomlplusplus-dev libudunits2-dev libssl-dev libopenblas-dev liblapacke-dev
-          python3 python3-h5py python3-numpy python3-matplotlib python3-meshio)
+          libopenmpi-dev openmpi-bin zlib1g-dev
+          python3 python3-h5py python3-numpy python3-matplotlib python3-meshio "$@")
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")

@@ -215,6 +215,21 @@ const toml::table& as_table(const Section& parent, const std::string& key, const
 
 SourceLine source_line(const Section& sec) { return SourceLine{printable(sec.ctx.file), sec.line, sec.path}; }
 
+// Reads every table of the array of tables `key` ([[key]]) with read_one(section, index).
+template <class F>
+void read_tables(const Section& sec, const std::string& key, F read_one) {
+    const toml::node* list = sec.find(key);
+    if (!list) return;
+    const toml::array* arr = list->as_array();
+    if (!arr || !arr->is_array_of_tables())
+        fail(sec.where(key), "expected [[" + sec.key_path(key) + "]] tables (double brackets, one per " + key + "), got " +
+                                 describe(*list));
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+        const toml::node& n = *arr->get(i);
+        read_one(Section{*n.as_table(), sec.key_path(key + "[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx}, i);
+    }
+}
+
 // ---- shapes ---------------------------------------------------------------
 
 const std::vector<std::string> kShapeNames = {"sphere", "spheroid", "ellipsoid", "capsule", "box", "mesh"};
@@ -316,8 +331,24 @@ WaterSpec read_water(const Section& sec) {
     return w;
 }
 
+// One [[mesh.zone]]: a ball of finer panels on the sensing body. What depends on
+// the body (its panel size, whether the ball reaches its skin) is checked by the
+// scene builder, which names the keys kept here.
+MeshZoneSpec read_mesh_zone(const Section& sec) {
+    check_keys(sec, {"centre", "radius", "panel_size"});
+    MeshZoneSpec z;
+    z.source = source_line(sec);
+    const toml::node& centre = required(sec, "centre", "a point [x, y, z] near the skin");
+    z.centre_m = read_lengths3(sec, "centre", centre, false);
+    z.centre_source = SourceLine{sec.ctx.file, line_of(centre), sec.key_path("centre")};
+    z.radius_m = required_positive(sec, "radius", Dimension::length);
+    z.panel_size_m = required_positive(sec, "panel_size", Dimension::length);
+    z.panel_size_source = SourceLine{sec.ctx.file, line_of(*sec.find("panel_size")), sec.key_path("panel_size")};
+    return z;
+}
+
 MeshSpec read_mesh(const Section& sec) {
-    check_keys(sec, {"panel_size", "near_ratio", "far_ratio"});
+    check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone"});
     MeshSpec m;
     m.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
     m.near_ratio = optional_positive(sec, "near_ratio", Dimension::dimensionless).value_or(m.near_ratio);
@@ -326,6 +357,7 @@ MeshSpec read_mesh(const Section& sec) {
         fail(sec.find("far_ratio") ? sec.where("far_ratio") : sec.where("near_ratio"),
              "far_ratio (" + format_number(m.far_ratio) + ") must not be smaller than near_ratio (" +
                  format_number(m.near_ratio) + ")");
+    read_tables(sec, "zone", [&](const Section& zs, std::size_t) { m.zones.push_back(read_mesh_zone(zs)); });
     return m;
 }
 
@@ -724,21 +756,6 @@ ProbeSpec read_probe(const Section& sec) {
     return p;
 }
 
-// Reads every table of the array of tables `key` ([[key]]) with read_one(section, index).
-template <class F>
-void read_tables(const Section& sec, const std::string& key, F read_one) {
-    const toml::node* list = sec.find(key);
-    if (!list) return;
-    const toml::array* arr = list->as_array();
-    if (!arr || !arr->is_array_of_tables())
-        fail(sec.where(key), "expected [[" + key + "]] tables (double brackets, one per " + key + "), got " +
-                                 describe(*list));
-    for (std::size_t i = 0; i < arr->size(); ++i) {
-        const toml::node& n = *arr->get(i);
-        read_one(Section{*n.as_table(), sec.key_path(key + "[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx}, i);
-    }
-}
-
 // ---- sweep and detection ---------------------------------------------------
 
 // Values of one sweep axis: an array of quantities, or a range table
@@ -1004,6 +1021,12 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.robot)
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "pairs of sensor electrodes need a [robot]");
+    if (!spec.mesh.zones.empty() && !fish && !robot)
+        fail(spec.mesh.zones.front().source.where(), "refinement zones make the sensing body's panels finer; the case "
+                                                     "has no [fish] or [robot]");
+    if (!spec.mesh.zones.empty() && spec.robot && spec.robot->hull.kind == ShapeKind::mesh)
+        fail(spec.mesh.zones.front().source.where(), "refinement zones need a generated hull (sphere, spheroid, "
+                                                     "ellipsoid, capsule or box); an imported mesh keeps its own panels");
     if (spec.detection && !spec.detection->receptor_zones.empty() && !spec.fish)
         fail(sec.where("detection"), "receptor_zones describe a fish's skin; the case has no [fish]");
     if (spec.sweep) {

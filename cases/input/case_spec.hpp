@@ -51,6 +51,17 @@ struct WaterSpec {
     SourceLine source;
 };
 
+// A refinement zone of [[mesh.zone]]: a ball in which the sensing body's panels
+// are at most panel_size_m, grading back to the body's panel size outside it.
+struct MeshZoneSpec {
+    Point3 centre_m{};  // world frame
+    double radius_m = 0.0;
+    double panel_size_m = 0.0;
+    SourceLine source;             // the [[mesh.zone]] table, key "mesh.zone[k]"
+    SourceLine centre_source;      // its centre key, for messages of the scene builder
+    SourceLine panel_size_source;  // its panel_size key
+};
+
 // Meshing and accuracy settings.
 struct MeshSpec {
     // Target panel edge length (m) of the sensing body; objects use the smaller of
@@ -59,6 +70,7 @@ struct MeshSpec {
     std::optional<double> panel_size_m;
     double near_ratio = 3.0;   // 1; closed-form integrals below this distance/panel ratio
     double far_ratio = 10.0;   // 1; one-point rule above this ratio
+    std::vector<MeshZoneSpec> zones;  // finer panels on the sensing body, in case order
 };
 
 // Solid shapes shared by objects and the robot hull. Local frame: centred at the

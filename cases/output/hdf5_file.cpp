@@ -114,6 +114,28 @@ H5TypeId utf8_string_type() {
     return type;
 }
 
+// The name of the committed complex type, at the root of every file that holds complex data.
+constexpr const char* kComplexTypeName = "complex";
+
+// The file's named complex type (see the header for why it is named), committed at the root
+// the first time a complex dataset is created. `id` is any object of the file.
+H5TypeId committed_complex_type(hid_t id) {
+    const H5ObjectId root(checked(H5Gopen2(id, "/", H5P_DEFAULT), "H5Gopen2", id, "/"));
+    if (checked(H5Lexists(root.get(), kComplexTypeName, H5P_DEFAULT), "H5Lexists", root.get(), kComplexTypeName) > 0) {
+        H5TypeId type(checked(H5Topen2(root.get(), kComplexTypeName, H5P_DEFAULT), "H5Topen2", root.get(),
+                              kComplexTypeName));
+        if (H5Tget_class(type.get()) != H5T_COMPOUND || H5Tget_size(type.get()) != 2 * sizeof(double) ||
+            H5Tget_member_index(type.get(), "r") != 0 || H5Tget_member_index(type.get(), "i") != 1)
+            throw InputError(object_file(id) + ": /" + kComplexTypeName +
+                             " is not the complex type {r, i} of two doubles that murk writes");
+        return type;
+    }
+    H5TypeId type = complex_type(H5T_IEEE_F64LE);
+    checked(H5Tcommit2(root.get(), kComplexTypeName, type.get(), H5P_DEFAULT, H5P_DEFAULT, H5P_DEFAULT), "H5Tcommit2",
+            root.get(), kComplexTypeName);
+    return type;
+}
+
 // Per element type: the type in memory, the type in the file (fixed little-endian so files
 // are alike on every machine), and the value of elements never written.
 template <class T>
@@ -298,11 +320,14 @@ H5SpaceId scalar_space() {
     return space;
 }
 
-H5SpaceId simple_space(const H5Shape& shape, const H5Shape* max_shape = nullptr) {
-    H5SpaceId space(H5Screate_simple(static_cast<int>(shape.size()), shape.data(), max_shape ? max_shape->data() : nullptr));
+H5SpaceId simple_space(const H5Shape& shape) {
+    H5SpaceId space(H5Screate_simple(static_cast<int>(shape.size()), shape.data(), nullptr));
     if (!space) fail_file("H5Screate_simple", shape_text(shape));
     return space;
 }
+
+// The dataspace of a dataset: scalar for an empty shape (a netCDF scalar variable).
+H5SpaceId dataset_space(const H5Shape& shape) { return shape.empty() ? scalar_space() : simple_space(shape); }
 
 // Reads a numeric attribute as doubles (or int64 when memory_type says so), after checking
 // that it holds numbers of an acceptable kind.
@@ -404,6 +429,17 @@ void H5Object::set_int64_attribute(std::string_view name, std::int64_t value) co
 void H5Object::set_attribute(std::string_view name, const std::vector<double>& values) const {
     const H5SpaceId space = simple_space({values.size()});
     write_attribute(id(), name, H5T_IEEE_F64LE, H5T_NATIVE_DOUBLE, space.get(), values.data());
+}
+
+void H5Object::append_to_attribute(std::string_view name, std::string_view line) const {
+    if (!has_attribute(name)) return set_attribute(name, line);
+    set_attribute(name, string_attribute(name) + "\n" + std::string(line));
+}
+
+void H5Object::remove_attribute(std::string_view name) const {
+    if (!has_attribute(name)) return;
+    const std::string n(name);
+    checked(H5Adelete(id(), n.c_str()), "H5Adelete", id(), {}, "attribute " + n);
 }
 
 bool H5Object::has_attribute(std::string_view name) const {
@@ -543,12 +579,6 @@ std::vector<T> H5Dataset::read_slab(const H5Shape& offset, const H5Shape& count)
     return values;
 }
 
-void H5Dataset::extend(const H5Shape& new_shape) const {
-    if (new_shape.size() != shape().size())
-        throw std::invalid_argument("cannot give " + path() + " the shape " + shape_text(new_shape) + ": rank differs");
-    checked(H5Dset_extent(id(), new_shape.data()), "H5Dset_extent", id());
-}
-
 void H5Dataset::make_scale(std::string_view dimension_name) const {
     if (shape().size() != 1) throw std::invalid_argument("dimension scale " + path() + " must be one-dimensional");
     const std::string name(dimension_name);
@@ -569,6 +599,61 @@ void H5Dataset::attach_scale(const H5Dataset& scale, unsigned dim) const {
     checked(H5DSattach_scale(id(), scale.id(), dim), "H5DSattach_scale", id(), {}, "scale " + scale.path());
 }
 
+const H5Dataset& H5Dataset::label_dimensions(const std::vector<std::string>& names) const {
+    if (names.size() != shape().size())
+        throw std::invalid_argument(path() + " has " + std::to_string(shape().size()) + " dimensions, " +
+                                    std::to_string(names.size()) + " names given");
+    const std::string own = path();
+    const std::string parent = own.substr(0, std::max<std::size_t>(own.rfind('/'), 1));  // "/sweep/status" -> "/sweep"
+    const H5ObjectId group(checked(H5Oopen(id(), parent.c_str(), H5P_DEFAULT), "H5Oopen", id(), parent));
+    for (std::size_t k = 0; k < names.size(); ++k) {
+        if (checked(H5Lexists(group.get(), names[k].c_str(), H5P_DEFAULT), "H5Lexists", group.get(), names[k]) <= 0)
+            throw std::invalid_argument(path() + ": no coordinate '" + names[k] + "' in its group to name dimension " +
+                                        std::to_string(k));
+        const H5Dataset scale(H5ObjectId(checked(H5Oopen(group.get(), names[k].c_str(), H5P_DEFAULT), "H5Oopen",
+                                                 group.get(), names[k])));
+        attach_scale(scale, static_cast<unsigned>(k));
+    }
+    return *this;
+}
+
+namespace {
+
+// An attribute holding `values` in the element type of `dataset` (what CF asks of _FillValue
+// and flag_values).
+template <class T>
+void set_attribute_in_data_type(const H5Dataset& dataset, std::string_view name, const std::vector<T>& values) {
+    static_assert(!std::is_same_v<T, std::complex<double>>, "complex attributes are not written");
+    const H5TypeId type(checked(H5Dget_type(dataset.id()), "H5Dget_type", dataset.id()));
+    if (!convertible<T>(type.get(), false))
+        throw std::invalid_argument(dataset.path() + " holds " + describe_type(type.get()) + ": attribute " +
+                                    std::string(name) + " of " + Element<T>::name + " would not have its type");
+    const H5SpaceId space = simple_space({values.size()});
+    const H5TypeId memory = Element<T>::memory();
+    write_attribute(dataset.id(), name, type.get(), memory.get(), space.get(), values.data());
+}
+
+}  // namespace
+
+template <class T>
+const H5Dataset& H5Dataset::set_fill_value(T value) const {
+    set_attribute_in_data_type(*this, "_FillValue", std::vector<T>{value});
+    return *this;
+}
+
+template <class T>
+const H5Dataset& H5Dataset::set_flags(const std::vector<T>& values, std::string_view meanings) const {
+    std::size_t words = 0;
+    for (std::size_t k = 0; k < meanings.size(); ++k)
+        words += meanings[k] != ' ' && (k == 0 || meanings[k - 1] == ' ');
+    if (values.empty() || words != values.size())
+        throw std::invalid_argument(path() + ": " + std::to_string(values.size()) + " flag values for the " +
+                                    std::to_string(words) + " words of '" + std::string(meanings) + "'");
+    set_attribute_in_data_type(*this, "flag_values", values);
+    set_attribute("flag_meanings", meanings);
+    return *this;
+}
+
 // ---- H5Group --------------------------------------------------------------------------------
 
 H5Group H5Group::group(std::string_view path) const {
@@ -584,6 +669,12 @@ H5Group H5Group::group(std::string_view path) const {
         }
     }
     return H5Group(std::move(current));
+}
+
+void H5Group::remove(std::string_view path) const {
+    if (!exists(path)) return;
+    const std::string p(path);
+    checked(H5Ldelete(id(), p.c_str(), H5P_DEFAULT), "H5Ldelete", id(), p);
 }
 
 bool H5Group::exists(std::string_view path) const {
@@ -624,12 +715,13 @@ namespace {
 // Creates the dataset `path` below `group` with everything but its values: type, shape,
 // layout, fill value and the units and long_name every murk dataset carries.
 template <class T>
-H5Dataset create_dataset(const H5Group& group, std::string_view path, const H5Shape& shape, bool extendible,
+H5Dataset create_dataset(const H5Group& group, std::string_view path, const H5Shape& shape, const T* fill,
                          std::string_view units, std::string_view long_name, const H5Layout& layout) {
     const std::string target = where(group.id(), path);
     if (units.empty() || long_name.empty())
         throw std::invalid_argument(target + ": every dataset needs units (\"1\" if dimensionless) and a long_name");
-    if (shape.empty()) throw std::invalid_argument(target + ": a dataset needs at least one dimension");
+    if (shape.empty() && (fill || layout.gzip_level > 0 || !layout.chunk.empty()))
+        throw std::invalid_argument(target + ": a scalar is neither chunked nor compressed");
     if (layout.gzip_level < 0 || layout.gzip_level > 9)
         throw std::invalid_argument(target + ": gzip level must be 0..9");
 
@@ -643,9 +735,8 @@ H5Dataset create_dataset(const H5Group& group, std::string_view path, const H5Sh
     const unsigned order = H5P_CRT_ORDER_TRACKED | H5P_CRT_ORDER_INDEXED;
     checked(H5Pset_attr_creation_order(dcpl.get(), order), "H5Pset_attr_creation_order", parent.id(), leaf);
 
-    const H5Shape unlimited(shape.size(), H5S_UNLIMITED);
     // HDF5 cannot chunk a fixed dimension of length 0: an empty array stays contiguous.
-    const bool chunked = extendible || ((layout.gzip_level > 0 || !layout.chunk.empty()) && element_count(shape) > 0);
+    const bool chunked = (fill || layout.gzip_level > 0 || !layout.chunk.empty()) && element_count(shape) > 0;
     if (chunked) {
         const H5Shape chunk = layout.chunk.empty() ? automatic_chunk(shape, sizeof(T)) : layout.chunk;
         if (chunk.size() != shape.size())
@@ -659,12 +750,9 @@ H5Dataset create_dataset(const H5Group& group, std::string_view path, const H5Sh
         }
     }
     const H5TypeId memory = Element<T>::memory();
-    const H5TypeId file = Element<T>::file();
-    if (extendible) {
-        const T fill = Element<T>::fill();
-        checked(H5Pset_fill_value(dcpl.get(), memory.get(), &fill), "H5Pset_fill_value", parent.id(), leaf);
-    }
-    const H5SpaceId space = simple_space(shape, extendible ? &unlimited : nullptr);
+    const H5TypeId file = std::is_same_v<T, std::complex<double>> ? committed_complex_type(parent.id()) : Element<T>::file();
+    if (fill) checked(H5Pset_fill_value(dcpl.get(), memory.get(), fill), "H5Pset_fill_value", parent.id(), leaf);
+    const H5SpaceId space = dataset_space(shape);
     H5Dataset dataset(H5ObjectId(checked(H5Dcreate2(parent.id(), leaf.c_str(), file.get(), space.get(), H5P_DEFAULT,
                                                     dcpl.get(), H5P_DEFAULT),
                                          "H5Dcreate2", parent.id(), leaf)));
@@ -678,7 +766,7 @@ H5Dataset create_dataset(const H5Group& group, std::string_view path, const H5Sh
 template <class T>
 H5Dataset H5Group::write(std::string_view path, const T* values, const H5Shape& shape, std::string_view units,
                          std::string_view long_name, const H5Layout& layout) const {
-    H5Dataset dataset = create_dataset<T>(*this, path, shape, false, units, long_name, layout);
+    H5Dataset dataset = create_dataset<T>(*this, path, shape, nullptr, units, long_name, layout);
     if (element_count(shape) > 0) {
         const H5TypeId memory = Element<T>::memory();
         checked(H5Dwrite(dataset.id(), memory.get(), H5S_ALL, H5S_ALL, H5P_DEFAULT, values), "H5Dwrite", dataset.id());
@@ -702,9 +790,48 @@ H5Dataset H5Group::write(std::string_view path, const std::vector<T>& values, st
 }
 
 template <class T>
-H5Dataset H5Group::create_extendible(std::string_view path, const H5Shape& shape, std::string_view units,
-                                     std::string_view long_name, const H5Layout& layout) const {
-    return create_dataset<T>(*this, path, shape, true, units, long_name, layout);
+H5Dataset H5Group::create_filled(std::string_view path, const H5Shape& shape, std::string_view units,
+                                 std::string_view long_name, const H5Layout& layout, std::optional<T> fill) const {
+    if (shape.empty()) throw std::invalid_argument(where(id(), path) + ": a filled dataset needs dimensions");
+    const T value = fill.value_or(Element<T>::fill());
+    H5Dataset dataset = create_dataset<T>(*this, path, shape, &value, units, long_name, layout);
+    if constexpr (std::is_same_v<T, double>) dataset.set_fill_value(value);
+    else if constexpr (std::is_integral_v<T>) {
+        if (fill) dataset.set_fill_value(value);
+    }
+    return dataset;
+}
+
+template <class T>
+H5Dataset H5Group::write_coordinate(std::string_view name, const std::vector<T>& values, std::string_view units,
+                                    std::string_view long_name) const {
+    H5Dataset dataset = write(name, values, units, long_name);
+    dataset.make_scale(name);
+    return dataset;
+}
+
+H5Dataset H5Group::write_label_coordinate(std::string_view name, const std::vector<std::string>& labels,
+                                          std::string_view long_name) const {
+    if (long_name.empty()) throw std::invalid_argument(where(id(), name) + ": a coordinate needs a long_name");
+    if (name.empty() || name.find('/') != std::string_view::npos)
+        throw std::invalid_argument(where(id(), name) + ": a coordinate is named by one path component");
+    const std::string leaf(name);
+    const H5PropertyListId dcpl(checked(H5Pcreate(H5P_DATASET_CREATE), "H5Pcreate", id(), leaf));
+    const unsigned order = H5P_CRT_ORDER_TRACKED | H5P_CRT_ORDER_INDEXED;
+    checked(H5Pset_attr_creation_order(dcpl.get(), order), "H5Pset_attr_creation_order", id(), leaf);
+    const H5TypeId type = utf8_string_type();
+    const H5SpaceId space = simple_space({labels.size()});
+    H5Dataset dataset(H5ObjectId(checked(
+        H5Dcreate2(id(), leaf.c_str(), type.get(), space.get(), H5P_DEFAULT, dcpl.get(), H5P_DEFAULT), "H5Dcreate2",
+        id(), leaf)));
+    std::vector<const char*> pointers;
+    for (const std::string& label : labels) pointers.push_back(label.c_str());
+    if (!pointers.empty())
+        checked(H5Dwrite(dataset.id(), type.get(), H5S_ALL, H5S_ALL, H5P_DEFAULT, pointers.data()), "H5Dwrite",
+                dataset.id());
+    dataset.set_attribute("long_name", long_name);
+    dataset.make_scale(name);
+    return dataset;
 }
 
 #define MURK_H5_INSTANTIATE(T)                                                                                          \
@@ -718,8 +845,8 @@ H5Dataset H5Group::create_extendible(std::string_view path, const H5Shape& shape
                                          std::string_view, const H5Layout&) const;                                      \
     template H5Dataset H5Group::write<T>(std::string_view, const std::vector<T>&, std::string_view, std::string_view,   \
                                          const H5Layout&) const;                                                        \
-    template H5Dataset H5Group::create_extendible<T>(std::string_view, const H5Shape&, std::string_view,               \
-                                                     std::string_view, const H5Layout&) const;
+    template H5Dataset H5Group::create_filled<T>(std::string_view, const H5Shape&, std::string_view, std::string_view,  \
+                                                 const H5Layout&, std::optional<T>) const;
 
 MURK_H5_INSTANTIATE(double)
 MURK_H5_INSTANTIATE(std::int32_t)
@@ -727,6 +854,18 @@ MURK_H5_INSTANTIATE(std::int64_t)
 MURK_H5_INSTANTIATE(std::uint8_t)
 MURK_H5_INSTANTIATE(std::complex<double>)
 #undef MURK_H5_INSTANTIATE
+
+#define MURK_H5_INSTANTIATE_REAL(T)                                                                         \
+    template const H5Dataset& H5Dataset::set_fill_value<T>(T) const;                                         \
+    template const H5Dataset& H5Dataset::set_flags<T>(const std::vector<T>&, std::string_view) const;       \
+    template H5Dataset H5Group::write_coordinate<T>(std::string_view, const std::vector<T>&, std::string_view, \
+                                                    std::string_view) const;
+
+MURK_H5_INSTANTIATE_REAL(double)
+MURK_H5_INSTANTIATE_REAL(std::int32_t)
+MURK_H5_INSTANTIATE_REAL(std::int64_t)
+MURK_H5_INSTANTIATE_REAL(std::uint8_t)
+#undef MURK_H5_INSTANTIATE_REAL
 
 // ---- H5File ---------------------------------------------------------------------------------
 
@@ -792,8 +931,9 @@ void H5File::close() {
 
 // ---- H5Output -------------------------------------------------------------------------------
 
-H5Output::H5Output(std::string path, bool overwrite, std::string exists_hint, H5File file)
-    : path_(std::move(path)), overwrite_(overwrite), exists_hint_(std::move(exists_hint)), file_(std::move(file)) {}
+H5Output::H5Output(std::string path, bool overwrite, std::string exists_hint, std::string temp, H5File file)
+    : path_(std::move(path)), temp_(std::move(temp)), overwrite_(overwrite), exists_hint_(std::move(exists_hint)),
+      file_(std::move(file)) {}
 
 namespace {
 
@@ -803,29 +943,32 @@ void check_output_allowed(const std::string& path, bool overwrite, std::string_v
     check_directory_of(path);
 }
 
-H5File start_partial(const std::string& path, bool overwrite, std::string_view hint) {
+H5File start_temporary(const std::string& path, const std::string& temp, bool overwrite, std::string_view hint) {
     check_output_allowed(path, overwrite, hint);
-    // A partial file here was left by a run that died; starting afresh means starting without it.
+    // A file here was left by a run that died while writing; starting afresh means starting without it.
     std::error_code error;
-    fs::remove(H5Output::partial_path(path), error);
-    return H5File::create(H5Output::partial_path(path));
+    fs::remove(temp, error);
+    return H5File::create(temp);
 }
 
 }  // namespace
 
-H5Output::H5Output(const std::string& path, bool overwrite, std::string_view exists_hint)
-    : H5Output(path, overwrite, std::string(exists_hint), start_partial(path, overwrite, exists_hint)) {}
+H5Output::H5Output(const std::string& path, bool overwrite, std::string_view exists_hint, const std::string& temp)
+    : H5Output(path, overwrite, std::string(exists_hint), temp.empty() ? partial_path(path) : temp,
+               start_temporary(path, temp.empty() ? partial_path(path) : temp, overwrite, exists_hint)) {}
 
-H5Output H5Output::resume(const std::string& path, bool overwrite, std::string_view exists_hint) {
+H5Output H5Output::copy_of(const std::string& source, const std::string& path, bool overwrite,
+                           std::string_view exists_hint, const std::string& temp) {
     check_output_allowed(path, overwrite, exists_hint);
-    const std::string partial = partial_path(path);
     std::error_code error;
-    if (!fs::exists(partial, error)) throw InputError(partial + ": no such file, so there is nothing to resume");
-    return H5Output(path, overwrite, std::string(exists_hint), H5File::open_readwrite(partial));
+    fs::copy_file(source, temp, fs::copy_options::overwrite_existing, error);
+    if (error) throw InputError(temp + ": cannot copy " + source + " there (" + error.message() + ")");
+    return H5Output(path, overwrite, std::string(exists_hint), temp, H5File::open_readwrite(temp));
 }
 
 H5Output::H5Output(H5Output&& other) noexcept
     : path_(std::move(other.path_)),
+      temp_(std::move(other.temp_)),
       overwrite_(other.overwrite_),
       exists_hint_(std::move(other.exists_hint_)),
       file_(std::move(other.file_)),
@@ -839,13 +982,7 @@ H5Output::~H5Output() {
         // Being removed anyway; a destructor has no one to tell.
     }
     std::error_code error;
-    fs::remove(partial_path(path_), error);
-}
-
-void H5Output::suspend() {
-    if (done_) return;
-    file_.close();
-    done_ = true;
+    fs::remove(temp_, error);
 }
 
 H5File& H5Output::file() {
@@ -855,7 +992,7 @@ H5File& H5Output::file() {
 
 void H5Output::commit() {
     if (done_) throw std::logic_error(path_ + " is already committed");
-    const std::string partial = partial_path(path_);
+    const std::string& partial = temp_;
     file_.close();
     // On disk before it gets its name: otherwise a power cut after the rename could leave a
     // complete-looking name over incomplete data.

@@ -1,10 +1,12 @@
 #pragma once
 // murk's thin layer over the HDF5 C API: result files that h5py, netCDF-4 and xarray read
-// without murk (DESIGN.md §5).
+// without murk (cases/RESULT_LAYOUT.md).
 //
 //   H5Output out("OUT.h5", force, "pass --force to replace it");   // writes OUT.h5.partial
 //   H5Group mesh = out.root().group("mesh/body");
-//   mesh.write("vertices", &v[0].x(), {n, 3}, "m", "vertex position");
+//   mesh.write_coordinate("vertex", vertex_index, "1", "vertex index");
+//   mesh.write_label_coordinate("xyz", {"x", "y", "z"}, "Cartesian component");
+//   mesh.write("vertices", &v[0].x(), {n, 3}, "m", "vertex position").label_dimensions({"vertex", "xyz"});
 //   out.commit();                                                   // renames onto OUT.h5
 //
 // Rules the layer keeps:
@@ -12,7 +14,13 @@
 //    they are required arguments, so they cannot be forgotten;
 //  - strings are variable-length UTF-8, which h5py reads as str (fixed-length ones come back
 //    as bytes);
-//  - complex numbers are the compound {r, i} of two doubles, which h5py reads as complex128;
+//  - complex numbers are the compound {r, i} of two doubles, which h5py reads as complex128.
+//    The compound is committed once per file as the named datatype /complex: netCDF-C (and so
+//    ncdump and xarray's netCDF4 engine) silently leaves out datasets of an anonymous compound
+//    type, but reads a named one as a netCDF-4 user-defined type;
+//  - a netCDF-4 reader sees a dataset's dimensions through the HDF5 dimension scales attached
+//    to it; it finds a scale only in the dataset's own group or a parent group, so murk keeps
+//    every group self-contained: label_dimensions() attaches scales of the dataset's own group;
 //  - HDF5 never prints its error stack: failures become exceptions. Problems the user can fix
 //    (missing file, existing output, wrong file content) are murk::InputError; failures of
 //    HDF5 itself are std::runtime_error naming the HDF5 call and the object; misuse by the
@@ -24,6 +32,7 @@
 
 #include <complex>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <type_traits>
@@ -75,7 +84,7 @@ using H5PropertyListId = H5Id<H5Pclose>;
 using H5Shape = std::vector<hsize_t>;
 
 // Element types a dataset can hold: double, std::int32_t, std::int64_t, std::uint8_t,
-// std::complex<double>. Anything else fails to link.
+// std::complex<double> (and strings, through write_label_coordinate). Anything else fails to link.
 template <class T>
 inline constexpr bool is_h5_element =
     std::is_same_v<T, double> || std::is_same_v<T, std::int32_t> || std::is_same_v<T, std::int64_t> ||
@@ -85,8 +94,8 @@ inline constexpr bool is_h5_element =
 enum class H5Kind { real, integer, complex, text, other };
 
 // How a dataset lies on disk. Contiguous suits small arrays written once. Chunks let a
-// dataset grow, be compressed, and be read or written a slice at a time; an empty `chunk`
-// with compression or growth asks for chunks of about 256 KiB shaped like the array.
+// dataset be compressed, and be read or written a slice at a time; an empty `chunk` with
+// compression (or in create_filled) asks for chunks of about 256 KiB shaped like the array.
 struct H5Layout {
     H5Shape chunk;       // empty: contiguous, or automatic where chunks are needed
     int gzip_level = 0;  // 0: no compression; 1 (fast) .. 9 (small)
@@ -95,7 +104,7 @@ struct H5Layout {
     static H5Layout compressed(int gzip_level = 4, H5Shape chunk = {}) { return {std::move(chunk), gzip_level}; }
 };
 
-// An array read back: `values` in C order, shape.size() dimensions.
+// An array read back: `values` in C order, shape.size() dimensions (none for a scalar).
 template <class T>
 struct H5Array {
     H5Shape shape;
@@ -116,6 +125,11 @@ public:
     void set_attribute(std::string_view name, const char* value) const { set_attribute(name, std::string_view(value)); }
     void set_attribute(std::string_view name, double value) const;
     void set_attribute(std::string_view name, const std::vector<double>& values) const;
+    // Text appended to a string attribute on a new line (or set, if it is missing): a
+    // resumed run adds itself to `history`.
+    void append_to_attribute(std::string_view name, std::string_view line) const;
+    // Removes the attribute if it is there.
+    void remove_attribute(std::string_view name) const;
     // Any integer (but not bool) is stored as int64.
     template <class I, std::enable_if_t<std::is_integral_v<I> && !std::is_same_v<I, bool>, int> = 0>
     void set_attribute(std::string_view name, I value) const {
@@ -163,15 +177,27 @@ public:
     template <class T>
     std::vector<T> read_slab(const H5Shape& offset, const H5Shape& count) const;
 
-    // Grows (or shrinks) a dataset made by create_extendible; new elements read as the fill value.
-    void extend(const H5Shape& new_shape) const;
-
     // Marks this 1-D dataset as the coordinate of a dimension called `dimension_name`, so
     // that netCDF-4 readers see a named dimension. Give it the dataset's own name ("x" for
     // /sweep/x): some readers show the one, some the other.
     void make_scale(std::string_view dimension_name) const;
     // Attaches `scale` (made with make_scale, as long as that dimension) to dimension `dim`.
     void attach_scale(const H5Dataset& scale, unsigned dim) const;
+    // Names every dimension, slowest first, by the coordinates (dimension scales) of those
+    // names in the dataset's own group. A name with no scale there, or a scale of another
+    // length, is a std::invalid_argument: the writer forgot a coordinate.
+    const H5Dataset& label_dimensions(const std::vector<std::string>& names) const;
+
+    // CF attributes that must have the dataset's own element type (CF conventions 1.8,
+    // sections 2.5.1 and 3.5). `_FillValue`: the value that marks an element as missing,
+    // which xarray then shows as NaN; never on complex data (xarray's netCDF4 engine cannot
+    // decode a compound _FillValue), and never a value that is a real code.
+    template <class T>
+    const H5Dataset& set_fill_value(T value) const;
+    // `flag_values` and `flag_meanings` of a coded dataset: the codes and one word per code,
+    // separated by spaces.
+    template <class T>
+    const H5Dataset& set_flags(const std::vector<T>& values, std::string_view meanings) const;
 };
 
 class H5Group : public H5Object {
@@ -184,9 +210,12 @@ public:
     // Opens an existing group; a missing one is an InputError naming the file.
     H5Group open_group(std::string_view path) const;
     bool exists(std::string_view path) const;
+    // Unlinks the group or dataset at `path` if it is there (its space is not reclaimed).
+    void remove(std::string_view path) const;
 
     // Writes a new dataset at `path` (parents are created). `units` is a UDUNITS string
-    // ("m", "S m-1", "V", "1" if dimensionless); `long_name` says what the numbers are.
+    // ("m", "S m-1", "V", "1" if dimensionless); `long_name` says what the numbers are. An
+    // empty shape writes a scalar (one value, no dimensions).
     template <class T>
     H5Dataset write(std::string_view path, const std::vector<T>& values, std::string_view units,
                     std::string_view long_name, const H5Layout& layout = {}) const;
@@ -197,12 +226,29 @@ public:
     H5Dataset write(std::string_view path, const T* values, const H5Shape& shape, std::string_view units,
                     std::string_view long_name, const H5Layout& layout = {}) const;
 
-    // A chunked dataset of `shape` that can later grow in every dimension, with every element
-    // set to NaN (real, complex) or 0 (integer) until written: a sweep fills it a slab at a
-    // time and points never computed stay NaN.
+    // A chunked dataset of fixed `shape` whose elements read as `fill` until written: a sweep
+    // fills it a slab at a time and points never computed keep the fill. Without `fill`:
+    // NaN for real and complex numbers, 0 for integers. Real datasets also get _FillValue NaN,
+    // and integer ones _FillValue `fill` when it is given (a sentinel such as -1), so that
+    // netCDF readers show unwritten elements as missing; an integer 0 is a real value and
+    // complex data cannot carry _FillValue (see set_fill_value).
+    // The size is fixed, not extendible: nothing grows these datasets, and a fixed maximum
+    // keeps a dataset and the fixed-length coordinates of its dimensions from ever disagreeing.
+    // (Measured with netCDF-C 4.9 and h5netcdf 1.1: an unlimited maximum under fixed-length
+    // coordinates reads the same, as fixed dimensions, so the readers did not force this.)
     template <class T>
-    H5Dataset create_extendible(std::string_view path, const H5Shape& shape, std::string_view units,
-                                std::string_view long_name, const H5Layout& layout = {}) const;
+    H5Dataset create_filled(std::string_view path, const H5Shape& shape, std::string_view units,
+                            std::string_view long_name, const H5Layout& layout = {},
+                            std::optional<T> fill = std::nullopt) const;
+
+    // A coordinate: the 1-D dataset `name` made the dimension scale of dimension `name`.
+    template <class T>
+    H5Dataset write_coordinate(std::string_view name, const std::vector<T>& values, std::string_view units,
+                               std::string_view long_name) const;
+    // A coordinate of text labels ("x", "y", "z"; electrode names), variable-length UTF-8. It
+    // has a long_name but no units: labels are not quantities.
+    H5Dataset write_label_coordinate(std::string_view name, const std::vector<std::string>& labels,
+                                     std::string_view long_name) const;
 
     // Opens an existing dataset; a missing one is an InputError naming the file.
     H5Dataset dataset(std::string_view path) const;
@@ -237,18 +283,21 @@ private:
     std::string path_;
 };
 
-// A result file that appears under its name only when complete. Everything is written to
-// "<path>.partial" in the same directory; commit() closes it, syncs it to disk and renames
-// it onto `path`. Destroyed without commit() (an exception, a failed run), it removes the
-// partial file; a run that is killed leaves the partial file for resume().
+// A result file that appears under its name only when complete. Everything is written to a
+// temporary file in the same directory; commit() closes it, syncs it to disk and renames it
+// onto `path`. Destroyed without commit() (an exception, a failed run), it removes the
+// temporary file; a process that is killed may leave it, and the next run replaces it.
 class H5Output {
 public:
     // Without `overwrite`, an existing `path` is an InputError "<path> exists; <hint>".
-    // A partial file left by an earlier run is replaced.
-    H5Output(const std::string& path, bool overwrite, std::string_view exists_hint = {});
-    // Reopens the partial file an interrupted run left behind, to go on writing it.
-    static H5Output resume(const std::string& path, bool overwrite, std::string_view exists_hint = {});
+    // The file is written under `temp` (default: partial_path(path)); one left there by a
+    // run that died is replaced.
+    H5Output(const std::string& path, bool overwrite, std::string_view exists_hint = {}, const std::string& temp = {});
     static std::string partial_path(const std::string& path) { return path + ".partial"; }
+    // The same, starting from a copy of the file `source` (murk merge builds a result on one
+    // of its parts).
+    static H5Output copy_of(const std::string& source, const std::string& path, bool overwrite,
+                            std::string_view exists_hint, const std::string& temp);
 
     H5Output(H5Output&& other) noexcept;
     H5Output& operator=(H5Output&&) = delete;
@@ -262,13 +311,11 @@ public:
     // If `path` appeared meanwhile and overwrite is off, throws InputError and keeps the
     // partial file, so the work is not lost.
     void commit();
-    // Closes the partial file and keeps it for resume(): a sweep that is interrupted or
-    // fails part-way must not lose the points it finished.
-    void suspend();
 
 private:
-    H5Output(std::string path, bool overwrite, std::string exists_hint, H5File file);
+    H5Output(std::string path, bool overwrite, std::string exists_hint, std::string temp, H5File file);
     std::string path_;
+    std::string temp_;  // where the file is written until commit()
     bool overwrite_;
     std::string exists_hint_;
     H5File file_;

@@ -1,5 +1,7 @@
 #include "cases/output/result_metadata.hpp"
 
+#include "cases/output/result_layout.hpp"
+
 #include <openssl/evp.h>
 
 #include <ctime>
@@ -30,14 +32,22 @@ std::string utc_now_iso8601() {
     return buffer;
 }
 
+std::string history_line(const std::string& utc_time, const std::string& command) {
+    return utc_time + " " + command;
+}
+
 void write_result_metadata(H5Group root, const CaseSpec& spec, const std::string& command,
                            const std::string& approximation, const QuadratureOptions& quadrature) {
+    const std::string now = utc_now_iso8601();
+    // CF conventions 1.8, section 2.6.2: the conventions followed, and the history of the file.
+    root.set_attribute("Conventions", layout::kConventions);
+    root.set_attribute("history", history_line(now, command));
     root.set_attribute("murk_version", MURK_VERSION);
     root.set_attribute("title", spec.title);
     root.set_attribute("case", spec.text);
     root.set_attribute("case_path", spec.path);
     root.set_attribute("case_sha256", sha256_hex(spec.text));
-    root.set_attribute("created_utc", utc_now_iso8601());
+    root.set_attribute("created_utc", now);
     root.set_attribute("command", command);
     root.set_attribute("approximation", approximation);
     root.set_attribute("near_ratio", quadrature.near_ratio);

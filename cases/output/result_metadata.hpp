@@ -1,6 +1,7 @@
 #pragma once
-// Root attributes every murk result file carries (DESIGN.md §5): what made it,
-// from which case, when, and under which approximation and accuracy switches.
+// Root attributes every murk result file carries (cases/RESULT_LAYOUT.md): the CF
+// conventions it follows and its history, what made it, from which case, when, and under
+// which approximation and accuracy switches.
 #include "cases/input/case_spec.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "solver/quadrature_options.hpp"
@@ -14,6 +15,10 @@ std::string sha256_hex(const std::string& text);
 
 // Current time as ISO 8601 UTC, e.g. "2026-12-01T22:39:51Z".
 std::string utc_now_iso8601();
+
+// One line of the CF `history` attribute: "2026-12-01T22:39:51Z murk run case.toml -o out.h5".
+// A command that changes the file later (murk run --resume) appends its own line.
+std::string history_line(const std::string& utc_time, const std::string& command);
 
 void write_result_metadata(H5Group root, const CaseSpec& spec, const std::string& command,
                            const std::string& approximation, const QuadratureOptions& quadrature);

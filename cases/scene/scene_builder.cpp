@@ -12,6 +12,7 @@
 #include "geometry/spatial_index.hpp"
 #include "geometry/transform.hpp"
 #include "geometry/triangle_distance.hpp"
+#include "geometry/zone_refinement.hpp"
 
 #include <algorithm>
 #include <cassert>
@@ -95,15 +96,16 @@ double shape_length(const ShapeSpec& s, const TriangleMesh* mesh) {
 }
 
 // Mesh of a solid in its own frame (centred, long axis along x); an imported
-// mesh keeps its file coordinates, scaled to metres.
-TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge) {
+// mesh keeps its file coordinates, scaled to metres. Zones (in the same frame)
+// apply to generated shapes only; the reader refuses them for an imported hull.
+TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge, const std::vector<RefinementZone>& zones = {}) {
     switch (s.kind) {
-        case ShapeKind::sphere: return make_sphere(s.radius_m, target_edge);
+        case ShapeKind::sphere: return make_sphere(s.radius_m, target_edge, zones);
         case ShapeKind::spheroid:
-        case ShapeKind::ellipsoid: return make_ellipsoid(to_vec(s.semi_axes_m), target_edge);
-        case ShapeKind::capsule: return make_capsule(s.radius_m, s.length_m - 2.0 * s.radius_m, target_edge);
-        case ShapeKind::box: return make_box(to_vec(s.size_m), target_edge);
-        case ShapeKind::mesh: return read_mesh(s.mesh_file, s.mesh_scale_m);
+        case ShapeKind::ellipsoid: return make_ellipsoid(to_vec(s.semi_axes_m), target_edge, zones);
+        case ShapeKind::capsule: return make_capsule(s.radius_m, s.length_m - 2.0 * s.radius_m, target_edge, zones);
+        case ShapeKind::box: return make_box(to_vec(s.size_m), target_edge, zones);
+        case ShapeKind::mesh: assert(zones.empty()); return read_mesh(s.mesh_file, s.mesh_scale_m);
     }
     return {};
 }
@@ -114,6 +116,37 @@ double default_panel_size(const CaseSpec& spec, const TriangleMesh* hull_mesh) {
     if (!spec.fish && !spec.robot) return std::numeric_limits<double>::infinity();
     const double length = spec.fish ? spec.fish->length_m : shape_length(spec.robot->hull, hull_mesh);
     return length / 30.0;
+}
+
+// ---- refinement zones of the sensing body -------------------------------------
+
+// The case's [[mesh.zone]] tables in the body's own frame, where the body's own
+// frame maps to the world by x -> R x + offset. A zone may only make panels
+// smaller than the body's `panel_size`.
+std::vector<RefinementZone> body_zones(const CaseSpec& spec, double panel_size, const Eigen::Matrix3d& R,
+                                       const Vec3& offset) {
+    std::vector<RefinementZone> zones;
+    for (const MeshZoneSpec& z : spec.mesh.zones) {
+        if (z.panel_size_m > panel_size)
+            throw InputError(z.panel_size_source.where() + ": " + format_length(z.panel_size_m) +
+                             " is larger than the body's panel size (" + format_length(panel_size) +
+                             (spec.mesh.panel_size_m ? ", mesh.panel_size" : ", the default: body length / 30") +
+                             "); a zone can only make panels smaller");
+        zones.push_back(RefinementZone{R.transpose() * (to_vec(z.centre_m) - offset), z.radius_m, z.panel_size_m});
+    }
+    return zones;
+}
+
+// Refuses a zone whose ball does not reach the placed body's surface: it would
+// refine nothing, which is surely a mistyped centre or unit.
+void require_zones_reach(const CaseSpec& spec, const TriangleMesh& body, const std::string& body_label) {
+    for (const MeshZoneSpec& z : spec.mesh.zones) {
+        const double d = distance_to_surface(body, to_vec(z.centre_m));
+        if (d > z.radius_m)
+            throw InputError(z.centre_source.where() + ": the zone does not reach " + body_label + ": its centre is " +
+                             format_length(d) + " from the surface, more than its radius (" +
+                             format_length(z.radius_m) + ")");
+    }
 }
 
 // A surface placed in the scene, with what messages need to name it.
@@ -153,10 +186,12 @@ void add_fish(Scene<S>& scene, const CaseSpec& spec, double omega, double panel_
     const FishSpec& f = *spec.fish;
     const std::string where = f.source.where();
     const Eigen::Matrix3d R = orientation_matrix(f.orientation);
+    const std::vector<RefinementZone> zones = body_zones(spec, panel_size, R, to_vec(f.position_m) - R * fish_anchor(f));
     Surface<S> body;
-    body.mesh = with_place(where, [&] { return make_body(fish_profile(f), panel_size); });
+    body.mesh = with_place(where, [&] { return make_body(fish_profile(f), panel_size, zones); });
     body.mesh.name = "fish";
     place_fish(body.mesh, f, R);
+    require_zones_reach(spec, body.mesh, "the fish's skin");
     require_valid_mesh(body.mesh, where);
     body.kind = InterfaceKind::membrane;
     body.inner_conductivity =
@@ -250,6 +285,7 @@ void add_robot(Scene<S>& scene, const CaseSpec& spec, TriangleMesh hull) {
     surface.panel_electrode = tag_electrodes(hull, r);
     surface.mesh = std::move(hull);
     transform(surface.mesh, orientation_matrix(r.orientation), to_vec(r.position_m));
+    require_zones_reach(spec, surface.mesh, "the robot's hull");
     require_valid_mesh(surface.mesh, r.source.where());
     for (const ElectrodeSpec& e : r.electrodes) scene.electrodes.push_back(Electrode<S>{e.name, e.drive, S(e.value)});
     scene.surfaces.push_back(std::move(surface));
@@ -276,6 +312,21 @@ void add_object_surface(Scene<S>& scene, const CaseSpec& spec, const ObjectSpec&
     switch (o.material) {
         case Material::conducting:
             surface.inner_conductivity = to_scalar<S>(admittivity(o.conductivity_S_per_m, o.permittivity_relative, omega));
+            if (!o.membrane) {
+                // Beyond these contrasts the object is solved as the limit it tends to
+                // (cases/scene/scene_rules.hpp).
+                const double contrast = std::abs(surface.inner_conductivity) / std::abs(scene.water_conductivity);
+                if (contrast >= kLimitContrast) {
+                    ObjectSpec limit = o;
+                    limit.material = Material::conductor;
+                    return add_object_surface(scene, spec, limit, std::move(surface.mesh));
+                }
+                if (contrast <= 1.0 / kLimitContrast) {
+                    ObjectSpec limit = o;
+                    limit.material = Material::insulator;
+                    return add_object_surface(scene, spec, limit, std::move(surface.mesh));
+                }
+            }
             if (o.membrane) {
                 surface.kind = InterfaceKind::membrane;
                 surface.membrane_resistance = to_scalar<S>(
@@ -588,6 +639,13 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     if (spec.fish) {
         add_fish(scene, spec, omega, default_panel_size(spec, nullptr));
     } else if (spec.robot) {
+        // Imported hulls have no zones (the reader refuses them), so the panel size
+        // the zones are checked against is the generated hull's.
+        const std::vector<RefinementZone> zones =
+            spec.robot->hull.kind == ShapeKind::mesh
+                ? std::vector<RefinementZone>{}
+                : body_zones(spec, default_panel_size(spec, nullptr), orientation_matrix(spec.robot->orientation),
+                             to_vec(spec.robot->position_m));
         TriangleMesh hull;
         double panel = 0.0;
         with_place(spec.robot->source.where(), [&] {
@@ -596,7 +654,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
                 panel = default_panel_size(spec, &hull);
             } else {
                 panel = default_panel_size(spec, nullptr);
-                hull = make_shape_mesh(spec.robot->hull, panel);
+                hull = make_shape_mesh(spec.robot->hull, panel, zones);
             }
             return 0;
         });

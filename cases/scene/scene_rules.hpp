@@ -18,6 +18,15 @@ inline constexpr double kMinGapInPanels = 0.1;
 // potential that changes within a fraction of a panel.
 inline constexpr double kMinSourceDepthInPanels = 0.25;
 
+// An object (without a membrane) whose conductivity differs from the water's by
+// this factor or more is solved as a perfect conductor, by its inverse or less as
+// an insulator. The limit differs from the object by about 3/contrast (the
+// Maxwell factor (s - w)/(s + 2w) of a sphere against 1, or -1/2), 3e-8 here,
+// while the contact formulation itself loses accuracy at higher contrasts: its
+// perturbation left the perfect conductor's by 2e-6 at 1e12 and 0.3 % at 1e14,
+// and by 35 % at 1e16 (tests/test_scene_builder.cpp measures the whole range).
+inline constexpr double kLimitContrast = 1e8;
+
 // Edge length (m) of an equilateral panel of the mesh's mean panel area: the
 // panel size the rules above count in.
 double typical_edge(const TriangleMesh& mesh);

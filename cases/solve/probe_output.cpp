@@ -1,7 +1,13 @@
 #include "cases/solve/probe_output.hpp"
 
+#include "cases/output/coordinates.hpp"
+#include "cases/output/result_layout.hpp"
 #include "cases/output/surface_output.hpp"
 #include "solver/bem_system.hpp"
+
+#include <cmath>
+#include <string>
+#include <vector>
 
 namespace murk {
 
@@ -23,12 +29,45 @@ ProbeValues<S> evaluate_probes(const CaseSpec& spec, const Scene<S>& scene, cons
     return out;
 }
 
+namespace {
+
+double distance(const Point3& a, const Point3& b) {
+    return std::sqrt((a[0] - b[0]) * (a[0] - b[0]) + (a[1] - b[1]) * (a[1] - b[1]) + (a[2] - b[2]) * (a[2] - b[2]));
+}
+
+// The coordinates of a probe's dimensions in its group, and their names: a point has one
+// dimension of one index; a line's points lie along it, a grid's along and across, at the
+// distances (m) from the probe's first point that the coordinates hold.
+std::vector<std::string> probe_dimensions(const H5Group& group, const CaseSpec& spec, const ProbeSpec& probe) {
+    if (probe.form == ProbeForm::point) {
+        index_coordinate(group, "point", 1, "probe point index");
+        return {"point"};
+    }
+    const std::size_t across = probe.shape.size() > 1 ? probe.shape[1] : 1;
+    const Point3& first = spec.probe_points[probe.first_point].position_m;
+    std::vector<double> along_m, across_m;
+    for (std::size_t i = 0; i < probe.shape[0]; ++i)
+        along_m.push_back(distance(spec.probe_points[probe.first_point + i * across].position_m, first));
+    group.write_coordinate("along", along_m, "m", "distance from the probe's first point along it");
+    if (probe.shape.size() == 1) return {"along"};
+    for (std::size_t j = 0; j < across; ++j)
+        across_m.push_back(distance(spec.probe_points[probe.first_point + j].position_m, first));
+    group.write_coordinate("across", across_m, "m", "distance from the probe's first point across the grid");
+    return {"along", "across"};
+}
+
+}  // namespace
+
 template <class S>
 void write_probes(H5Group& root, const CaseSpec& spec, const ProbeValues<S>& baseline, const ProbeValues<S>& perturbed) {
     for (const ProbeSpec& probe : spec.probes) {
         H5Group g = root.group("probes/" + surface_group_name(probe.name));
         H5Shape shape(probe.shape.begin(), probe.shape.end()), shape3 = shape;
         shape3.push_back(3);
+        const std::vector<std::string> dims = probe_dimensions(g, spec, probe);
+        std::vector<std::string> dims3 = dims;
+        dims3.push_back(layout::kXyz);
+        xyz_coordinate(g);
         std::vector<double> position;
         std::vector<S> phi[3], field[3];
         for (std::size_t i = probe.first_point; i < probe.first_point + probe.point_count; ++i) {
@@ -42,12 +81,14 @@ void write_probes(H5Group& root, const CaseSpec& spec, const ProbeValues<S>& bas
                 field[2].push_back(perturbed.field[i][k] - baseline.field[i][k]);
             }
         }
-        g.write("position", position, shape3, "m", "probe point position");
+        g.write("position", position, shape3, "m", "probe point position").label_dimensions(dims3);
         const char* which[3] = {"baseline", "perturbed", "difference"};
         const char* what[3] = {"without the objects", "with the objects", "change caused by the objects"};
         for (int w = 0; w < 3; ++w) {
-            g.write(std::string(which[w]) + "_potential", phi[w], shape, "V", std::string("potential ") + what[w]);
-            g.write(std::string(which[w]) + "_field", field[w], shape3, "V m-1", std::string("electric field ") + what[w]);
+            g.write(std::string(which[w]) + "_potential", phi[w], shape, "V", std::string("potential ") + what[w])
+                .label_dimensions(dims);
+            g.write(std::string(which[w]) + "_field", field[w], shape3, "V m-1", std::string("electric field ") + what[w])
+                .label_dimensions(dims3);
         }
     }
 }

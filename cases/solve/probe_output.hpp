@@ -4,7 +4,9 @@
 //   /probes/<name>/position          (shape..., 3) m
 //   /probes/<name>/{baseline,perturbed,difference}_potential   (shape...) V
 //   /probes/<name>/{baseline,perturbed,difference}_field       (shape..., 3) V m-1
-// with the shape of each probe (point {1}, line {n}, grid {n_along, n_across}).
+// with the shape of each probe (point {1}, line {n}, grid {n_along, n_across}), over the
+// probe's coordinates in its group: point (index), or along (and across) in m from its
+// first point, and xyz.
 #include "cases/input/case_spec.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "solver/quadrature_options.hpp"

@@ -1,36 +1,39 @@
 #include "cases/solve/solve_output.hpp"
 
+#include "cases/output/result_layout.hpp"
 #include "cases/output/surface_output.hpp"
 
-#include <algorithm>
+#include <string>
+#include <vector>
 
 namespace murk {
 
 namespace {
 
+// The electrodes of one solution over the coordinate `electrode`, which holds their names
+// (also kept as the attribute electrode_names, comma-separated).
 template <class S>
-std::vector<S> to_vector(const Eigen::Matrix<S, Eigen::Dynamic, 1>& v) {
-    return std::vector<S>(v.data(), v.data() + v.size());
-}
-
-}  // namespace
-
-namespace {
-
-template <class S>
-void write_electrodes(H5Group& group, const std::vector<Electrode<S>>& electrodes, const std::vector<S>& potential,
+void write_electrodes(const H5Group& parent, const std::vector<Electrode<S>>& electrodes, const std::vector<S>& potential,
                       const std::vector<S>& current) {
+    using namespace layout;
     if (electrodes.empty()) return;
+    const H5Group group = parent.group(kElectrodes);
+    std::vector<std::string> labels;
     std::string names;
-    for (std::size_t i = 0; i < electrodes.size(); ++i) names += (i ? "," : "") + electrodes[i].name;
-    H5Dataset p = group.write("electrodes/potential", potential, "V", "electrode potential");
-    p.set_attribute("electrode_names", names);
-    H5Dataset c = group.write("electrodes/current", current, "A", "current from the electrode into the water");
-    c.set_attribute("electrode_names", names);
+    for (std::size_t i = 0; i < electrodes.size(); ++i) {
+        labels.push_back(electrodes[i].name);
+        names += (i ? "," : "") + electrodes[i].name;
+    }
+    group.write_label_coordinate(kElectrode, labels, "electrode name");
+    group.write(kPotential, potential, "V", "electrode potential")
+        .label_dimensions({kElectrode})
+        .set_attribute(kElectrodeNames, names);
+    group.write(kCurrent, current, "A", "current from the electrode into the water")
+        .label_dimensions({kElectrode})
+        .set_attribute(kElectrodeNames, names);
 }
 
 }  // namespace
-
 
 template <class S>
 void write_solve_result(H5Group root, const SolvedCase<S>& solved) {

@@ -3,6 +3,7 @@
 #include "cases/solve/solve_run.hpp"
 
 #include "cases/output/result_metadata.hpp"
+#include "cases/output/stop_request.hpp"
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
@@ -13,8 +14,11 @@
 #include "solver/memory_budget.hpp"
 
 #include <chrono>
+#include <cmath>
+#include <stdexcept>
 #include <cstdio>
 #include <filesystem>
+#include <string>
 
 namespace murk {
 
@@ -25,6 +29,22 @@ double seconds_since(Clock::time_point t) { return std::chrono::duration<double>
 
 double magnitude(double v) { return std::abs(v); }
 double magnitude(const Complex& v) { return std::abs(v); }
+
+// A value for the screen, with its sign where the sign means something: a real value as it
+// is (the -1 V of an emitter, the negative image of an insulator); a complex one as its
+// magnitude and phase.
+std::string value_text(double v, const char* unit, const char* format = "%.4g") {
+    char number[64];
+    std::snprintf(number, sizeof number, format, v);
+    return std::string(number) + " " + unit;
+}
+std::string value_text(const Complex& v, const char* unit, const char* format = "%.4g") {
+    double degrees = std::arg(v) * 180.0 / M_PI;
+    if (std::abs(degrees) < 0.05) degrees = 0;  // "+0.0", not "-0.0"
+    char phase[32];
+    std::snprintf(phase, sizeof phase, "%+.1f", degrees);
+    return "|" + value_text(std::abs(v), unit, format) + "| at phase " + phase + " deg";
+}
 
 struct StageTimes { double assemble = 0, solve = 0; };
 
@@ -64,54 +84,45 @@ void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const Stag
     if (body.kind == InterfaceKind::membrane) {
         const auto& before = solved.baseline_solution.surfaces[0];
         const auto& after = solved.perturbed_solution.surfaces[0];
-        double lo = 1e300, hi = 0, peak = 0;
+        const VectorX<S> base = before.inner_potential - before.outer_potential;
+        const VectorX<S> change = (after.inner_potential - after.outer_potential) - base;
         std::size_t at = 0;
-        for (Eigen::Index k = 0; k < before.outer_potential.size(); ++k) {
-            const double v = magnitude(before.inner_potential(k) - before.outer_potential(k));
-            lo = std::min(lo, v), hi = std::max(hi, v);
-            const double d = magnitude((after.inner_potential(k) - after.outer_potential(k)) -
-                                       (before.inner_potential(k) - before.outer_potential(k)));
-            if (d > peak) peak = d, at = static_cast<std::size_t>(k);
+        for (Eigen::Index k = 0; k < change.size(); ++k)
+            if (magnitude(change(k)) > magnitude(change(at))) at = static_cast<std::size_t>(k);
+        if constexpr (std::is_same_v<S, double>) {
+            std::printf("baseline transdermal voltage: %.4g .. %.4g V over the skin\n", base.minCoeff(), base.maxCoeff());
+        } else {
+            const Eigen::VectorXd size = base.cwiseAbs();
+            std::printf("baseline transdermal voltage |V|: %.4g .. %.4g V over the skin\n", size.minCoeff(), size.maxCoeff());
         }
         const Vec3 c = body.mesh.centroid(at);
-        std::printf("baseline transdermal voltage |V|: %.4g .. %.4g V over the skin\n", lo, hi);
-        std::printf("electric image: peak |change| %.4g V at panel %zu (%.4g, %.4g, %.4g) m\n", peak, at, c.x(), c.y(),
-                    c.z());
+        std::printf("electric image: peak change %s at panel %zu (%.4g, %.4g, %.4g) m\n",
+                    value_text(change(at), "V").c_str(), at, c.x(), c.y(), c.z());
     }
-    for (std::size_t e = 0; e < solved.baseline.electrodes.size(); ++e)
-        std::printf("electrode %-12s baseline %.6g V %.6g A; change %.4g V %.4g A\n",
-                    solved.baseline.electrodes[e].name.c_str(),
-                    magnitude(solved.baseline_solution.electrode_potential[e]),
-                    magnitude(solved.baseline_solution.electrode_current[e]),
-                    magnitude(solved.perturbed_solution.electrode_potential[e] - solved.baseline_solution.electrode_potential[e]),
-                    magnitude(solved.perturbed_solution.electrode_current[e] - solved.baseline_solution.electrode_current[e]));
+    for (std::size_t e = 0; e < solved.baseline.electrodes.size(); ++e) {
+        const S v = solved.baseline_solution.electrode_potential[e], i = solved.baseline_solution.electrode_current[e];
+        const S dv = solved.perturbed_solution.electrode_potential[e] - v;
+        const S di = solved.perturbed_solution.electrode_current[e] - i;
+        std::printf("electrode %-12s baseline %s, %s; change %s, %s\n", solved.baseline.electrodes[e].name.c_str(),
+                    value_text(v, "V", "%.6g").c_str(), value_text(i, "A", "%.6g").c_str(), value_text(dv, "V").c_str(),
+                    value_text(di, "A").c_str());
+    }
 }
 
-// Real-valued panel fields for the XDMF sidecar (ParaView reads real cell
-// data): per surface the magnitude of the water-side potential with the objects,
-// and on membranes the magnitude of the change of the transdermal voltage.
+// The sidecar's panel fields (cases/output/surface_output.hpp): per surface the water-side
+// potential with the objects, and on the sensing body's membranes the electric image.
 template <class S>
-std::vector<XdmfSurface> write_surface_magnitudes(H5Group& root, const SolvedCase<S>& solved) {
+std::vector<XdmfSurface> sidecar_surfaces(const H5Group& root, const SolvedCase<S>& solved) {
     std::vector<XdmfSurface> surfaces;
     for (std::size_t s = 0; s < solved.perturbed.surfaces.size(); ++s) {
         const Surface<S>& surface = solved.perturbed.surfaces[s];
         const std::string name = surface_group_name(surface.mesh.name);
-        const SurfaceSolution<S>& after = solved.perturbed_solution.surfaces[s];
         XdmfSurface x{"/mesh/" + name, surface.mesh.vertices.size(), surface.mesh.size(), {}};
-        std::vector<double> v;
-        for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k) v.push_back(magnitude(after.outer_potential(k)));
-        root.write("perturbed/" + name + "/outer_potential_magnitude", v, "V", "magnitude of the water-side potential");
-        x.cell_attributes.push_back({"|potential| (V)", "/perturbed/" + name + "/outer_potential_magnitude"});
-        if (s < solved.baseline.surfaces.size() && surface.kind == InterfaceKind::membrane) {
-            const SurfaceSolution<S>& before = solved.baseline_solution.surfaces[s];
-            v.clear();
-            for (Eigen::Index k = 0; k < after.outer_potential.size(); ++k)
-                v.push_back(magnitude((after.inner_potential(k) - after.outer_potential(k)) -
-                                      (before.inner_potential(k) - before.outer_potential(k))));
-            root.write("difference/" + name + "/transdermal_voltage_magnitude", v, "V",
-                       "magnitude of the change of the transdermal voltage (the electric image)");
-            x.cell_attributes.push_back({"electric image |dV| (V)", "/difference/" + name + "/transdermal_voltage_magnitude"});
-        }
+        x.cell_attributes = sidecar_fields(root.group("perturbed/" + name), "outer_potential", "potential", "panel");
+        if (s < solved.baseline.surfaces.size() && surface.kind == InterfaceKind::membrane)
+            for (XdmfAttribute& a : sidecar_fields(root.group("difference/" + name), "transdermal_voltage",
+                                                   "electric image dV", "panel"))
+                x.cell_attributes.push_back(a);
         surfaces.push_back(x);
     }
     return surfaces;
@@ -134,11 +145,28 @@ void require_memory_for(const Scene<S>& scene, double limit_bytes, const std::st
                      "imported mesh, or raise --memory-limit");
 }
 
+// Nothing that is not a number is written or summarized.
+template <class S>
+void require_finite(const Solution<S>& solution, const char* what) {
+    bool finite = true;
+    for (const SurfaceSolution<S>& s : solution.surfaces)
+        finite = finite && s.outer_potential.allFinite() && s.current_density.allFinite() && s.inner_potential.allFinite();
+    for (const S& v : solution.electrode_potential) finite = finite && std::isfinite(std::abs(v));
+    for (const S& v : solution.electrode_current) finite = finite && std::isfinite(std::abs(v));
+    if (!finite)
+        throw std::runtime_error(std::string("the solve of ") + what + " gave values that are not finite; the case's "
+                                 "quantities are out of the range the solver can represent");
+}
+
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
+    // Refuse an existing result or an unusable name before spending time on the
+    // solve; the file itself is created only when there is something to write, so
+    // a solve stopped by a signal leaves nothing behind.
     check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
-    H5Output output(options.output_path, options.force, "pass --force to replace it");
+    if (!options.force && std::filesystem::exists(options.output_path))
+        throw InputError(options.output_path + " exists; pass --force to replace it");
     const QuadratureOptions quad = quadrature_options(spec);
 
     SolvedCase<S> solved;
@@ -152,7 +180,11 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     StageTimes base, pert;
     solved.baseline_solution = solve_timed(solved.baseline, quad, base);
     solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
+    require_finite(solved.baseline_solution, "the baseline");
+    require_finite(solved.perturbed_solution, "the scene with its objects");
 
+    on_stop(OnStop::finish_work);  // a result is being written: a stop waits until it is complete
+    H5Output output(options.output_path, options.force, "pass --force to replace it");
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
     write_solve_result(output.root(), solved);
@@ -160,7 +192,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     const ProbeValues<S> probes_after = evaluate_probes(spec, solved.perturbed, solved.perturbed_solution, quad);
     H5Group root = output.root();
     write_probes(root, spec, probes_before, probes_after);
-    const std::vector<XdmfSurface> sidecar = write_surface_magnitudes(root, solved);
+    const std::vector<XdmfSurface> sidecar = sidecar_surfaces(root, solved);
     output.commit();
     if (!sidecar.empty())
         write_xdmf_sidecar(xdmf_sidecar_path(options.output_path),
@@ -172,11 +204,13 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
             unknowns += (s.kind == InterfaceKind::sealed ? 1 : 2) * s.mesh.size();
         print_summary(spec, solved, base, pert, unknowns + solved.perturbed.electrodes.size());
         for (const ProbeSpec& probe : spec.probes) {
-            double peak = 0;
-            for (std::size_t i = probe.first_point; i < probe.first_point + probe.point_count; ++i)
-                peak = std::max(peak, magnitude(probes_after.potential[i] - probes_before.potential[i]));
-            std::printf("probe %-12s %zu points, largest |change of potential| %.4g V\n", probe.name.c_str(),
-                        probe.point_count, peak);
+            S peak{};
+            for (std::size_t i = probe.first_point; i < probe.first_point + probe.point_count; ++i) {
+                const S change = probes_after.potential[i] - probes_before.potential[i];
+                if (magnitude(change) > magnitude(peak)) peak = change;
+            }
+            std::printf("probe %-12s %zu points, largest change of potential %s\n", probe.name.c_str(),
+                        probe.point_count, value_text(peak, "V").c_str());
         }
         std::printf("wrote %s%s%s\n", options.output_path.c_str(), sidecar.empty() ? "" : " and ",
                     sidecar.empty() ? "" : xdmf_sidecar_path(options.output_path).c_str());

@@ -48,7 +48,7 @@ void set_material(ObjectSpec& o, double sigma) {
 // with the conductivities the scene builder gave its surface.
 template <class S>
 std::optional<Matrix3<S>> closed_form_tensor(const MovingObject<S>& object) {
-    const ObjectSpec& o = object.spec;
+    const ObjectSpec& o = object.shape->spec;
     const ShapeSpec& shape = o.shape;
     if (o.membrane ||
         (shape.kind != ShapeKind::sphere && shape.kind != ShapeKind::spheroid && shape.kind != ShapeKind::ellipsoid))
@@ -57,11 +57,10 @@ std::optional<Matrix3<S>> closed_form_tensor(const MovingObject<S>& object) {
                                      ? Eigen::Vector3d::Constant(shape.radius_m)
                                      : Eigen::Vector3d(shape.semi_axes_m[0], shape.semi_axes_m[1], shape.semi_axes_m[2]);
     const Eigen::Matrix3d axes = orientation_matrix(o.orientation);
-    switch (o.material) {
+    switch (object.material) {
         case Material::conductor: return Matrix3<S>(conducting_ellipsoid_polarization(semi, axes).cast<S>());
         case Material::insulator: return ellipsoid_polarization<S>(semi, axes, S(0), object.water);
-        case Material::conducting:
-            return ellipsoid_polarization<S>(semi, axes, object.surface.inner_conductivity, object.water);
+        case Material::conducting: return ellipsoid_polarization<S>(semi, axes, object.inner_conductivity, object.water);
     }
     return std::nullopt;
 }
@@ -69,44 +68,70 @@ std::optional<Matrix3<S>> closed_form_tensor(const MovingObject<S>& object) {
 }  // namespace
 
 template <class S>
+Surface<S> MovingObject<S>::surface(const Vec3& offset, int electrode_index) const {
+    Surface<S> s;
+    s.mesh = shape->mesh;
+    translate(s.mesh, offset);
+    s.kind = kind;
+    s.inner_conductivity = inner_conductivity;
+    s.membrane_resistance = membrane_resistance;
+    if (kind == InterfaceKind::sealed) s.panel_electrode.assign(s.mesh.size(), electrode ? electrode_index : -1);
+    return s;
+}
+
+template <class S>
 MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : plan_(&plan) {
     const int size_axis = plan.axis(AxisKind::size), conductivity_axis = plan.axis(AxisKind::conductivity);
     sizes_ = size_axis >= 0 ? plan.axes[size_axis].values.size() : 1;
     conductivities_ = conductivity_axis >= 0 ? plan.axes[conductivity_axis].values.size() : 1;
     waters_ = plan.waters.size();
+    const double forms = double(plan.moving.size()) * double(sizes_) * double(conductivities_) * double(waters_);
+    if (forms > double(kMaxForms))
+        throw InputError(plan.where + ": the sweep gives the object " + std::to_string(std::size_t(forms)) +
+                         " forms (objects x sizes x conductivities x water conductivities), more than " +
+                         std::to_string(kMaxForms) + "; split it into several runs");
     for (std::size_t m : plan.moving) {
         const ObjectSpec& original = spec.objects[m];
         const double original_size = size_axis >= 0 ? size_of(original.shape) : 0.0;
         for (std::size_t z = 0; z < sizes_; ++z) {
-            ObjectSpec sized = original;
-            sized.position_m = {0.0, 0.0, 0.0};
+            auto shape = std::make_unique<ObjectShape>();
+            shape->spec = original;
+            shape->spec.position_m = {0.0, 0.0, 0.0};
             if (size_axis >= 0) {
                 const double factor = plan.axes[size_axis].values[z] / original_size;
-                scale_shape(sized.shape, factor);
-                if (sized.panel_size_m) *sized.panel_size_m *= factor;
+                scale_shape(shape->spec.shape, factor);
+                if (shape->spec.panel_size_m) *shape->spec.panel_size_m *= factor;
             }
-            const TriangleMesh mesh = object_mesh(spec, sized);  // once per shape and size
-            Vec3 centre = Vec3::Zero();
-            if (sized.shape.kind == ShapeKind::mesh) {
-                for (const Vec3& v : mesh.vertices) centre += v;
-                centre /= double(mesh.vertices.size());
+            shape->mesh = object_mesh(spec, shape->spec);  // once per shape and size
+            if (shape->spec.shape.kind == ShapeKind::mesh) {
+                for (const Vec3& v : shape->mesh.vertices) shape->centre += v;
+                shape->centre /= double(shape->mesh.vertices.size());
             }
-            double half_extent = 0;
-            for (const Vec3& v : mesh.vertices) half_extent = std::max(half_extent, (v - centre).norm());
+            for (const Vec3& v : shape->mesh.vertices)
+                shape->half_extent = std::max(shape->half_extent, (v - shape->centre).norm());
             for (std::size_t c = 0; c < conductivities_; ++c)
                 for (std::size_t w = 0; w < waters_; ++w) {
-                    auto form = std::make_unique<MovingObject<S>>();
-                    form->spec = sized;
-                    if (conductivity_axis >= 0) set_material(form->spec, plan.axes[conductivity_axis].values[c]);
+                    ObjectSpec material = shape->spec;
+                    if (conductivity_axis >= 0) set_material(material, plan.axes[conductivity_axis].values[c]);
+                    // The material as the scene builder makes it (a surface without panels):
+                    // the water decides whether a contrast is solved as its limit.
                     Scene<S> holder;
-                    add_object_surface(holder, spec, form->spec, mesh);
-                    form->surface = std::move(holder.surfaces.front());
+                    holder.water_conductivity = water_admittivity<S>(spec, plan.waters[w]);
+                    add_object_surface(holder, spec, material, TriangleMesh{});
+                    const Surface<S>& built = holder.surfaces.front();
+                    auto form = std::make_unique<MovingObject<S>>();
+                    form->shape = shape.get();
+                    form->kind = built.kind;
+                    form->inner_conductivity = built.inner_conductivity;
+                    form->membrane_resistance = built.membrane_resistance;
                     if (!holder.electrodes.empty()) form->electrode = holder.electrodes.front();
-                    form->water = water_admittivity<S>(spec, plan.waters[w]);
-                    form->centre = centre;
-                    form->half_extent = half_extent;
+                    form->material = built.kind != InterfaceKind::sealed ? Material::conducting
+                                     : form->electrode                   ? Material::conductor
+                                                                         : Material::insulator;
+                    form->water = holder.water_conductivity;
                     forms_.push_back(std::move(form));
                 }
+            shapes_.push_back(std::move(shape));
         }
     }
 }
@@ -142,13 +167,8 @@ std::shared_ptr<const MovingBlock<S>> MovingObjects<S>::block(const MovingObject
 template <class S>
 Scene<S> scene_with_object(const Scene<S>& fixed, const MovingObject<S>& object, const Vec3& offset) {
     Scene<S> scene = fixed;
-    Surface<S> surface = object.surface;
-    translate(surface.mesh, offset);
-    if (object.electrode) {
-        std::fill(surface.panel_electrode.begin(), surface.panel_electrode.end(), static_cast<int>(scene.electrodes.size()));
-        scene.electrodes.push_back(*object.electrode);
-    }
-    scene.surfaces.push_back(std::move(surface));
+    scene.surfaces.push_back(object.surface(offset, static_cast<int>(scene.electrodes.size())));
+    if (object.electrode) scene.electrodes.push_back(*object.electrode);
     return scene;
 }
 
@@ -156,13 +176,15 @@ template <class S>
 Scene<S> object_alone(const MovingObject<S>& object) {
     Scene<S> alone;
     alone.water_conductivity = object.water;
-    alone.surfaces.push_back(object.surface);
+    alone.surfaces.push_back(object.surface(Vec3::Zero(), 0));
     if (object.electrode) alone.electrodes.push_back(*object.electrode);
     return alone;
 }
 
 template class MovingObjects<double>;
 template class MovingObjects<Complex>;
+template struct MovingObject<double>;
+template struct MovingObject<Complex>;
 template Scene<double> scene_with_object(const Scene<double>&, const MovingObject<double>&, const Vec3&);
 template Scene<Complex> scene_with_object(const Scene<Complex>&, const MovingObject<Complex>&, const Vec3&);
 template Scene<double> object_alone(const MovingObject<double>&);

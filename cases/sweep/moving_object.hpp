@@ -18,15 +18,28 @@
 
 namespace murk {
 
-template <class S>
-struct MovingObject {
-    ObjectSpec spec;   // as at this form: resized, its material set, position at the origin
-    Surface<S> surface;  // mesh in the object's frame; a perfect conductor's panels name electrode 0
-    std::optional<Electrode<S>> electrode;  // a perfect conductor's floating electrode
-    S water{};           // water admittivity of this form
+// One shape and size of a moving object, meshed once.
+struct ObjectShape {
+    ObjectSpec spec;   // resized, its reference point at the origin, material as the case gives it
+    TriangleMesh mesh;  // in the object's frame
     Vec3 centre = Vec3::Zero();  // where the induced dipole sits, in the frame: the origin for
                                  // generated shapes, the mean vertex of an imported mesh
     double half_extent = 0;      // largest distance of a vertex from `centre` (m)
+};
+
+// A shape with its material in one water: what a point places.
+template <class S>
+struct MovingObject {
+    const ObjectShape* shape = nullptr;
+    Material material = Material::conducting;  // as solved: a contrast beyond the scene rules' limit
+                                               // is its limit (cases/scene/scene_rules.hpp)
+    InterfaceKind kind = InterfaceKind::contact;
+    S inner_conductivity{}, membrane_resistance{};
+    std::optional<Electrode<S>> electrode;  // a perfect conductor's floating electrode
+    S water{};                              // water admittivity of this form
+
+    // The surface in the frame, moved by `offset`; a conductor's panels name electrode `electrode_index`.
+    Surface<S> surface(const Vec3& offset, int electrode_index) const;
 
     // Computed once, on first use (thread-safe).
     mutable std::once_flag tensor_once, block_once;
@@ -37,9 +50,11 @@ struct MovingObject {
 template <class S>
 class MovingObjects {
 public:
-    // Meshes every (object, size) form of the plan once; an object that cannot be
-    // meshed at a size is an InputError naming its table.
+    // Meshes every (object, size) shape of the plan once; an object that cannot be
+    // meshed at a size is an InputError naming its table. Refuses a plan with more
+    // forms (objects x sizes x conductivities x waters) than kMaxForms.
     MovingObjects(const CaseSpec& spec, const SweepPlan& plan);
+    static constexpr std::size_t kMaxForms = 100000;
 
     // The form at a point (by its per-axis index).
     const MovingObject<S>& at(const std::vector<std::size_t>& index) const;
@@ -56,6 +71,7 @@ public:
 
 private:
     const SweepPlan* plan_;
+    std::vector<std::unique_ptr<ObjectShape>> shapes_;     // C order over (moving, size)
     std::vector<std::unique_ptr<MovingObject<S>>> forms_;  // C order over (moving, size, conductivity, water)
     std::size_t sizes_ = 1, conductivities_ = 1, waters_ = 1;
 };

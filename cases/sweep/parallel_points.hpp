@@ -3,7 +3,7 @@
 // exception escape the parallel region (which would end the process): the first
 // failure stops the other threads from starting new items and is rethrown once
 // all have returned. A stop request (stop_request.hpp) also stops new items.
-#include "cases/sweep/stop_request.hpp"
+#include "cases/output/stop_request.hpp"
 
 #include <atomic>
 #include <cstddef>

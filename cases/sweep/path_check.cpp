@@ -40,42 +40,48 @@ std::vector<std::size_t> path_check_sample(const PointRoutes<S>& routes, std::si
 }
 
 template <class S>
-PathCheck check_dipole_points(const PointRoutes<S>& routes, std::size_t count, const PointPath<S>& exact,
-                              const SweepBaselines<S>& baselines, const SweepFile<S>& file) {
+void check_dipole_points(const PointRoutes<S>& routes, std::size_t count, const std::vector<char>& share,
+                         const PointPath<S>& exact, const SweepBaselines<S>& baselines, PointJournal& journal) {
     const auto points = dipole_points(routes);
-    const std::vector<std::size_t> sample = path_check_sample(routes, count);
-    PathCheck check;
-    check.discrepancy.resize(sample.size());
-    for (std::size_t p : sample) {
-        check.points.push_back(static_cast<std::int64_t>(p));
-        check.size_to_distance.push_back(points.at(p)->size_to_distance);
-    }
-    std::mutex reading;
-    for_each_in_parallel(sample.size(), [&](std::size_t k) {
-        const PlacedPoint<S>& q = *points.at(sample[k]);
+    std::vector<char> checked(journal.header().points, 0);
+    for (const CheckRecord& c : journal.checks()) checked[c.point] = 1;
+    std::vector<std::size_t> todo;
+    for (std::size_t p : path_check_sample(routes, count))
+        if ((share.empty() || share[p]) && !checked[p]) todo.push_back(p);
+    std::mutex journal_lock;
+    for_each_in_parallel(todo.size(), [&](std::size_t k) {
+        const PlacedPoint<S>& q = *points.at(todo[k]);
         const std::vector<S> solved = exact.solve({q}).front().reading;
         const std::vector<S>& base = baselines.waters[q.water].readings;
-        std::vector<S> dipole;
-        {
-            std::lock_guard<std::mutex> lock(reading);
-            dipole = file.perturbation(q.point);
-        }
+        std::lock_guard<std::mutex> lock(journal_lock);
+        const std::vector<S> dipole = journal.template read<S>(q.point).change;
         double diff = 0, size = 0;
         for (std::size_t i = 0; i < solved.size(); ++i) {
             const S change = solved[i] - base[i];
             diff = std::max(diff, std::abs(dipole[i] - change));
             size = std::max(size, std::abs(change));
         }
-        check.discrepancy[k] = size > 0 ? diff / size : 0.0;
+        journal.append_check({q.point, size > 0 ? diff / size : 0.0, q.size_to_distance});
     });
-    return check;
+}
+
+PathCheck path_check_of(const PointJournal& journal) {
+    std::vector<CheckRecord> checks = journal.checks();
+    std::sort(checks.begin(), checks.end(), [](const CheckRecord& a, const CheckRecord& b) { return a.point < b.point; });
+    PathCheck c;
+    for (const CheckRecord& r : checks) {
+        c.points.push_back(std::int64_t(r.point));
+        c.discrepancy.push_back(r.discrepancy);
+        c.size_to_distance.push_back(r.size_to_distance);
+    }
+    return c;
 }
 
 template std::vector<std::size_t> path_check_sample(const PointRoutes<double>&, std::size_t);
 template std::vector<std::size_t> path_check_sample(const PointRoutes<Complex>&, std::size_t);
-template PathCheck check_dipole_points(const PointRoutes<double>&, std::size_t, const PointPath<double>&,
-                                       const SweepBaselines<double>&, const SweepFile<double>&);
-template PathCheck check_dipole_points(const PointRoutes<Complex>&, std::size_t, const PointPath<Complex>&,
-                                       const SweepBaselines<Complex>&, const SweepFile<Complex>&);
+template void check_dipole_points(const PointRoutes<double>&, std::size_t, const std::vector<char>&,
+                                  const PointPath<double>&, const SweepBaselines<double>&, PointJournal&);
+template void check_dipole_points(const PointRoutes<Complex>&, std::size_t, const std::vector<char>&,
+                                  const PointPath<Complex>&, const SweepBaselines<Complex>&, PointJournal&);
 
 }  // namespace murk

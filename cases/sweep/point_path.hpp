@@ -34,7 +34,7 @@ struct PlacedPoint {
     // stays, free source or probe point (NaN when not measured).
     double size_to_distance = std::numeric_limits<double>::quiet_NaN();
 
-    Vec3 centre() const { return offset + object->centre; }
+    Vec3 centre() const { return offset + object->shape->centre; }
 };
 
 template <class S>

@@ -1,6 +1,8 @@
 #include "cases/sweep/point_result.hpp"
 
 #include <cmath>
+#include <stdexcept>
+#include <string>
 
 namespace murk {
 
@@ -13,7 +15,14 @@ PointResult<S> computed_point(std::size_t point, const Vec3& centre, std::vector
     r.path = path;
     r.change = std::move(reading);
     const std::vector<S>& base = baselines.waters[water].readings;
-    for (std::size_t k = 0; k < r.change.size(); ++k) r.change[k] -= base[k];
+    for (std::size_t k = 0; k < r.change.size(); ++k) {
+        r.change[k] -= base[k];
+        // Nothing that is not a number is written: the run stops, keeping what is done.
+        if (!std::isfinite(std::abs(r.change[k])))
+            throw std::runtime_error("sweep point " + std::to_string(point) + " gave a value that is not finite at "
+                                     "sensor " + std::to_string(k) + "; the case's quantities are out of the range "
+                                     "the solver can represent");
+    }
     r.image = summarize_image(baselines.sensors, r.change);
     if (baselines.noise) {
         r.snr = detectability_index(baselines.noise->model, r.change, baselines.noise->receptors);

@@ -2,9 +2,12 @@
 
 #include "cases/detection/detectability.hpp"
 #include "cases/detection/falloff.hpp"
+#include "cases/output/result_layout.hpp"
 
 #include <cmath>
 #include <limits>
+#include <string>
+#include <type_traits>
 
 namespace murk {
 
@@ -28,7 +31,7 @@ Lines distance_lines(const std::vector<SweepAxis>& axes, int d) {
         if ((p / lines.stride) % lines.length == 0) lines.starts.push_back(p);
     for (std::size_t a = 0; a < axes.size(); ++a)
         if (int(a) != d) lines.other_shape.push_back(axes[a].values.size());
-    if (lines.other_shape.empty()) lines.other_shape.push_back(1);
+    // A sweep over distance alone has one line: its fit is a scalar (no dimensions).
     return lines;
 }
 
@@ -38,14 +41,26 @@ std::vector<double> gather(const std::vector<double>& values, const Lines& lines
     return out;
 }
 
-// Attaches the existing /sweep axis scales to a dataset laid out over `axes`
-// (skipping the axis `skip`).
-void attach_axes(H5Group& root, H5Dataset& d, const std::vector<SweepAxis>& axes, int skip) {
-    unsigned dim = 0;
-    for (std::size_t a = 0; a < axes.size(); ++a) {
-        if (int(a) == skip) continue;
-        d.attach_scale(root.dataset("sweep/" + axes[a].name), dim++);
+// Copies of the sweep axes as coordinates of `group`: netCDF-4 readers look for a
+// dimension's coordinate in the dataset's own group and its parents, never in a sibling such
+// as /sweep. The copy keeps the attributes that name the object axis's values.
+void copy_axes(const H5Group& root, const H5Group& group, const std::vector<SweepAxis>& axes) {
+    using namespace layout;
+    for (const SweepAxis& a : axes) {
+        const H5Dataset copy = group.write_coordinate(a.name, a.values, a.units, a.long_name);
+        const H5Dataset original = root.dataset(std::string(kSweep) + "/" + a.name);
+        if (original.has_attribute(kObjectNames)) copy.set_attribute(kObjectNames, original.string_attribute(kObjectNames));
+        if (original.has_attribute(kFlagValues))
+            copy.set_flags(original.double_array_attribute(kFlagValues), original.string_attribute(kFlagMeanings));
     }
+}
+
+// The names of `axes` but `skip`: the dimensions of a dataset over the other axes.
+std::vector<std::string> names_but(const std::vector<SweepAxis>& axes, int skip) {
+    std::vector<std::string> names;
+    for (std::size_t a = 0; a < axes.size(); ++a)
+        if (int(a) != skip) names.push_back(axes[a].name);
+    return names;
 }
 
 }  // namespace
@@ -80,15 +95,22 @@ void write_sweep_analysis(H5Group& root, const std::vector<SweepAxis>& axes, con
         exponent[l] = fit.exponent, error[l] = fit.exponent_std_error, from[l] = fit.fit_from_m, to[l] = fit.fit_to_m;
         r2[l] = fit.r_squared, used[l] = fit.n_points;
     }
-    H5Group falloff = root.group("falloff");
+    H5Group falloff = root.group(layout::kFalloff);
+    copy_axes(root, falloff, axes);
+    // Real results are NaN where they do not exist (no usable points, no crossing): marked as
+    // missing (_FillValue) for netCDF readers.
     auto put = [&](H5Group& g, const char* name, const auto& values, const H5Shape& shape, const char* units,
                    const char* long_name, int skip) {
         H5Dataset ds = g.write(name, values, shape, units, long_name);
-        if (!(skip >= 0 && axes.size() == 1)) attach_axes(root, ds, axes, skip);
+        ds.label_dimensions(names_but(axes, skip));
+        if constexpr (std::is_same_v<typename std::decay_t<decltype(values)>::value_type, double>) ds.set_fill_value(kNaN);
+        return ds;
     };
     put(falloff, "local_exponent", local, full, "1", "local exponent d ln(peak) / d ln(distance)", -1);
+    const FlagTable fourth_flags = flags_of<FourthPower>();
     put(falloff, "near_fourth_power", fourth, full, "1",
-        "1 where |local exponent + 4| <= 0.5 (fourth-power rule of thumb), 0 where not, 2 unknown", -1);
+        "whether |local exponent + 4| <= 0.5 (fourth-power rule of thumb)", -1)
+        .set_flags(fourth_flags.values, fourth_flags.meanings);
     put(falloff, "exponent", exponent, lines.other_shape, "1", "least-squares exponent over the far half of the usable distances (at least 3)", d);
     put(falloff, "exponent_std_error", error, lines.other_shape, "1", "standard error of the fitted exponent", d);
     put(falloff, "fit_from", from, lines.other_shape, "m", "nearest distance in the fit", d);
@@ -108,14 +130,20 @@ void write_sweep_analysis(H5Group& root, const std::vector<SweepAxis>& axes, con
         range[l] = r.status == RangeStatus::crossed ? r.range_m : kNaN;
         status[l] = std::uint8_t(r.status);
     }
-    H5Group det = root.group("detection");
+    H5Group det = root.group(layout::kDetection);
     det.set_attribute("probability_level", detection->probability_level);
     det.set_attribute("false_alarm_probability", detection->false_alarm_probability);
-    put(det, "range", range, lines.other_shape, "m",
+    std::vector<SweepAxis> others;
+    for (std::size_t a = 0; a < axes.size(); ++a)
+        if (int(a) != d) others.push_back(axes[a]);
+    copy_axes(root, det, others);
+    put(det, layout::kRange, range, lines.other_shape, "m",
         "distance at which the detection probability falls below the level (NaN: see status)", d);
-    put(det, "status", status, lines.other_shape, "1",
-        "1 crossed inside the sweep, 2 detectable at every distance swept (range beyond the sweep), "
-        "3 never detectable within the sweep, 0 no point computed", d);
+    const FlagTable status_flags = flags_of<RangeStatus>();
+    put(det, layout::kStatus, status, lines.other_shape, "1",
+        "where the detection probability crosses the level: inside the sweep, beyond it (detectable at every "
+        "distance swept), never (at no distance swept), or no point computed", d)
+        .set_flags(status_flags.values, status_flags.meanings);
 }
 
 }  // namespace murk

@@ -126,7 +126,7 @@ std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) 
 
 template <class S>
 SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, std::vector<Scene<S>> scenes,
-                                  const QuadratureOptions& quad) {
+                                  SensorLayout sensors, const QuadratureOptions& quad) {
     SweepBaselines<S> out;
     const SweepMethod method = plan.sweep.method;
     const bool dipoles = method == SweepMethod::dipole || method == SweepMethod::automatic;
@@ -144,7 +144,7 @@ SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, s
         }
         out.waters.push_back(std::move(w));
     }
-    out.sensors = sensor_layout(spec, out.waters.front().scene(), plan.where);
+    out.sensors = std::move(sensors);
     for (WaterBaseline<S>& w : out.waters) {
         w.readings = sensor_readings(out.sensors, w.scene(), w.solution, quad);
         if (dipoles && !out.sensors.skin && !out.sensors.probes && out.sensors.size() <= kLeadFieldSensors)
@@ -157,8 +157,8 @@ SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, s
 template std::vector<Scene<double>> fixed_scenes(const CaseSpec&, const SweepPlan&);
 template std::vector<Scene<Complex>> fixed_scenes(const CaseSpec&, const SweepPlan&);
 template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<double>>,
-                                                const QuadratureOptions&);
+                                                SensorLayout, const QuadratureOptions&);
 template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<Complex>>,
-                                                 const QuadratureOptions&);
+                                                 SensorLayout, const QuadratureOptions&);
 
 }  // namespace murk

@@ -52,17 +52,17 @@ template <class S>
 std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan);
 
 // Assembles and factors each fixed scene (solves it, for method "full"), and
-// reads the sensors. Refuses (InputError, naming the case line) sensors that
-// cannot be read and noise models that do not fit the sensors.
+// reads the sensors (sensor_layout of the first scene). Refuses (InputError,
+// naming the case line) noise models that do not fit the sensors.
 template <class S>
 SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, std::vector<Scene<S>> scenes,
-                                  const QuadratureOptions& quad);
+                                  SensorLayout sensors, const QuadratureOptions& quad);
 
 extern template std::vector<Scene<double>> fixed_scenes(const CaseSpec&, const SweepPlan&);
 extern template std::vector<Scene<Complex>> fixed_scenes(const CaseSpec&, const SweepPlan&);
 extern template SweepBaselines<double> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<double>>,
-                                                       const QuadratureOptions&);
+                                                       SensorLayout, const QuadratureOptions&);
 extern template SweepBaselines<Complex> solve_baselines(const CaseSpec&, const SweepPlan&, std::vector<Scene<Complex>>,
-                                                        const QuadratureOptions&);
+                                                        SensorLayout, const QuadratureOptions&);
 
 }  // namespace murk

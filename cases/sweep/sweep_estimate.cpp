@@ -19,7 +19,7 @@ SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S
     for (std::size_t k = 0; k < objects.size(); ++k) {
         const MovingObject<S>& o = objects.form(k);
         sizes.moving_unknowns = std::max(sizes.moving_unknowns, std::size_t(system_layout(object_alone(o)).size));
-        sizes.moving_panels = std::max(sizes.moving_panels, o.surface.mesh.size());
+        sizes.moving_panels = std::max(sizes.moving_panels, o.shape->mesh.size());
     }
     return sizes;
 }
@@ -48,7 +48,7 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
     e.points_seconds = work / double(cost.rates.threads);
     CostModel held = cost;
     if (method == SweepMethod::full) held.sizes.waters = 0;  // nothing factored is kept, a system per thread
-    e.memory_bytes = held.memory_bytes(!routes.exact.empty(), !routes.full.empty());
+    e.memory_bytes = held.memory_bytes(!routes.exact.empty(), !routes.full.empty()) + kBytesPerPoint * double(plan.total);
     return e;
 }
 
@@ -98,6 +98,14 @@ void require_memory(const SweepEstimate& e, double limit_bytes, const std::strin
                      " panels), more than the " + memory_text(limit_bytes) +
                      " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
                      "imported mesh, or raise --memory-limit");
+}
+
+void require_point_memory(std::size_t points, double limit_bytes, const std::string& where) {
+    const double bytes = kBytesPerPoint * double(points);
+    if (bytes <= limit_bytes) return;
+    throw InputError(where + ": the sweep has " + std::to_string(points) + " points, whose bookkeeping alone needs " +
+                     memory_text(bytes) + ", more than the " + memory_text(limit_bytes) +
+                     " it may use; split it into several runs or fewer axis values");
 }
 
 template SweepSizes sweep_sizes(const std::vector<Scene<double>>&, const MovingObjects<double>&, const SweepPlan&);

@@ -32,4 +32,12 @@ std::string format_estimate(const SweepEstimate& e);
 // the unknowns and what to change.
 void require_memory(const SweepEstimate& e, double limit_bytes, const std::string& where);
 
+// Bytes a run keeps per point while it places and routes them (placement, path,
+// status), counted in the estimate's memory.
+inline constexpr double kBytesPerPoint = 160;
+
+// Refuses (InputError) a sweep whose points alone would not fit in `limit_bytes`,
+// before anything is placed.
+void require_point_memory(std::size_t points, double limit_bytes, const std::string& where);
+
 }  // namespace murk

@@ -1,14 +1,20 @@
 #include "cases/sweep/sweep_output.hpp"
 
+#include "cases/output/coordinates.hpp"
+#include "cases/output/result_layout.hpp"
 #include "cases/output/result_metadata.hpp"
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
+#include "cases/sweep/path_check.hpp"
+#include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "geometry/input_error.hpp"
 
 #include <algorithm>
 #include <filesystem>
+#include <limits>
+#include <optional>
 
 namespace murk {
 
@@ -72,61 +78,11 @@ double PathCheck::largest() const {
 
 template <class S>
 SweepFile<S>::SweepFile(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
-                        const SweepBaselines<S>& baselines, H5Output output)
-    : spec_(&spec), options_(options), plan_(&plan), baselines_(&baselines), output_(std::move(output)),
-      partial_(H5Output::partial_path(options.output_path)), mask_count_(kMaskReasonCount, 0) {}
-
-template <class S>
-SweepFile<S>::SweepFile(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
                         const SweepBaselines<S>& baselines)
-    : SweepFile(spec, options, plan, baselines, [&] {
-          check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
-          const std::string partial = H5Output::partial_path(options.output_path);
-          if (!options.force && std::filesystem::exists(partial))
-              throw InputError(partial + " holds the points of an interrupted run; pass --resume to finish it, "
-                                         "or --force to start over");
-          return H5Output(options.output_path, options.force, kExistsHint);
-      }()) {
+    : spec_(&spec), options_(options), plan_(&plan), baselines_(&baselines) {
+    check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
+    output_.emplace(options.output_path, options.force, kExistsHint, writing_path(options.output_path));
     create_datasets();
-}
-
-template <class S>
-SweepFile<S> SweepFile<S>::resume(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
-                                  const SweepBaselines<S>& baselines) {
-    SweepFile file(spec, options, plan, baselines, H5Output::resume(options.output_path, options.force, kExistsHint));
-    try {
-        H5Group root = file.output_->root();
-        if (root.string_attribute("case_sha256") != sha256_hex(spec.text))
-            throw InputError(file.partial_ + ": was started from a different case file; refusing to resume it with " +
-                             spec.path);
-        if (!root.exists("sweep/path") || !root.exists("sweep/mask_reason"))
-            throw InputError(file.partial_ +
-                             ": was written by an earlier murk that did not record each point's path and mask "
-                             "reason; start over with --force");
-        for (std::uint8_t s : root.read<std::uint8_t>("sweep/status").values) file.status_.push_back(PointStatus(s));
-        for (std::uint8_t p : root.read<std::uint8_t>("sweep/path").values) file.path_.push_back(PathCode(p));
-        if (file.status_.size() != plan.total || file.path_.size() != plan.total)
-            throw InputError(file.partial_ + ": holds " + std::to_string(file.status_.size()) +
-                             " points, the case sweeps " + std::to_string(plan.total) + "; start over with --force");
-        file.count_masks();
-    } catch (...) {
-        file.output_->suspend();  // not ours to delete: the partial file keeps its finished points
-        throw;
-    }
-    return file;
-}
-
-template <class S>
-void SweepFile<S>::count_masks() {
-    const std::vector<std::uint8_t> reasons = output_->root().read<std::uint8_t>("sweep/mask_reason").values;
-    for (std::size_t p = 0; p < reasons.size(); ++p)
-        if (status_[p] == PointStatus::masked && reasons[p] < kMaskReasonCount) ++mask_count_[reasons[p]];
-}
-
-template <class S>
-std::size_t SweepFile<S>::finished() const {
-    return std::size_t(std::count_if(status_.begin(), status_.end(),
-                                     [](PointStatus s) { return s != PointStatus::not_computed; }));
 }
 
 template <class S>
@@ -141,6 +97,10 @@ void SweepFile<S>::create_datasets() {
     root.set_attribute("sweep_method", std::string(method_name(plan.sweep.method)));
     if (plan.sweep.method != SweepMethod::full) root.set_attribute("coupling_tolerance", plan.sweep.coupling_tolerance);
     if (plan.sweep.method == SweepMethod::automatic) root.set_attribute("dipole_accuracy", plan.sweep.dipole_accuracy);
+    if (options_.share_count > 1) {  // a part of a job array: which share it holds (murk merge checks)
+        root.set_attribute("share_index", std::int64_t(options_.share_index + 1));
+        root.set_attribute("share_count", std::int64_t(options_.share_count));
+    }
     if (!sensors.probes) {
         const Surface<S>& body = base.waters.front().scene().surfaces.front();
         const std::string body_name = surface_group_name(body.mesh.name);
@@ -148,17 +108,31 @@ void SweepFile<S>::create_datasets() {
         write_mesh(root.group("mesh/" + body_name), body.mesh);
         write_surface_values(root.group("baseline/" + body_name), body, base.waters.front().solution.surfaces.front());
     }
-    H5Group sweep = root.group("sweep");
-    std::vector<H5Dataset> scales;
+    // Every dimension of /sweep is a coordinate in /sweep (cases/output/coordinates.hpp).
+    using namespace layout;
+    H5Group sweep = root.group(kSweep);
+    std::vector<std::string> axis_names;
+    std::string axes_attribute;
     for (const SweepAxis& a : plan.axes) {
-        H5Dataset d = sweep.write(a.name, a.values, a.units, a.long_name);
-        d.make_scale(a.name);
-        scales.push_back(d);
+        sweep.write_coordinate(a.name, a.values, a.units, a.long_name);
+        axis_names.push_back(a.name);
+        axes_attribute += (axes_attribute.empty() ? "" : " ") + a.name;
     }
+    // The axes in their order: what a reader (murk merge) needs to rebuild the point index.
+    sweep.set_attribute("axes", axes_attribute);
     if (!plan.sweep.objects.empty()) {
-        std::string names;
-        for (std::size_t k = 0; k < plan.sweep.objects.size(); ++k) names += (k ? "," : "") + plan.sweep.objects[k];
-        sweep.dataset("object").set_attribute("object_names", names);
+        // The object axis holds indices into object_names; as CF flags, xarray and ncdump show the names.
+        std::string names, words;
+        std::vector<double> codes;
+        for (std::size_t k = 0; k < plan.sweep.objects.size(); ++k) {
+            names += (k ? "," : "") + plan.sweep.objects[k];
+            std::string word = plan.sweep.objects[k];
+            std::replace(word.begin(), word.end(), ' ', '_');
+            words += (k ? " " : "") + word;
+            codes.push_back(double(k));
+        }
+        sweep.dataset("object").set_attribute(kObjectNames, names);
+        sweep.dataset("object").set_flags(codes, words);
     }
     if (plan.sweep.grid) {
         H5Dataset u = sweep.dataset("grid_u");
@@ -167,81 +141,81 @@ void SweepFile<S>::create_datasets() {
         u.set_attribute("grid_u_direction", v3(plan.sweep.grid->u_direction));
         u.set_attribute("grid_v_direction", v3(plan.sweep.grid->v_direction));
     }
-    std::vector<std::int32_t> sensor_index(sensors.size());
-    for (std::size_t k = 0; k < sensor_index.size(); ++k) sensor_index[k] = static_cast<std::int32_t>(k);
-    H5Dataset sensor = sweep.write("sensor", sensor_index, "1",
-                                   sensors.skin ? "skin panel index"
-                                                : sensors.probes ? "probe point index" : "sensor electrode index");
-    sensor.make_scale("sensor");
-    if (sensors.skin && base.noise)
-        sweep.write("receptors", base.noise->receptors, "1", "receptors on each skin panel (density times area)");
-    if (sensors.probes) {
-        std::vector<double> xyz;
-        for (const Vec3& x : sensors.position) xyz.insert(xyz.end(), {x.x(), x.y(), x.z()});
-        sweep.write("sensor_position", xyz, {hsize_t(sensors.size()), 3}, "m", "probe point position");
-    }
+    index_coordinate(sweep, kSensor, sensors.size(),
+                     sensors.skin ? "skin panel index" : sensors.probes ? "probe point index" : "sensor electrode index");
+    xyz_coordinate(sweep);
     if (!sensors.skin) {
         std::string names;
         for (std::size_t k = 0; k < sensors.names.size(); ++k) names += (k ? "," : "") + sensors.names[k];
-        sensor.set_attribute("sensor_names", names);
+        sweep.dataset(kSensor).set_attribute(kSensorNames, names);
     }
-    scales.push_back(sensor);
+    if (sensors.skin && base.noise)
+        sweep.write("receptors", base.noise->receptors, "1", "receptors on each skin panel (density times area)")
+            .label_dimensions({kSensor});
+    if (sensors.probes) {
+        std::vector<double> xyz;
+        for (const Vec3& x : sensors.position) xyz.insert(xyz.end(), {x.x(), x.y(), x.z()});
+        sweep.write("sensor_position", xyz, {hsize_t(sensors.size()), 3}, "m", "probe point position")
+            .label_dimensions({kSensor, kXyz});
+    }
+    // Without a water_conductivity axis, the baseline's one water conductivity is a coordinate
+    // of its own, so that baseline_reading has the same dimensions either way.
+    if (plan.axis(AxisKind::water_conductivity) < 0)
+        sweep.write_coordinate(kWater, plan.waters, "S m-1", "conductivity of the water");
     std::vector<std::vector<S>> readings;
     for (const WaterBaseline<S>& w : base.waters) readings.push_back(w.readings);
     sweep.write("baseline_reading", flatten(readings), {hsize_t(readings.size()), hsize_t(sensors.size())},
                 sensors.units,
                 sensors.skin ? "baseline transdermal voltage per skin panel, per water conductivity"
-                             : "baseline sensor reading, per water conductivity");
+                             : "baseline sensor reading, per water conductivity")
+        .label_dimensions({kWater, kSensor});
 
     const std::vector<std::size_t>& shape = plan.shape;
     const H5Layout chunked = H5Layout::compressed(4);
     const std::string kind = sensors.skin ? "transdermal voltage" : "sensor reading";
-    auto attach = [&](H5Dataset d, bool sensor_dim) {
-        for (std::size_t a = 0; a < plan.axes.size(); ++a) d.attach_scale(scales[a], unsigned(a));
-        if (sensor_dim) d.attach_scale(scales.back(), unsigned(plan.axes.size()));
+    std::vector<std::string> with_sensor = axis_names, with_xyz = axis_names;
+    with_sensor.push_back(kSensor);
+    with_xyz.push_back(kXyz);
+    // A per-point dataset, filled with "not computed" (NaN, or the given code) until its point is written.
+    auto per_point = [&](auto zero, const char* name, const H5Shape& dataset_shape, const std::string& units,
+                         const std::string& long_name, const H5Layout& layout, const std::vector<std::string>& dims,
+                         std::optional<decltype(zero)> fill = std::nullopt) {
+        H5Dataset d = sweep.create_filled<decltype(zero)>(name, dataset_shape, units, long_name, layout, fill);
+        d.label_dimensions(dims);
+        return d;
     };
-    attach(sweep.create_extendible<std::uint8_t>("status", with(shape), "1",
-                                                 "0 not computed, 1 computed, 2 masked (the object had no valid "
-                                                 "place, see mask_reason)", chunked), false);
-    attach(sweep.create_extendible<std::uint8_t>("mask_reason", with(shape), "1",
-                                                 "why a point is masked: 0 not masked, 1 touches the body, 2 touches "
-                                                 "an object that does not move, 3 reaches through the plane, 4 "
-                                                 "clearance not reachable along the direction, 5 too near a source "
-                                                 "or probe point", chunked), false);
+    const auto coded = [&](const char* name, const std::string& long_name, const FlagTable& flags) {
+        per_point(std::uint8_t{}, name, with(shape), "1", long_name, chunked, axis_names).set_flags(flags.values, flags.meanings);
+    };
+    coded(kStatus, "what happened at the point (see mask_reason for masked points)", flags_of<PointStatus>());
+    coded(kMaskReason, "why the point is masked: the object had no valid place", flags_of<MaskReason>());
     // One chunk per point: a point's values are written (and compressed) once,
     // never by reading back and recompressing a chunk shared with other points.
     H5Shape one_point(shape.size(), 1);
     one_point.push_back(hsize_t(sensors.size()));
-    attach(sweep.create_extendible<S>("perturbation", with(shape, {hsize_t(sensors.size())}), sensors.units,
-                                      "change of the " + kind + " caused by the object",
-                                      H5Layout::compressed(4, one_point)), true);
-    attach(sweep.create_extendible<double>("peak_perturbation", with(shape), sensors.units,
-                                           "largest magnitude of the change over the sensors", chunked), false);
-    attach(sweep.create_extendible<std::int32_t>("peak_sensor", with(shape), "1",
-                                                 "sensor index of the peak (-1 where masked)", chunked), false);
-    attach(sweep.create_extendible<double>("peak_position", with(shape, {3}), "m", "position of the peak sensor",
-                                           chunked), false);
-    attach(sweep.create_extendible<double>("object_position", with(shape, {3}), "m", "object centre", chunked), false);
+    per_point(S{}, "perturbation", with(shape, {hsize_t(sensors.size())}), sensors.units,
+              "change of the " + kind + " caused by the object", H5Layout::compressed(4, one_point), with_sensor);
+    per_point(double{}, kPeakPerturbation, with(shape), sensors.units, "largest magnitude of the change over the sensors",
+              chunked, axis_names);
+    // -1 (no sensor) until written, and for masked points: 0 is a sensor.
+    per_point(std::int32_t{}, "peak_sensor", with(shape), "1", "sensor index of the peak (-1 where masked or not computed)",
+              chunked, axis_names, std::optional<std::int32_t>(-1));
+    per_point(double{}, "peak_position", with(shape, {3}), "m", "position of the peak sensor", chunked, with_xyz);
+    per_point(double{}, "object_position", with(shape, {3}), "m", "object centre", chunked, with_xyz);
     if (sensors.skin)
-        attach(sweep.create_extendible<double>("image_width", with(shape), "m",
-                                               "full width at half maximum of the electric image along the body axis "
-                                               "(resolution: one panel)", chunked), false);
+        per_point(double{}, "image_width", with(shape), "m",
+                  "full width at half maximum of the electric image along the body axis (resolution: one panel)",
+                  chunked, axis_names);
     if (base.noise) {
-        attach(sweep.create_extendible<double>("snr", with(shape), "1",
-                                               "ideal-observer signal-to-noise ratio d' (amplitude)", chunked), false);
-        H5Dataset pd = sweep.create_extendible<double>("detection_probability", with(shape), "1",
-                                                       "Neyman-Pearson detection probability", chunked);
+        per_point(double{}, "snr", with(shape), "1", "ideal-observer signal-to-noise ratio d' (amplitude)", chunked,
+                  axis_names);
+        H5Dataset pd = per_point(double{}, "detection_probability", with(shape), "1",
+                                 "Neyman-Pearson detection probability", chunked, axis_names);
         pd.set_attribute("probability_level", base.noise->probability_level);
         pd.set_attribute("false_alarm_probability", base.noise->false_alarm_probability);
-        attach(pd, false);
     }
-    attach(sweep.create_extendible<std::uint8_t>("path", with(shape), "1",
-                                                 "path that computed the point: 0 none (masked or not computed), 1 exact "
-                                                 "(factored body, coupled object), 2 induced dipole, 3 full re-solve",
-                                                 chunked), false);
+    coded(kPath, "path that computed the point", flags_of<PathCode>());
     status_.assign(plan.total, PointStatus::not_computed);
-    path_.assign(plan.total, PathCode::none);
-    output_->file().flush();
 }
 
 template <class S>
@@ -256,7 +230,6 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
         write_at(sweep, "peak_sensor", index, {}, std::vector<std::int32_t>{-1});
         write_at(sweep, "mask_reason", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.mask)});
         status = PointStatus::masked;
-        ++mask_count_[static_cast<int>(r.mask)];
     } else {
         const Vec3 c = r.centre;
         write_at(sweep, "object_position", index, {3}, std::vector<double>{c.x(), c.y(), c.z()});
@@ -272,110 +245,70 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
         }
     }
     status_[r.point] = status;
-    path_[r.point] = r.path;
     write_at(sweep, "path", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.path)});
-    // The status is written last and flushed: a point counts as done only once
-    // all its values are on disk.
     write_at(sweep, "status", index, {}, std::vector<std::uint8_t>{std::uint8_t(status)});
-    output_->file().flush();
 }
 
 template <class S>
-std::vector<S> SweepFile<S>::perturbation(std::size_t point) const {
-    const std::vector<std::size_t> index = plan_->index_of(point);
-    H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-    offset.push_back(0), count.push_back(baselines_->sensors.size());
-    return output_->root().dataset("sweep/perturbation").template read_slab<S>(offset, count);
+void SweepFile<S>::set_history(const std::vector<std::string>& lines) {
+    std::string text;
+    for (const std::string& line : lines) text += (text.empty() ? "" : "\n") + line;
+    if (!text.empty()) output_->root().set_attribute("history", text);
 }
 
-template <class S>
-std::optional<PathCheck> SweepFile<S>::path_check() const {
-    H5Group root = output_->root();
-    if (!root.exists("sweep/path_check")) return std::nullopt;
-    PathCheck c;
-    c.points = root.read<std::int64_t>("sweep/path_check/point").values;
-    c.discrepancy = root.read<double>("sweep/path_check/discrepancy").values;
-    c.size_to_distance = root.read<double>("sweep/path_check/size_to_distance").values;
-    return c;
+void write_path_check(const H5Group& root, const PathCheck& c, std::optional<double> accuracy_target) {
+    using layout::kCheckPoint;
+    H5Group check = root.group(std::string(layout::kSweep) + "/" + layout::kPathCheck);
+    // The checked points' flat indices are the coordinate of the group's one dimension.
+    check.write_coordinate(kCheckPoint, c.points, "1",
+                           "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
+    H5Dataset d = check.write(layout::kDiscrepancy, c.discrepancy, "1",
+                              "max over sensors |dipole - exact| / max over sensors |exact| at that point");
+    d.label_dimensions({kCheckPoint});
+    check.write("size_to_distance", c.size_to_distance, "1",
+                "object half-extent / distance of its centre from the nearest surface that stays, source or probe")
+        .label_dimensions({kCheckPoint})
+        .set_fill_value(std::numeric_limits<double>::quiet_NaN());
+    d.set_attribute("max_discrepancy", c.largest());
+    if (accuracy_target) d.set_attribute("accuracy_target", *accuracy_target);
 }
 
 template <class S>
 void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) {
-    H5Group check = output_->root().group("sweep/path_check");
-    check.write("point", c.points, "1", "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
-    H5Dataset d = check.write("discrepancy", c.discrepancy, "1",
-                              "max over sensors |dipole - exact| / max over sensors |exact| at that point");
-    check.write("size_to_distance", c.size_to_distance, "1",
-                "object half-extent / distance of its centre from the body (NaN: computed by an earlier, "
-                "interrupted run)");
-    d.set_attribute("max_discrepancy", c.largest());
-    if (sweep.method == SweepMethod::automatic) d.set_attribute("accuracy_target", sweep.dipole_accuracy);
-}
-
-// Real-valued panel fields of the body for the XDMF sidecar (ParaView reads real
-// cell data): the baseline and, for a fish, the electric image at the point
-// with the largest peak.
-template <class S>
-std::vector<XdmfAttribute> write_surface_magnitudes(H5Group& root, const SweepPlan& plan, const SweepBaselines<S>& base,
-                                                    const std::vector<PointStatus>& status) {
-    const Surface<S>& body = base.waters.front().scene().surfaces.front();
-    const SurfaceSolution<S>& values = base.waters.front().solution.surfaces.front();
-    const std::string group = "/baseline/" + surface_group_name(body.mesh.name);
-    std::vector<XdmfAttribute> fields;
-    std::vector<double> v;
-    for (Eigen::Index k = 0; k < values.outer_potential.size(); ++k) v.push_back(std::abs(values.outer_potential(k)));
-    root.write(group + "/outer_potential_magnitude", v, "V", "magnitude of the baseline water-side potential");
-    fields.push_back({"baseline |potential| (V)", group + "/outer_potential_magnitude"});
-    if (!base.sensors.skin) return fields;
-    v.clear();
-    for (Eigen::Index k = 0; k < values.outer_potential.size(); ++k)
-        v.push_back(std::abs(values.inner_potential(k) - values.outer_potential(k)));
-    root.write(group + "/transdermal_voltage_magnitude", v, "V", "magnitude of the baseline transdermal voltage");
-    fields.push_back({"baseline |transdermal voltage| (V)", group + "/transdermal_voltage_magnitude"});
-
-    const std::vector<double> peak = root.read<double>("sweep/peak_perturbation").values;
-    std::size_t best = plan.total;
-    for (std::size_t p = 0; p < plan.total; ++p)
-        if (status[p] == PointStatus::computed && (best == plan.total || peak[p] > peak[best])) best = p;
-    if (best == plan.total) return fields;
-    const std::vector<std::size_t> index = plan.index_of(best);
-    H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
-    offset.push_back(0), count.push_back(base.sensors.size());
-    const std::vector<S> image = root.dataset("sweep/perturbation").read_slab<S>(offset, count);
-    v.clear();
-    for (const S& x : image) v.push_back(std::abs(x));
-    H5Dataset strongest = root.write("sweep/strongest_image", v, "V",
-                                     "magnitude of the electric image at the sweep point with the largest peak");
-    strongest.set_attribute("point", static_cast<std::int64_t>(best));
-    fields.push_back({"strongest electric image |dV| (V)", "/sweep/strongest_image"});
-    return fields;
+    murk::write_path_check(output_->root(), c,
+                     sweep.method == SweepMethod::automatic ? std::optional<double>(sweep.dipole_accuracy) : std::nullopt);
 }
 
 template <class S>
-void SweepFile<S>::commit(double peak_memory_MiB) {
-    const SweepPlan& plan = *plan_;
-    const SweepBaselines<S>& base = *baselines_;
+void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
     H5Group root = output_->root();
-    write_sweep_analysis(root, plan.axes, spec_->detection);
-    const std::vector<XdmfAttribute> fields =
-        base.sensors.probes ? std::vector<XdmfAttribute>{} : write_surface_magnitudes(root, plan, base, status_);
+    const std::vector<XdmfSurface> surfaces = whole ? finish_result(root) : std::vector<XdmfSurface>{};
     root.set_attribute("peak_memory_MiB", peak_memory_MiB);
     output_->commit();
-    if (base.sensors.probes) {  // no surface to show
-        if (!options_.quiet) std::printf("wrote %s (%zu points)\n", options_.output_path.c_str(), plan.total);
-        return;
-    }
-    const Surface<S>& body = base.waters.front().scene().surfaces.front();
-    const std::string h5_name = std::filesystem::path(options_.output_path).filename().string();
-    write_xdmf_sidecar(xdmf_sidecar_path(options_.output_path), h5_name,
-                       {{"/mesh/" + surface_group_name(body.mesh.name), body.mesh.vertices.size(), body.mesh.size(),
-                         fields}});
+    write_result_sidecar(options_.output_path, surfaces);
     if (!options_.quiet)
-        std::printf("wrote %s (%zu points) and %s\n", options_.output_path.c_str(), plan.total,
-                    xdmf_sidecar_path(options_.output_path).c_str());
+        std::printf("wrote %s (%zu points)%s%s\n", options_.output_path.c_str(), plan_->total,
+                    surfaces.empty() ? "" : " and ", surfaces.empty() ? "" : xdmf_sidecar_path(options_.output_path).c_str());
+}
+
+template <class S>
+void write_result_from_journal(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
+                               const SweepBaselines<S>& baselines, const PointJournal& journal,
+                               double peak_memory_MiB) {
+    SweepFile<S> file(spec, options, plan, baselines);
+    file.set_history(journal.history());
+    for (std::size_t p = 0; p < plan.total; ++p)
+        if (journal.has(p)) file.write_point(journal.template read<S>(p));
+    // In point order, as a run that was never interrupted lists them.
+    if (!journal.checks().empty()) file.write_path_check(path_check_of(journal), plan.sweep);
+    file.commit(peak_memory_MiB, journal.header().share_count == 1);
 }
 
 template class SweepFile<double>;
 template class SweepFile<Complex>;
+template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
+                                        const SweepBaselines<double>&, const PointJournal&, double);
+template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
+                                        const SweepBaselines<Complex>&, const PointJournal&, double);
 
 }  // namespace murk

@@ -45,7 +45,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
     for_each_in_parallel(plan.total, [&](std::size_t p) {
         const std::vector<std::size_t> index = plan.index_of(p);
         const MovingObject<S>& object = objects.at(index);
-        const Placement where = placement.place(index, object.surface.mesh);
+        const Placement where = placement.place(index, object.shape->mesh);
         mask[p] = where.mask;
         if (where.mask != MaskReason::none) return;
         PlacedPoint<S>& q = placed[p];
@@ -53,7 +53,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
         q.water = plan.water_of(index);
         q.object = &object;
         q.offset = where.offset;
-        if (measure) q.size_to_distance = object.half_extent / placement.distance_to_fixed(q.centre());
+        if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre());
     });
     PointRoutes<S> routes;
     std::vector<std::vector<PlacedPoint<S>>> dipoles(plan.waters.size());
@@ -79,15 +79,23 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
 
 template <class S>
 void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, const SweepBaselines<S>& baselines,
-                    SweepFile<S>& file, bool quiet, RunStats& stats) {
-    // What the file holds when the stage starts (it changes as points are written).
-    const std::vector<PointStatus> status = file.status();
-    auto pending = [&](std::size_t p) { return status[p] == PointStatus::not_computed; };
-    SweepProgress progress(status.size(), file.finished(), quiet);
+                    const std::vector<char>& share, PointJournal& journal, bool quiet, RunStats& stats) {
+    // What is left when the stage starts (the journal grows as points finish).
+    const std::size_t total = journal.header().points;
+    std::vector<char> todo(total, 0);
+    std::size_t in_share = 0, done = 0;
+    for (std::size_t p = 0; p < total; ++p) {
+        const bool mine = share.empty() || share[p];
+        in_share += mine;
+        done += mine && journal.has(p);
+        todo[p] = mine && !journal.has(p);
+    }
+    auto pending = [&](std::size_t p) { return todo[p] != 0; };
+    SweepProgress progress(in_share, done, quiet);
     std::mutex output;
     auto store = [&](const PointResult<S>& r) {
         std::lock_guard<std::mutex> lock(output);
-        file.write_point(r);
+        journal.append(r);
         progress.point_done();
     };
 
@@ -137,8 +145,8 @@ template PointRoutes<double> route_points(const SweepPlan&, const PointPlacement
 template PointRoutes<Complex> route_points(const SweepPlan&, const PointPlacement&, const MovingObjects<Complex>&,
                                            std::size_t);
 template void compute_points(const PointRoutes<double>&, const PointPaths<double>&, const SweepBaselines<double>&,
-                             SweepFile<double>&, bool, RunStats&);
+                             const std::vector<char>&, PointJournal&, bool, RunStats&);
 template void compute_points(const PointRoutes<Complex>&, const PointPaths<Complex>&, const SweepBaselines<Complex>&,
-                             SweepFile<Complex>&, bool, RunStats&);
+                             const std::vector<char>&, PointJournal&, bool, RunStats&);
 
 }  // namespace murk

@@ -11,7 +11,7 @@
 #include "cases/sweep/point_path.hpp"
 #include "cases/sweep/point_placement.hpp"
 #include "cases/sweep/run_stats.hpp"
-#include "cases/sweep/sweep_output.hpp"
+#include "cases/sweep/point_journal.hpp"
 
 #include <memory>
 #include <vector>
@@ -38,9 +38,10 @@ template <class S>
 PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placement, const MovingObjects<S>& objects,
                             std::size_t dipole_block);
 
-// Computes and writes the points the file does not hold yet.
+// Computes the points of `share` (flags over all points; empty: every point) that
+// the journal does not hold yet, appending each to it as it finishes.
 template <class S>
 void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, const SweepBaselines<S>& baselines,
-                    SweepFile<S>& file, bool quiet, RunStats& stats);
+                    const std::vector<char>& share, PointJournal& journal, bool quiet, RunStats& stats);
 
 }  // namespace murk

@@ -3,18 +3,19 @@
 // that an interrupted run keeps every finished point and --resume completes it.
 // The stages, in order (each a unit of its own in this folder):
 //   plan       sweep_plan        axes, points, which objects move
-//   baselines  sweep_baseline    the fixed part factored once per water; sensors; noise
-//   objects    moving_object     each form of the moving object meshed once
+//              moving_object     each form of the moving object meshed once
 //              point_placement   where the object goes at each point, or why it cannot
-//   output     sweep_output      the result file, created whole (or reopened to resume)
-//   points     sweep_points      every point placed, routed to its path and written
+//   baselines  sweep_baseline    the fixed part factored once per water; sensors; noise
+//   (estimate  sweep_estimate    points per path, memory, time; the memory check)
+//   output     point_journal     the run's journal and lock (or the interrupted run's, reopened)
+//   points     sweep_points      every point routed to its path, appended to the journal
 //                                (point_path: path_exact, path_dipole, path_full)
 //   checks     path_check        dipole points re-solved exactly
-//   analysis   sweep_analysis    detection range and falloff, from the file
-//   commit     sweep_output      surface fields, sidecar, the file under its name
+//   analysis   sweep_analysis    detection range and falloff
+//   commit     sweep_output      the result file written from the journal, sidecar
 #include "cases/input/case_spec.hpp"
 #include "cases/sweep/run_stats.hpp"
-#include "cases/sweep/stop_request.hpp"
+#include "cases/output/stop_request.hpp"
 #include "cases/sweep/sweep_output.hpp"
 
 namespace murk {
@@ -24,5 +25,8 @@ namespace murk {
 enum class RunOutcome { complete, interrupted };
 
 RunOutcome run_sweep(const CaseSpec& spec, const RunOptions& options, RunStats* stats = nullptr);
+
+// Where a run of OUT.h5 keeps its journal (its finished points) until it commits: OUT.h5.partial.
+std::string journal_path(const std::string& output_path);
 
 }  // namespace murk

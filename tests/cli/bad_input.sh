@@ -41,6 +41,15 @@ expect_bad "TOML syntax error" "syntax.toml:2" "$murk" solve "$dir/syntax.toml" 
 expect_bad "output folder missing" "no_such_dir" "$murk" solve "$base" -o "$dir/no_such_dir/out.h5"
 printf 'solid x\nfacet normal 0 0 1\n outer loop\n vertex 0 0 0\n vertex 1 0 0\n endloop\nendfacet\nendsolid\n' > "$dir/broken.stl"
 expect_bad "broken STL" "broken.stl" "$murk" mesh "$dir/broken.stl"
+zone='s/^panel_size = "6 mm".*/panel_size = "6 mm"\n[[mesh.zone]]\ncentre = ["3 cm", "7.5 mm", "0 cm"]\nradius = "RADIUS"\npanel_size = "SIZE"/'
+write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/-1 mm/')" zone_negative.toml
+expect_bad "zone size not positive" "mesh.zone[1].panel_size" "$murk" solve "$dir/zone_negative.toml" -o "$dir/out.h5"
+write_case "$(echo "$zone" | sed 's/RADIUS/5 kg/; s/SIZE/1 mm/')" zone_unit.toml
+expect_bad "zone radius not a length" "mesh.zone[1].radius" "$murk" solve "$dir/zone_unit.toml" -o "$dir/out.h5"
+write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/8 mm/')" zone_coarse.toml
+expect_bad "zone coarser than the body" "mesh.zone[1].panel_size: 8 mm is larger" "$murk" solve "$dir/zone_coarse.toml" -o "$dir/out.h5"
+write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/1 mm/; s/"7.5 mm"/"4 cm"/')" zone_off.toml
+expect_bad "zone off the body" "mesh.zone[1].centre: the zone does not reach" "$murk" mesh "$dir/zone_off.toml"
 expect_bad "unknown subcommand" "subcommand" "$murk" frobnicate
 expect_bad "unknown option" "--colour" "$murk" solve "$base" -o "$dir/out.h5" --colour
 

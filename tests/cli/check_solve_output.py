@@ -1,7 +1,8 @@
 #!/usr/bin/python3
 """Reads a `murk solve` result the way a user would (h5py, no murk) and checks
-the layout contract of DESIGN.md §5: root metadata, units and long_name on every
-dataset, finite values, and the meshes matching the panel values.
+the layout contract of cases/RESULT_LAYOUT.md: root metadata, units and long_name on every
+dataset (long_name only on labels, which are not quantities), finite values, and the meshes
+matching the panel values.
 Usage: check_solve_output.py OUT.h5 [--fish]   (--fish adds order-of-magnitude checks)"""
 import hashlib
 import sys
@@ -31,7 +32,8 @@ with h5py.File(path, "r") as f:
 
     def visit(name, obj):
         if isinstance(obj, h5py.Dataset):
-            if "units" not in obj.attrs or "long_name" not in obj.attrs:
+            needs = ("long_name",) if obj.dtype.kind == "O" else ("units", "long_name")
+            if not all(k in obj.attrs for k in needs):
                 fail(f"{name}: units or long_name missing")
             data = obj[()]
             if data.dtype.kind in "fc" and not np.all(np.isfinite(data)):
@@ -48,7 +50,7 @@ with h5py.File(path, "r") as f:
             fail(f"{surface}: triangle indices out of range")
 
     if fish:
-        # Orders of magnitude of the trade (common practice, DESIGN.md §2): a baseline
+        # Orders of magnitude of the trade (common practice): a baseline
         # transdermal voltage of the order of a millivolt, and a prey-sized object a
         # couple of centimetres away changing it by microvolts or less.
         base = np.abs(f["baseline/fish/transdermal_voltage"][()]).max()

@@ -11,7 +11,7 @@ Usage: make_synthetic_result.py OUT.h5 [--kind sweep|grid|robot]
   robot  a capsule hull with six named sensor channels, axes size x distance, a 1 kHz lock-in
          (complex perturbations)
 
-All numbers are invented but of plausible size (DESIGN.md section 2): a baseline transdermal
+All numbers are invented but of plausible size: a baseline transdermal
 voltage of about a millivolt, an image of about a microvolt at the detection range. Each
 planted exponent is exact: the data are an exact power law times a curvature term that is
 orthogonal (over the fitted points) to the fitted line, so the least-squares slope is the
@@ -179,12 +179,37 @@ def attach(d, scales):
     return d
 
 
+# The codes of the coded datasets and their words, typed in from cases/RESULT_LAYOUT.md.
+STATUS_FLAGS = ([0, 1, 2], "not_computed computed masked")
+MASK_REASON_FLAGS = ([0, 1, 2, 3, 4, 5], "not_masked touches_body touches_object beyond_plane unreachable near_source")
+DETECTION_FLAGS = ([0, 1, 2, 3], "no_point_computed crossed beyond_sweep never_detectable")
+FOURTH_POWER_FLAGS = ([0, 1, 2], "no yes unknown")
+
+
+def flags(d, table):
+    """CF flag_values (in the dataset's own type) and flag_meanings."""
+    d.attrs["flag_values"] = np.asarray(table[0], dtype=d.dtype)
+    d.attrs["flag_meanings"] = table[1]
+    return d
+
+
+def copy_axes(group, scales):
+    """Copies of /sweep axes as the group's own coordinates (each group is self-contained)."""
+    copies = []
+    for scale in scales:
+        name = scale.name.split("/")[-1]
+        d = put(group, name, scale[()], scale.attrs["units"], scale.attrs["long_name"])
+        d.make_scale(name)
+        copies.append(d)
+    return copies
+
+
 def write_point_data(f, scales, data, sensor_units, kind):
     """data: dict of arrays shaped by the axes (and the sensors / xyz)."""
     s = f["sweep"]
-    attach(put(s, "status", data["status"], "1",
-               "0 not computed, 1 computed, 2 masked (object would touch the body, another object or the plane)",
-               np.uint8), scales)
+    flags(attach(put(s, "status", data["status"], "1", "what happened at the point", np.uint8), scales), STATUS_FLAGS)
+    reasons = data.get("mask_reason", np.zeros(data["status"].shape, np.uint8))
+    flags(attach(put(s, "mask_reason", reasons, "1", "why the point is masked", np.uint8), scales), MASK_REASON_FLAGS)
     attach(put(s, "perturbation", data["perturbation"], sensor_units, f"change of the {kind} caused by the object"),
            scales + [f["sweep/sensor"]])
     attach(put(s, "peak_perturbation", data["peak"], sensor_units, "largest |perturbation| over the sensors"), scales)
@@ -308,8 +333,10 @@ def empty_point_data(shape, sensors):
 def fish_point_data(shape, centroid):
     data = empty_point_data(shape, len(centroid))
     data["image_width"] = np.full(shape, np.nan)
+    data["mask_reason"] = np.zeros(shape, np.uint8)
     for index in MASKED:
         data["status"][index] = 2
+        data["mask_reason"][index] = 3   # beyond_plane
     for index in MISSING:
         data["status"][index] = 0
     data["amplitude"] = {}
@@ -360,18 +387,19 @@ def write_analysis(f, scales, data):
     det = f.create_group("detection")
     det.attrs["probability_level"] = LEVEL
     det.attrs["false_alarm_probability"] = FALSE_ALARM
-    attach(put(det, "range", rng, "m", "distance where the detection probability crosses the level"), scales)
-    attach(put(det, "status", status, "1",
-               "1 crossed inside the sweep, 2 detectable at every distance swept, 3 never detectable", np.uint8), scales)
+    own = copy_axes(det, scales)
+    attach(put(det, "range", rng, "m", "distance where the detection probability crosses the level"), own)
+    flags(attach(put(det, "status", status, "1", "where the detection probability crosses the level", np.uint8), own),
+          DETECTION_FLAGS)
     fo = f.create_group("falloff")
-    all_scales = scales + [f["sweep/distance"]]
-    attach(put(fo, "local_exponent", local, "1", "d ln(peak) / d ln(distance)"), all_scales)
-    attach(put(fo, "exponent", exponent, "1", "least-squares exponent over the far part"), scales)
-    attach(put(fo, "fit_from", fit_from, "m", "nearest distance in the fit"), scales)
-    attach(put(fo, "fit_to", fit_to, "m", "farthest distance in the fit"), scales)
-    attach(put(fo, "r_squared", r2, "1", "coefficient of determination of the fit"), scales)
-    near = (np.abs(np.nan_to_num(local, nan=99.0) + 4) <= 0.5).astype(np.uint8)
-    attach(put(fo, "near_fourth_power", near, "1", "1 where |local exponent + 4| <= 0.5"), all_scales)
+    own = copy_axes(fo, scales + [f["sweep/distance"]])
+    attach(put(fo, "local_exponent", local, "1", "d ln(peak) / d ln(distance)"), own)
+    attach(put(fo, "exponent", exponent, "1", "least-squares exponent over the far part"), own[:-1])
+    attach(put(fo, "fit_from", fit_from, "m", "nearest distance in the fit"), own[:-1])
+    attach(put(fo, "fit_to", fit_to, "m", "farthest distance in the fit"), own[:-1])
+    attach(put(fo, "r_squared", r2, "1", "coefficient of determination of the fit"), own[:-1])
+    near = np.where(np.isnan(local), 2, np.abs(local + 4) <= 0.5).astype(np.uint8)
+    flags(attach(put(fo, "near_fourth_power", near, "1", "whether |local exponent + 4| <= 0.5"), own), FOURTH_POWER_FLAGS)
 
 
 def check_planted_range(pd, status, range_mm):
@@ -404,6 +432,7 @@ def make_fish_grid(path):
         shape = (1, len(u_values), len(v_values))
         data = empty_point_data(shape, len(t))
         data["image_width"] = np.full(shape, np.nan)
+        data["mask_reason"] = np.zeros(shape, np.uint8)
         outline = ellipse_points(0.075, 0.0075)
         for i, u in enumerate(u_values):
             for j, w in enumerate(v_values):
@@ -412,6 +441,7 @@ def make_fish_grid(path):
                 inside = (centre[0] / 0.075) ** 2 + (centre[1] / 0.0075) ** 2 < 1
                 if inside or clearance < 2e-3:
                     data["status"][0, i, j] = 2
+                    data["mask_reason"][0, i, j] = 1   # touches_body
                     continue
                 peak = 1e-14 * clearance ** -4.0
                 fill_grid_point(data, (0, i, j), centroid, centre, radius, clearance, peak)
@@ -493,18 +523,20 @@ def write_computed_analysis(f, scales, data, distances):
     det = f.create_group("detection")
     det.attrs["probability_level"] = LEVEL
     det.attrs["false_alarm_probability"] = FALSE_ALARM
-    attach(put(det, "range", rng, "m", "distance where the detection probability crosses the level"), scales)
-    attach(put(det, "status", status, "1",
-               "1 crossed inside the sweep, 2 detectable at every distance swept, 3 never detectable", np.uint8), scales)
+    own = copy_axes(det, scales)
+    attach(put(det, "range", rng, "m", "distance where the detection probability crosses the level"), own)
+    flags(attach(put(det, "status", status, "1", "where the detection probability crosses the level", np.uint8), own),
+          DETECTION_FLAGS)
     fo = f.create_group("falloff")
-    attach(put(fo, "exponent", exponent, "1", "least-squares exponent over the far part"), scales)
-    attach(put(fo, "fit_from", fit_from, "m", "nearest distance in the fit"), scales)
-    attach(put(fo, "fit_to", fit_to, "m", "farthest distance in the fit"), scales)
-    attach(put(fo, "r_squared", r2, "1", "coefficient of determination of the fit"), scales)
+    own = copy_axes(fo, scales + [f["sweep/distance"]])
+    attach(put(fo, "exponent", exponent, "1", "least-squares exponent over the far part"), own[:-1])
+    attach(put(fo, "fit_from", fit_from, "m", "nearest distance in the fit"), own[:-1])
+    attach(put(fo, "fit_to", fit_to, "m", "farthest distance in the fit"), own[:-1])
+    attach(put(fo, "r_squared", r2, "1", "coefficient of determination of the fit"), own[:-1])
     local = np.gradient(np.log(data["peak"]), np.log(distances), axis=-1)
-    attach(put(fo, "local_exponent", local, "1", "d ln(peak) / d ln(distance)"), scales + [f["sweep/distance"]])
-    attach(put(fo, "near_fourth_power", (np.abs(local + 4) <= 0.5).astype(np.uint8), "1",
-               "1 where |local exponent + 4| <= 0.5"), scales + [f["sweep/distance"]])
+    attach(put(fo, "local_exponent", local, "1", "d ln(peak) / d ln(distance)"), own)
+    flags(attach(put(fo, "near_fourth_power", (np.abs(local + 4) <= 0.5).astype(np.uint8), "1",
+                     "whether |local exponent + 4| <= 0.5"), own), FOURTH_POWER_FLAGS)
 
 
 def main():

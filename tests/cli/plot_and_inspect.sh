@@ -48,6 +48,7 @@ check_png "$dir/png/sweep_detection_map.png" 800 650
 check_png "$dir/png/sweep_electric_image_1.png" 1200 500
 check_png "$dir/png/sweep_electric_image_2.png" 1200 500
 check_png "$dir/png/sweep_falloff.png" 800 600
+check_png "$dir/png/sweep_body_view.png" 1000 650
 grep -q "^skipped grid map: " "$dir/plot_sweep.txt" && ok "grid map skipped for a distance sweep" || fail "no note for the skipped grid map"
 grep -qx "$dir/png/sweep_falloff.png" "$dir/plot_sweep.txt" && ok "paths printed" || fail "the falloff path is not printed"
 
@@ -57,9 +58,12 @@ grep -q "^skipped falloff: " "$dir/plot_grid.txt" && ok "falloff skipped without
 
 plot "$dir/robot.h5" -o "$dir/png" > "$dir/plot_robot.txt" 2>&1 || fail "plot_results.py on the robot file: $(cat "$dir/plot_robot.txt")"
 check_png "$dir/png/robot_electric_image_1.png" 800 500
+grep -q "^skipped body view: the sensors are channels" "$dir/plot_robot.txt" && ok "no body view of a robot's channels" \
+  || fail "no note for the skipped body view of the robot"
 
 plot "$dir/solve.h5" -o "$dir/png" > "$dir/plot_solve.txt" 2>&1 || fail "plot_results.py on the solve file: $(cat "$dir/plot_solve.txt")"
 check_png "$dir/png/solve_electric_image_1.png" 1200 500
+check_png "$dir/png/solve_body_view.png" 1000 650
 
 rm -f "$dir/png/sweep_electric_image_"*
 plot "$dir/sweep.h5" -o "$dir/png" --points distance=3,size=1 > /dev/null 2>&1
@@ -77,6 +81,7 @@ expect_line '  frequency: +0 Hz \(direct current\)'
 expect_line '  distance \(mm\) +10 +2 \.\. 40'
 expect_line '  conductivity \(S/m\) +3 +0 \(insulator\), 0\.05, inf \(conductor\)'
 expect_line 'points: +90 in all: 84 computed, 3 masked, 3 missing \(not computed\)'
+expect_line 'masked points: +3 beyond plane'    # MASKED in make_synthetic_result.py, reason 3
 # The planted rows (PLANTED in make_synthetic_result.py): detection range, exponent, fit range,
 # R^2 (curvature makes it just below 1), within 0.5 of -4.
 r2='0\.99[0-9]{2}'
@@ -131,6 +136,11 @@ corrupt no_status 'del f["sweep/status"]'
 corrupt bad_code 'f["detection/status"][0, 1] = 7'
 corrupt short_axis 'del f["sweep/size"]'
 corrupt bad_shape 'del f["falloff/r_squared"]; f["falloff/r_squared"] = np.zeros(4)'
+corrupt no_flags 'del f["sweep/status"].attrs["flag_meanings"]'
+# Codes mean what the file's flags say, not fixed numbers: the same file with the status codes
+# renumbered (computed 7, masked 5, not computed 9) and its flags saying so reads the same.
+corrupt renumbered 'st = f["sweep/status"]; old = st[()]; new = np.select([old == 1, old == 2], [7, 5], 9).astype(np.uint8)
+st[...] = new; st.attrs["flag_values"] = np.array([9, 7, 5], np.uint8)'
 
 for tool in inspect plot; do
   run() { if [ "$tool" = inspect ]; then "$murk" inspect "$1"; else plot "$1" -o "$dir/png"; fi; }
@@ -143,6 +153,10 @@ done
 expect_bad "plot: falloff of the wrong shape" "/falloff/r_squared" plot "$dir/bad_shape.h5" -o "$dir/png"
 expect_bad "inspect: detection status 7" "/detection/status" "$murk" inspect "$dir/bad_code.h5"
 expect_bad "inspect: falloff of the wrong shape" "/falloff/r_squared" "$murk" inspect "$dir/bad_shape.h5"
+expect_bad "inspect: status without flag_meanings" "/sweep/status" "$murk" inspect "$dir/no_flags.h5"
+expect_bad "plot: status without flag_meanings" "/sweep/status" plot "$dir/no_flags.h5" -o "$dir/png"
+"$murk" inspect "$dir/renumbered.h5" > "$dir/inspect.txt" 2>&1 || fail "murk inspect on the renumbered file: $(cat "$dir/inspect.txt")"
+expect_line 'points: +90 in all: 84 computed, 3 masked, 3 missing \(not computed\)'
 expect_bad "plot: --points on an unknown axis" "colour" plot "$dir/sweep.h5" -o "$dir/png" --points colour=1
 expect_bad "plot: --points index outside the axis" "outside axis distance" plot "$dir/sweep.h5" -o "$dir/png" --points distance=10
 

@@ -132,24 +132,34 @@ def dim_names(ds):
     return [dim[0].name if len(dim) else None for dim in ds.dims]
 
 # Every /sweep dataset laid out over the axes names them, in order; /falloff and /detection
-# name the axes other than distance (netCDF-4 readers such as xarray see named dimensions).
+# name the axes (other than distance) by copies of their own, because netCDF-4 readers look
+# for a dimension's coordinate only in the dataset's group and its parents (cases/RESULT_LAYOUT.md).
 axis_paths = [f"/sweep/{n}" for n in names]
 for key, ds in a["sweep"].items():
     if isinstance(ds, h5py.Dataset) and ds.shape[:len(shape)] == shape and ds.ndim >= len(shape):
         check(dim_names(ds)[:len(shape)] == axis_paths, f"/sweep/{key}: dimensions {dim_names(ds)}, expected {axis_paths} first")
 check(dim_names(a["sweep/perturbation"])[-1] == "/sweep/sensor", "/sweep/perturbation: last dimension is not /sweep/sensor")
-others = [p for p in axis_paths if not p.endswith("/distance")]
 for group in ("falloff", "detection"):
+    own = [f"/{group}/{n}" for n in names]
+    others = [p for p in own if not p.endswith("/distance")]
+    for n in names:
+        if f"{group}/{n}" in a:
+            copy, original = a[f"{group}/{n}"], a[f"sweep/{n}"]
+            check(np.array_equal(copy[()], original[()]) and copy.attrs["units"] == original.attrs["units"],
+                  f"/{group}/{n} is not a copy of /sweep/{n}")
     for key, ds in a[group].items():
+        if key in names:
+            continue
         if ds.shape == shape[:-1]:
             check(dim_names(ds) == others, f"/{group}/{key}: dimensions {dim_names(ds)}, expected {others}")
         elif ds.shape == shape:
-            check(dim_names(ds) == axis_paths, f"/{group}/{key}: dimensions {dim_names(ds)}, expected {axis_paths}")
+            check(dim_names(ds) == own, f"/{group}/{key}: dimensions {dim_names(ds)}, expected {own}")
 
-# ---- units and long_name on every dataset
+# ---- units and long_name on every dataset (labels, such as xyz, are not quantities: no units)
 def visit(name, obj):
     if isinstance(obj, h5py.Dataset):
-        check("units" in obj.attrs and "long_name" in obj.attrs, f"/{name}: units or long_name missing")
+        needs = ("long_name",) if obj.dtype.kind == "O" else ("units", "long_name")
+        check(all(k in obj.attrs for k in needs), f"/{name}: units or long_name missing")
 a.visititems(visit)
 
 # ---- masked and computed points

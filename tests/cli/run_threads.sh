@@ -7,7 +7,9 @@ set -euo pipefail
 murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
 sed -e 's/^distance = .*/distance = ["4 mm", "1 cm", "2 cm"]/' -e 's/^water_conductivity = .*//' \
+    -e 's/^panel_size = "1.2 mm"/panel_size = "3 mm"/' \
     "$src/cases/examples/fish_detection.toml" > "$dir/small.toml"
+grep -q "^panel_size = \"3 mm\"" "$dir/small.toml" || { echo "FAIL: the example's zone line changed; update this test"; exit 1; }
 for method in exact dipole auto; do
 sed -e "s/^\[sweep\]/[sweep]\nmethod = \"$method\"/" "$dir/small.toml" > "$dir/$method.toml"
 "$murk" run "$dir/$method.toml" -o "$dir/one.h5" --quiet --threads 1 --force

@@ -45,7 +45,17 @@ struct RunArgs {
     bool quiet = false;
     bool estimate = false;     // print the plan and its cost only
     std::string memory_limit;  // e.g. "8 GiB"; empty: 80 % of physical memory
+    std::string shard;         // "K/N": compute share K of N (a job-array task); empty: all
 };
+
+struct MergeArgs {
+    std::vector<std::string> parts;  // result files of murk run --shard K/N
+    std::string output_path;
+    bool partial = false;  // accept missing points (left "not computed")
+    bool force = false;
+    bool quiet = false;
+};
+int merge_command(const MergeArgs& args, const std::string& command_line);
 
 // Bytes in a memory size written with its unit: "512 MiB", "8 GiB", "2.5 GB",
 // "1e9 B". Throws InputError naming the option for anything else.

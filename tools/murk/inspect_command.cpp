@@ -5,10 +5,14 @@
 // Sweep axes are found from the dimension scales attached to /sweep/status (the layout's way
 // of naming dimensions), so the summary follows whatever axes and order a run chose. The same
 // holds for /detection and /falloff, whose datasets lie over the axes other than distance.
+// What a code means is read from the coded dataset's own flag_values / flag_meanings, looked
+// up by the words of cases/output/result_layout.hpp, never by numbers written in here.
 // Anything the layout requires that is missing or malformed is an InputError naming the
 // file and the dataset, never a guess.
 #include "cases/output/hdf5_file.hpp"
+#include "cases/output/result_layout.hpp"
 #include "geometry/input_error.hpp"
+#include "cases/sweep/point_journal.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <H5DSpublic.h>
@@ -163,6 +167,44 @@ std::vector<double> magnitudes(const H5Dataset& d) {
     return values;
 }
 
+// The CF flags of a coded dataset: its codes and the word of each.
+struct Flags {
+    std::vector<std::int64_t> codes;
+    std::vector<std::string> words;
+
+    // The code of a word of result_layout.hpp; a file that lacks it is malformed.
+    std::int64_t code(const H5Dataset& d, std::string_view word) const {
+        for (std::size_t k = 0; k < words.size(); ++k)
+            if (words[k] == word) return codes[k];
+        malformed(d, "has no code for '" + std::string(word) + "' in its flag_meanings");
+    }
+    // The word of a code found in the data; a code the flags do not list is malformed.
+    const std::string& word(const H5Dataset& d, std::int64_t value) const {
+        for (std::size_t k = 0; k < codes.size(); ++k)
+            if (codes[k] == value) return words[k];
+        malformed(d, "holds " + std::to_string(value) + ", which its flag_values do not list");
+    }
+};
+
+Flags read_flags(const H5Dataset& d) {
+    using namespace layout;
+    if (!d.has_attribute(kFlagValues) || !d.has_attribute(kFlagMeanings))
+        malformed(d, "has no flag_values and flag_meanings: what its codes mean is unknown");
+    Flags flags;
+    for (double v : d.double_array_attribute(kFlagValues)) flags.codes.push_back(static_cast<std::int64_t>(v));
+    const std::string meanings = d.string_attribute(kFlagMeanings);
+    std::size_t start = 0;
+    while (start < meanings.size()) {
+        const std::size_t end = std::min(meanings.find(' ', start), meanings.size());
+        if (end > start) flags.words.push_back(meanings.substr(start, end - start));
+        start = end + 1;
+    }
+    if (flags.words.size() != flags.codes.size())
+        malformed(d, "has " + std::to_string(flags.codes.size()) + " flag_values but " +
+                         std::to_string(flags.words.size()) + " words in flag_meanings");
+    return flags;
+}
+
 // Real or integer values as doubles: an object axis holds indices, status codes are integers.
 std::vector<double> numbers(const H5Dataset& d) {
     if (d.kind() == H5Kind::real) return d.read<double>().values;
@@ -192,7 +234,7 @@ void print_header(const H5File& file, const H5Group& root) {
 // ---- murk solve -----------------------------------------------------------------------
 
 std::size_t panel_count(const H5Group& root, const std::string& surface) {
-    const H5Dataset triangles = root.dataset("mesh/" + surface + "/triangles");
+    const H5Dataset triangles = root.dataset(std::string(layout::kMesh) + "/" + surface + "/" + layout::kTriangles);
     const H5Shape shape = triangles.shape();
     if (shape.size() != 2 || shape[1] != 3) malformed(triangles, "has shape " + shape_text(shape) + ", expected (t, 3)");
     return shape[0];
@@ -200,16 +242,17 @@ std::size_t panel_count(const H5Group& root, const std::string& surface) {
 
 // "peak 0.31 uV at panel 17 (30.2, 7.1, 0.0) mm", from the change of transdermal voltage.
 std::string image_peak(const H5Group& root, const std::string& surface, std::size_t panels) {
-    const H5Dataset change = root.dataset("difference/" + surface + "/transdermal_voltage");
+    const H5Dataset change = root.dataset(std::string(layout::kDifference) + "/" + surface + "/" + layout::kTransdermal);
     const std::vector<double> size = magnitudes(change);
     if (size.size() != panels) malformed(change, "has " + std::to_string(size.size()) + " values for " +
                                                      std::to_string(panels) + " panels");
     const std::size_t at = std::max_element(size.begin(), size.end()) - size.begin();
     std::string text = "change of transdermal voltage: peak " + with_prefix(size[at], units_of(change)) +
                        " at panel " + std::to_string(at);
-    if (root.exists("mesh/" + surface + "/centroid")) {
-        const H5Array<double> c = root.read<double>("mesh/" + surface + "/centroid");
-        if (c.shape != H5Shape{panels, 3}) malformed(root.dataset("mesh/" + surface + "/centroid"), "is not (t, 3)");
+    const std::string centroid = std::string(layout::kMesh) + "/" + surface + "/" + layout::kCentroid;
+    if (root.exists(centroid)) {
+        const H5Array<double> c = root.read<double>(centroid);
+        if (c.shape != H5Shape{panels, 3}) malformed(root.dataset(centroid), "is not (t, 3)");
         text += format(" (%.1f, %.1f, %.1f) mm", c.values[3 * at] * 1e3, c.values[3 * at + 1] * 1e3,
                        c.values[3 * at + 2] * 1e3);
     }
@@ -219,9 +262,9 @@ std::string image_peak(const H5Group& root, const std::string& surface, std::siz
 void print_surfaces(const H5Group& root) {
     std::printf("surfaces:\n");
     Table table({"surface", "panels", "electric image"});
-    for (const std::string& surface : members(root.open_group("mesh"))) {
+    for (const std::string& surface : members(root.open_group(layout::kMesh))) {
         const std::size_t panels = panel_count(root, surface);
-        const bool has_image = root.exists("difference/" + surface + "/transdermal_voltage");
+        const bool has_image = root.exists(std::string(layout::kDifference) + "/" + surface + "/" + layout::kTransdermal);
         table.add({surface, std::to_string(panels), has_image ? image_peak(root, surface, panels) : "-"});
     }
     table.print("  ");
@@ -240,12 +283,14 @@ std::vector<std::string> readable_values(const H5Dataset& d) {
 }
 
 void print_electrodes(const H5Group& root) {
-    if (!root.exists("difference/electrodes")) return;
-    const H5Dataset potential = root.dataset("difference/electrodes/potential");
-    const H5Dataset current = root.dataset("difference/electrodes/current");
+    using namespace layout;
+    const std::string electrodes = std::string(kDifference) + "/" + kElectrodes + "/";
+    if (!root.exists(electrodes)) return;
+    const H5Dataset potential = root.dataset(electrodes + kPotential);
+    const H5Dataset current = root.dataset(electrodes + kCurrent);
     const std::vector<std::string> dv = readable_values(potential), di = readable_values(current);
     std::vector<std::string> names;
-    if (potential.has_attribute("electrode_names")) names = split_commas(potential.string_attribute("electrode_names"));
+    if (potential.has_attribute(kElectrodeNames)) names = split_commas(potential.string_attribute(kElectrodeNames));
     if (di.size() != dv.size()) malformed(current, "has " + std::to_string(di.size()) + " values, potential has " +
                                                        std::to_string(dv.size()));
     if (!names.empty() && names.size() != dv.size())
@@ -305,7 +350,7 @@ std::vector<Axis> read_axes(const H5Group& sweep, const H5Dataset& status) {
         if (a.values.size() != shape[k])
             malformed(d, "has " + std::to_string(a.values.size()) + " values but /sweep/status has " +
                              std::to_string(shape[k]) + " along dimension " + std::to_string(k));
-        if (d.has_attribute("object_names")) a.labels = split_commas(d.string_attribute("object_names"));
+        if (d.has_attribute(layout::kObjectNames)) a.labels = split_commas(d.string_attribute(layout::kObjectNames));
         axes.push_back(std::move(a));
     }
     return axes;
@@ -317,14 +362,26 @@ int axis_named(const std::vector<Axis>& axes, const std::string& name) {
     return -1;
 }
 
-// Point codes of /sweep/status: 0 not computed, 1 computed, 2 masked.
-std::vector<std::uint8_t> read_status(const H5Dataset& status) {
-    std::vector<std::uint8_t> codes = status.read<std::uint8_t>().values;
-    for (std::size_t p = 0; p < codes.size(); ++p)
-        if (codes[p] > 2)
-            malformed(status, "holds " + std::to_string(codes[p]) + " at point " + std::to_string(p) +
-                                  ", expected 0 (not computed), 1 (computed) or 2 (masked)");
-    return codes;
+// What happened at each point (/sweep/status), by the words of its flags.
+struct PointStates {
+    std::vector<PointStatus> of_point;
+
+    std::size_t count(PointStatus s) const { return std::size_t(std::count(of_point.begin(), of_point.end(), s)); }
+};
+
+PointStates read_status(const H5Dataset& status) {
+    const Flags flags = read_flags(status);
+    const std::vector<std::uint8_t> codes = status.read<std::uint8_t>().values;
+    PointStates states;
+    for (std::size_t p = 0; p < codes.size(); ++p) {
+        const std::string& word = flags.word(status, codes[p]);
+        std::size_t k = 0;
+        while (k < CodeWords<PointStatus>::words.size() && CodeWords<PointStatus>::words[k] != word) ++k;
+        if (k == CodeWords<PointStatus>::words.size())
+            malformed(status, "says '" + word + "' at point " + std::to_string(p) + ", which is no point status");
+        states.of_point.push_back(static_cast<PointStatus>(k));
+    }
+    return states;
 }
 
 void print_axes(const std::vector<Axis>& axes) {
@@ -334,23 +391,55 @@ void print_axes(const std::vector<Axis>& axes) {
     table.print("  ");
 }
 
-void print_points(const std::vector<std::uint8_t>& status) {
-    std::size_t count[3] = {0, 0, 0};
-    for (std::uint8_t s : status) ++count[s];
-    std::printf("points:           %zu in all: %zu computed, %zu masked, %zu missing (not computed)\n", status.size(),
-                count[1], count[2], count[0]);
+void print_points(const PointStates& status) {
+    std::printf("points:           %zu in all: %zu computed, %zu masked, %zu missing (not computed)\n",
+                status.of_point.size(), status.count(PointStatus::computed), status.count(PointStatus::masked),
+                status.count(PointStatus::not_computed));
+}
+
+// How many points of each code a coded dataset holds, among the points `counted`.
+template <class Code>
+std::vector<std::size_t> counts_by_code(const H5Dataset& d, const std::vector<bool>& counted) {
+    const Flags flags = read_flags(d);
+    const std::vector<std::uint8_t> codes = d.read<std::uint8_t>().values;
+    if (codes.size() != counted.size())
+        malformed(d, "has " + std::to_string(codes.size()) + " points, /sweep/status " + std::to_string(counted.size()));
+    std::vector<std::size_t> count(CodeWords<Code>::words.size(), 0);
+    for (std::size_t k = 0; k < count.size(); ++k) {
+        const std::int64_t code = flags.code(d, CodeWords<Code>::words[k]);
+        for (std::size_t p = 0; p < codes.size(); ++p) count[k] += counted[p] && codes[p] == code;
+    }
+    return count;
+}
+
+// Why the masked points are masked (/sweep/mask_reason), reason by reason.
+void print_masks(const H5Group& sweep, const PointStates& status) {
+    if (!sweep.exists(layout::kMaskReason) || status.count(PointStatus::masked) == 0) return;
+    std::vector<bool> masked;
+    for (PointStatus s : status.of_point) masked.push_back(s == PointStatus::masked);
+    const std::vector<std::size_t> count = counts_by_code<MaskReason>(sweep.dataset(layout::kMaskReason), masked);
+    std::string text;
+    for (std::size_t k = 0; k < count.size(); ++k) {
+        if (count[k] == 0) continue;
+        std::string reason(CodeWords<MaskReason>::words[k]);
+        std::replace(reason.begin(), reason.end(), '_', ' ');
+        text += (text.empty() ? "" : ", ") + std::to_string(count[k]) + " " + reason;
+    }
+    std::printf("masked points:    %s\n", text.c_str());
 }
 
 // Which path computed the points (/sweep/path), and the exact re-solves of
 // dipole points (/sweep/path_check), when the file has them.
-void print_paths(const H5Group& sweep) {
-    if (!sweep.exists("path")) return;
-    std::size_t count[4] = {0, 0, 0, 0};
-    for (std::uint8_t p : sweep.read<std::uint8_t>("path").values)
-        if (p < 4) ++count[p];
-    std::printf("paths:            %zu exact, %zu induced dipole, %zu full re-solve\n", count[1], count[2], count[3]);
-    if (!sweep.exists("path_check/discrepancy")) return;
-    const H5Dataset d = sweep.dataset("path_check/discrepancy");
+void print_paths(const H5Group& sweep, const PointStates& status) {
+    if (!sweep.exists(layout::kPath)) return;
+    const std::vector<bool> every(status.of_point.size(), true);
+    const std::vector<std::size_t> count = counts_by_code<PathCode>(sweep.dataset(layout::kPath), every);
+    std::printf("paths:            %zu exact, %zu induced dipole, %zu full re-solve\n",
+                count[std::size_t(PathCode::exact)], count[std::size_t(PathCode::dipole)],
+                count[std::size_t(PathCode::full)]);
+    const std::string check = std::string(layout::kPathCheck) + "/" + layout::kDiscrepancy;
+    if (!sweep.exists(check)) return;
+    const H5Dataset d = sweep.dataset(check);
     const std::size_t n = d.shape().empty() ? 0 : d.shape()[0];
     std::printf("dipole check:     %zu dipole points re-solved exactly, largest discrepancy %.3g", n,
                 n ? d.double_attribute("max_discrepancy") : 0.0);
@@ -359,23 +448,23 @@ void print_paths(const H5Group& sweep) {
 }
 
 void print_sensors(const H5Group& root, const H5Group& sweep) {
-    const H5Dataset sensor = sweep.dataset("sensor");
+    const H5Dataset sensor = sweep.dataset(layout::kSensor);
     const std::size_t n = sensor.shape().empty() ? 1 : sensor.shape()[0];
-    if (sensor.has_attribute("sensor_names")) {
-        std::printf("sensors:          %zu channels: %s\n", n, sensor.string_attribute("sensor_names").c_str());
+    if (sensor.has_attribute(layout::kSensorNames)) {
+        std::printf("sensors:          %zu channels: %s\n", n, sensor.string_attribute(layout::kSensorNames).c_str());
         return;
     }
     // The runner names the body in a root attribute; the layout alone has it as the only mesh.
     std::string body = root.has_attribute("body") ? root.string_attribute("body") : "";
-    if (body.empty() && root.exists("mesh")) {
-        const std::vector<std::string> meshes = members(root.open_group("mesh"));
+    if (body.empty() && root.exists(layout::kMesh)) {
+        const std::vector<std::string> meshes = members(root.open_group(layout::kMesh));
         if (meshes.size() == 1) body = meshes.front();
     }
     std::printf("sensors:          %zu skin panels%s\n", n, body.empty() ? "" : (" of " + body).c_str());
 }
 
 void print_peak_range(const H5Group& sweep) {
-    const H5Dataset peak = sweep.dataset("peak_perturbation");
+    const H5Dataset peak = sweep.dataset(layout::kPeakPerturbation);
     double lo = std::numeric_limits<double>::infinity(), hi = 0;
     for (double v : peak.read<double>().values)
         if (std::isfinite(v)) lo = std::min(lo, std::abs(v)), hi = std::max(hi, std::abs(v));
@@ -419,7 +508,7 @@ std::vector<int> dims_over(const H5Dataset& d, const std::vector<Axis>& axes, co
         }
         return dims;
     }
-    if (candidates.empty() && shape == H5Shape{1}) return {};
+    if (candidates.empty() && (shape.empty() || shape == H5Shape{1})) return {};  // a scalar: one row
     H5Shape expected;
     for (int a : candidates) expected.push_back(axes[a].values.size());
     if (shape != expected) malformed(d, "has shape " + shape_text(shape) + ", expected " + shape_text(expected) +
@@ -440,37 +529,37 @@ struct Falloff {
 
 struct Detection {
     OverAxes range, status;
+    Flags status_flags;
     double level, false_alarm;
 };
 
 // Distances of the computed points of one row (every axis but distance fixed).
-std::vector<double> computed_distances(const std::vector<Axis>& axes, const std::vector<std::uint8_t>& status,
+std::vector<double> computed_distances(const std::vector<Axis>& axes, const PointStates& status,
                                        std::vector<std::size_t> index, int d) {
     std::vector<double> out;
     for (std::size_t k = 0; k < axes[d].values.size(); ++k) {
         index[d] = k;
         std::size_t flat = 0;
         for (std::size_t a = 0; a < axes.size(); ++a) flat = flat * axes[a].values.size() + index[a];
-        if (status[flat] == 1) out.push_back(axes[d].values[k]);
+        if (status.of_point[flat] == PointStatus::computed) out.push_back(axes[d].values[k]);
     }
     return out;
 }
 
 std::string range_text(const Detection& det, const H5Dataset& status_ds, const std::vector<std::size_t>& index,
                        const std::vector<double>& computed) {
-    const int code = static_cast<int>(det.status.at(index));
+    const std::string& word = det.status_flags.word(status_ds, std::int64_t(det.status.at(index)));
     const double range = det.range.at(index);
-    switch (code) {
-    case 0: return "no point computed";
-    case 1:
-        if (!std::isfinite(range)) malformed(status_ds, "says 1 (crossed) where /detection/range is not a number");
+    if (word == word_of(RangeStatus::no_data)) return "no point computed";
+    if (word == word_of(RangeStatus::crossed)) {
+        if (!std::isfinite(range)) malformed(status_ds, "says '" + word + "' where /detection/range is not a number");
         return millimetres(range);
-    case 2: return "beyond the sweep (> " + (computed.empty() ? "?" : millimetres(computed.back())) + ")";
-    case 3: return "not detectable within the sweep (< " + (computed.empty() ? "?" : millimetres(computed.front())) + ")";
-    default:
-        malformed(status_ds, "holds " + std::to_string(code) +
-                                 ", expected 1 (crossed), 2 (beyond the sweep) or 3 (never detectable)");
     }
+    if (word == word_of(RangeStatus::beyond_sweep))
+        return "beyond the sweep (> " + (computed.empty() ? "?" : millimetres(computed.back())) + ")";
+    if (word == word_of(RangeStatus::never))
+        return "not detectable within the sweep (< " + (computed.empty() ? "?" : millimetres(computed.front())) + ")";
+    malformed(status_ds, "says '" + word + "', which is no detection status");
 }
 
 std::vector<std::string> falloff_cells(const Falloff& f, const std::vector<std::size_t>& index) {
@@ -481,15 +570,16 @@ std::vector<std::string> falloff_cells(const Falloff& f, const std::vector<std::
 }
 
 Falloff read_falloff(const H5Group& root, const std::vector<Axis>& axes, const std::vector<int>& others) {
-    const H5Group g = root.open_group("falloff");
+    const H5Group g = root.open_group(layout::kFalloff);
     return {read_over_axes(g.dataset("exponent"), axes, others), read_over_axes(g.dataset("fit_from"), axes, others),
             read_over_axes(g.dataset("fit_to"), axes, others), read_over_axes(g.dataset("r_squared"), axes, others)};
 }
 
 Detection read_detection(const H5Group& root, const std::vector<Axis>& axes, const std::vector<int>& others) {
-    const H5Group g = root.open_group("detection");
-    return {read_over_axes(g.dataset("range"), axes, others), read_over_axes(g.dataset("status"), axes, others),
-            g.double_attribute("probability_level"), g.double_attribute("false_alarm_probability")};
+    const H5Group g = root.open_group(layout::kDetection);
+    const H5Dataset status = g.dataset(layout::kStatus);
+    return {read_over_axes(g.dataset(layout::kRange), axes, others), read_over_axes(status, axes, others),
+            read_flags(status), g.double_attribute("probability_level"), g.double_attribute("false_alarm_probability")};
 }
 
 // Advances a multi-index over `axes` (the distance axis `skip` held at 0); false at the end.
@@ -504,7 +594,7 @@ bool next_row(std::vector<std::size_t>& index, const std::vector<Axis>& axes, in
 
 constexpr std::size_t kMaxRows = 60;  // a terminal's worth; the file holds the rest
 
-void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const std::vector<std::uint8_t>& status) {
+void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const PointStates& status) {
     const int d = axis_named(axes, "distance");
     if (d < 0) {
         std::printf("no distance axis: no detection ranges and no falloff fit\n");
@@ -514,7 +604,7 @@ void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const st
     for (int a = 0; a < static_cast<int>(axes.size()); ++a)
         if (a != d) others.push_back(a);
     const Falloff falloff = read_falloff(root, axes, others);
-    const bool has_detection = root.exists("detection");
+    const bool has_detection = root.exists(layout::kDetection);
     Detection detection{};
     if (has_detection) {
         detection = read_detection(root, axes, others);
@@ -531,7 +621,7 @@ void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const st
     for (const char* h : {"detection range", "exponent", "fit range", "R^2", "within 0.5 of -4"})
         if (has_detection || std::string(h) != "detection range") header.push_back(h);
     Table table(header);
-    const H5Dataset status_ds = has_detection ? root.dataset("detection/status") : root.dataset("sweep/status");
+    const H5Dataset status_ds = root.open_group(has_detection ? layout::kDetection : layout::kSweep).dataset(layout::kStatus);
     std::vector<std::size_t> index(axes.size(), 0);
     std::size_t rows = 0;
     do {
@@ -549,13 +639,14 @@ void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const st
 
 void print_run(const H5Group& root) {
     std::printf("kind:             murk run (sweep)\n");
-    const H5Group sweep = root.open_group("sweep");
-    const H5Dataset status_ds = sweep.dataset("status");
+    const H5Group sweep = root.open_group(layout::kSweep);
+    const H5Dataset status_ds = sweep.dataset(layout::kStatus);
     const std::vector<Axis> axes = read_axes(sweep, status_ds);
-    const std::vector<std::uint8_t> status = read_status(status_ds);
+    const PointStates status = read_status(status_ds);
     print_axes(axes);
     print_points(status);
-    print_paths(sweep);
+    print_masks(sweep, status);
+    print_paths(sweep, status);
     print_sensors(root, sweep);
     print_peak_range(sweep);
     print_analysis(root, axes, status);
@@ -563,11 +654,38 @@ void print_run(const H5Group& root) {
 
 }  // namespace
 
+// The journal of a run in progress or interrupted (OUT.h5.partial): how far it got.
+void print_journal(const std::string& path) {
+    const PointJournal j = PointJournal::inspect(path);
+    const JournalHeader& h = j.header();
+    std::size_t computed = 0, masked = 0;
+    for (std::size_t p = 0; p < h.points; ++p)
+        if (j.has(p)) (j.status(p) == PointStatus::masked ? masked : computed) += 1;
+    std::printf("file:             %s\n", path.c_str());
+    std::printf("kind:             journal of a murk run %s (murk %s)\n",
+                j.held_by_a_run() ? "in progress" : "that was interrupted", h.murk_version.c_str());
+    std::printf("written by:       process %lld on %s, started %s\n", static_cast<long long>(h.pid), h.host.c_str(),
+                h.started_utc.c_str());
+    std::printf("case SHA-256:     %.12s...\n", h.case_sha256.c_str());
+    if (h.share_count > 1) std::printf("share:            %u/%u\n", h.share_index + 1, h.share_count);
+    std::printf("points:           %zu of %llu finished: %zu computed, %zu masked\n", j.finished(),
+                static_cast<unsigned long long>(h.points), computed, masked);
+    std::printf("dipole checks:    %zu\n", j.checks().size());
+    if (j.dropped_bytes() > 0)
+        std::printf("torn end:         %zu bytes of a record cut short (a resume drops them)\n", j.dropped_bytes());
+    std::printf("%s\n", j.held_by_a_run() ? "the run is alive; it writes the result file when it finishes"
+                                          : "finish it with: murk run CASE.toml -o OUT.h5 --resume");
+}
+
 int inspect_command(const InspectArgs& args) {
+    if (PointJournal::is_journal(args.path)) {
+        print_journal(args.path);
+        return 0;
+    }
     const H5File file = H5File::open_readonly(args.path);
     const H5Group root = file.root();
     print_header(file, root);
-    if (root.exists("sweep"))
+    if (root.exists(layout::kSweep))
         print_run(root);
     else
         print_solve(root);

@@ -2,6 +2,7 @@
 // which is slow to compile) and hands each subcommand a plain options struct.
 #include "geometry/input_error.hpp"
 #include "tools/murk/commands.hpp"
+#include "tools/murk/mpi_ranks.hpp"
 
 #include <CLI/CLI.hpp>
 #include <cstdio>
@@ -18,6 +19,7 @@ std::string joined(int argc, char** argv) {
 }  // namespace
 
 int main(int argc, char** argv) {
+    murk::cli::start_ranks(argc, argv);
     CLI::App app{"murk: near-field electrosensing by boundary elements"};
     app.require_subcommand(1);
 
@@ -38,8 +40,18 @@ int main(int argc, char** argv) {
     run_cmd->add_flag("--quiet", run.quiet, "no progress lines");
     run_cmd->add_option("--threads", run.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
     run_cmd->add_flag("--estimate", run.estimate, "print the points per path, memory and time the run would take; run nothing");
+    run_cmd->add_option("--shard", run.shard,
+                        "K/N: compute share K of N of the points (a job-array task; join the shares with murk merge)");
     run_cmd->add_option("--memory-limit", run.memory_limit,
                         "refuse a run estimated to need more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
+
+    murk::cli::MergeArgs merge;
+    auto* merge_cmd = app.add_subcommand("merge", "join the shares of a sweep (murk run --shard K/N) into one result");
+    merge_cmd->add_option("parts", merge.parts, "result files of the shares")->required();
+    merge_cmd->add_option("-o,--output", merge.output_path, "result file (HDF5)")->required();
+    merge_cmd->add_flag("--partial", merge.partial, "accept missing points: they stay marked not computed");
+    merge_cmd->add_flag("--force", merge.force, "replace an existing result file");
+    merge_cmd->add_flag("--quiet", merge.quiet, "print nothing but errors");
 
     murk::cli::InspectArgs inspect;
     auto* inspect_cmd = app.add_subcommand("inspect", "a readable summary of a result file");
@@ -70,21 +82,32 @@ int main(int argc, char** argv) {
         return 2;
     }
 
+    // An error ends every rank of an MPI run (the others would wait for this one),
+    // after this rank has said where it happened.
+    const auto fail = [](int status, const std::string& message) {
+        const murk::cli::Ranks& r = murk::cli::ranks();
+        if (r.parallel()) {
+            std::fprintf(stderr, "murk: rank %d of %d on %s: %s\n", r.rank, r.size, r.host.c_str(), message.c_str());
+            murk::cli::abort_ranks(status);
+        }
+        std::fprintf(stderr, "murk: %s\n", message.c_str());
+        return status;
+    };
+    int status = 0;
     try {
-        if (*run_cmd) return murk::cli::run_command(run, joined(argc, argv));
-        if (*inspect_cmd) return murk::cli::inspect_command(inspect);
-        if (*verify_cmd) return murk::cli::verify_command(verify);
-        if (*solve_cmd) return murk::cli::solve_command(solve, joined(argc, argv));
-        if (*mesh_cmd) return murk::cli::mesh_command(mesh);
+        if (*run_cmd) status = murk::cli::run_command(run, joined(argc, argv));
+        else if (*inspect_cmd) status = murk::cli::inspect_command(inspect);
+        else if (*merge_cmd) status = murk::cli::merge_command(merge, joined(argc, argv));
+        else if (*verify_cmd) status = murk::cli::verify_command(verify);
+        else if (*solve_cmd) status = murk::cli::solve_command(solve, joined(argc, argv));
+        else if (*mesh_cmd) status = murk::cli::mesh_command(mesh);
     } catch (const murk::InputError& e) {
-        std::fprintf(stderr, "murk: %s\n", e.what());
-        return 2;
+        return fail(2, e.what());
     } catch (const std::bad_alloc&) {
-        std::fprintf(stderr, "murk: out of memory (try a coarser mesh: a larger panel_size)\n");
-        return 1;
+        return fail(1, "out of memory (try a coarser mesh: a larger panel_size)");
     } catch (const std::exception& e) {
-        std::fprintf(stderr, "murk: failed: %s\n", e.what());
-        return 1;
+        return fail(1, std::string("failed: ") + e.what());
     }
-    return 0;
+    murk::cli::finish_ranks();
+    return status;
 }
