@@ -1,6 +1,7 @@
 #include "geometry/clearance.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 #include "geometry/spatial_index.hpp"
 #include "geometry/triangle_distance.hpp"
 #include "geometry/triangle_intersection.hpp"
@@ -183,7 +184,7 @@ void require_clearance(const std::vector<const TriangleMesh*>& meshes, double mi
         for (std::size_t j = i + 1; j < meshes.size(); ++j) {
             const TriangleMesh &a = *meshes[i], &b = *meshes[j];
             if (a.triangles.empty() || b.triangles.empty()) continue;
-            const std::string pair = "surfaces '" + label(a, i) + "' and '" + label(b, j) + "'";
+            const std::string pair = "surfaces " + in_quotes(label(a, i)) + " and " + in_quotes(label(b, j));
             const BgBox ba = mesh_box(a), bb = mesh_box(b);
             const double d = box_distance(ba, bb) > min_gap ? box_distance(ba, bb) : min_distance(a, b);
             if (d == 0.0) throw InputError(pair + " touch or intersect (clearance 0 m)");
@@ -191,9 +192,9 @@ void require_clearance(const std::vector<const TriangleMesh*>& meshes, double mi
                 throw InputError(pair + " are closer than " + num(min_gap) + " m (clearance " + num(d) + " m)");
             // Disjoint surfaces: one is inside the other iff any of its vertices is.
             if (bg::covered_by(ba, bb) && contains_point(b, a.corner(0, 0)))
-                throw InputError("surface '" + label(a, i) + "' lies inside surface '" + label(b, j) + "'");
+                throw InputError("surface " + in_quotes(label(a, i)) + " lies inside surface " + in_quotes(label(b, j)));
             if (bg::covered_by(bb, ba) && contains_point(a, b.corner(0, 0)))
-                throw InputError("surface '" + label(b, j) + "' lies inside surface '" + label(a, i) + "'");
+                throw InputError("surface " + in_quotes(label(b, j)) + " lies inside surface " + in_quotes(label(a, i)));
         }
 }
 

@@ -144,6 +144,12 @@ TEST_CASE("case limits: lists longer than their cap") {
     // values of one axis
     expect_has(refusal(kBody + kPrey + "[sweep]\nsize = [" + repeated("\"1 mm\"", 100001) + "]\n"),
               "sweep.size: expected at most 100000 values, got an array of 100001");
+    // refinement zones
+    std::string zones = kBody;
+    zones.replace(zones.find("[fish]\n"), 7,
+                  repeated("[[mesh.zone]]\ncentre = [\"3 cm\", \"7 mm\", \"0 cm\"]\nradius = \"5 mm\"\npanel_size = \"1 mm\"\n", 1001, "") +
+                      "[fish]\n");
+    expect_has(refusal(zones), "case.toml:4: mesh.zone: expected at most 1000 [[mesh.zone]] tables, got 1001");
     // receptor zones
     expect_has(refusal(kBody + "[detection]\nreceptor_noise = \"5 uV\"\nreceptor_density = \"20 cm^-2\"\nreceptor_zones = [" +
                       repeated("{ from = 0, to = 1, density = \"1 cm^-2\" }", 1001) + "]\n"),

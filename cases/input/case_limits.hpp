@@ -15,6 +15,7 @@ constexpr std::size_t kMaxPointSources = 100000;   // all point sources of a cas
 constexpr std::size_t kMaxProbePoints = 1000000;   // all probe points of a case
 constexpr std::size_t kMaxProfileStations = 1000;  // stations of a fish profile
 constexpr std::size_t kMaxReceptorZones = 1000;    // [detection] receptor_zones
+constexpr std::size_t kMaxMeshZones = 1000;        // [[mesh.zone]] tables
 constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (array or range); their product,
                                                    // the sweep's points, murk run checks against memory
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes

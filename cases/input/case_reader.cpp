@@ -340,10 +340,10 @@ MeshZoneSpec read_mesh_zone(const Section& sec) {
     z.source = source_line(sec);
     const toml::node& centre = required(sec, "centre", "a point [x, y, z] near the skin");
     z.centre_m = read_lengths3(sec, "centre", centre, false);
-    z.centre_source = SourceLine{sec.ctx.file, line_of(centre), sec.key_path("centre")};
+    z.centre_source = SourceLine{printable(sec.ctx.file), line_of(centre), sec.key_path("centre")};
     z.radius_m = required_positive(sec, "radius", Dimension::length);
     z.panel_size_m = required_positive(sec, "panel_size", Dimension::length);
-    z.panel_size_source = SourceLine{sec.ctx.file, line_of(*sec.find("panel_size")), sec.key_path("panel_size")};
+    z.panel_size_source = SourceLine{printable(sec.ctx.file), line_of(*sec.find("panel_size")), sec.key_path("panel_size")};
     return z;
 }
 
@@ -357,6 +357,9 @@ MeshSpec read_mesh(const Section& sec) {
         fail(sec.find("far_ratio") ? sec.where("far_ratio") : sec.where("near_ratio"),
              "far_ratio (" + format_number(m.far_ratio) + ") must not be smaller than near_ratio (" +
                  format_number(m.near_ratio) + ")");
+    if (const toml::node* zones = sec.find("zone"); zones && zones->is_array() && zones->as_array()->size() > kMaxMeshZones)
+        fail(sec.where("zone"), "expected at most " + std::to_string(kMaxMeshZones) + " [[mesh.zone]] tables, got " +
+                                    std::to_string(zones->as_array()->size()));
     read_tables(sec, "zone", [&](const Section& zs, std::size_t) { m.zones.push_back(read_mesh_zone(zs)); });
     return m;
 }

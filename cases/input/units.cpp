@@ -162,8 +162,8 @@ std::string unit_syntax_problem(const std::string& unit) {
         if (unit.find(log) != std::string::npos)
             return in_quotes(unit) + " is not a plain unit (logarithmic units are not allowed)";
     if (unit.find("sqrt") != std::string::npos || unit.find("√") != std::string::npos)
-        return "a square root is only understood as a trailing '/sqrt(Hz)' of a noise density, not in '" +
-               unit + "'";
+        return "a square root is only understood as a trailing '/sqrt(Hz)' of a noise density, not in " +
+               in_quotes(unit);
     for (std::size_t i = 0; i < unit.size(); ++i) {
         const bool power = unit[i] == '^' || (unit[i] == '*' && i + 1 < unit.size() && unit[i + 1] == '*');
         if (power) {
