@@ -171,6 +171,9 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
     if (!options.force && std::filesystem::exists(options.output_path))
         throw InputError(options.output_path + " exists; pass --force to replace it");
+    const std::filesystem::path folder = std::filesystem::path(options.output_path).parent_path();
+    if (!folder.empty() && !std::filesystem::is_directory(folder))
+        throw InputError(options.output_path + ": directory " + folder.string() + " does not exist");
     const QuadratureOptions quad = quadrature_options(spec);
 
     SolvedCase<S> solved;
@@ -190,6 +193,8 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     on_stop(OnStop::finish_work);  // a result is being written: a stop waits until it is complete
     try {
         write_solved(spec, options, solved, quad, base, pert);
+    } catch (const InputError&) {
+        throw;
     } catch (const std::runtime_error& e) {
         throw std::runtime_error(std::string(e.what()) + "; no result was kept: make room and solve again");
     }

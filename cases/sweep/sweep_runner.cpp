@@ -111,6 +111,8 @@ public:
         warn_if_all_masked(plan);
         try {
             write_result_from_journal(spec_, options_, plan, baselines, journal, peak_memory_MiB());
+        } catch (const InputError&) {
+            throw;
         } catch (const std::runtime_error& e) {
             // Nothing is lost: the journal holds every point, and a resume writes the result again.
             throw std::runtime_error(std::string(e.what()) + "; every point is kept in " + journal.path() +
