@@ -286,13 +286,16 @@ grep -q "share 1/3: resuming from .*part-1.h5.partial" "$run/logs/share-1.log" \
 [ "$(job_state "$merge")" = CANCELLED ] || fail "the merge after a failed share: $(job_state "$merge"), expected CANCELLED"
 [ ! -e "$run/case.h5" ] || fail "a merge ran although share 2 failed"
 
-# ---- --rerun: share 2 again (it resumes), and a new merge
-out="$("$submit" --rerun "$run" 2>&1)" || fail "submit_sweep.sh --rerun failed: $out"
+# ---- --rerun: share 2 again (it resumes), and a new merge; with a longer time
+# limit given after --, as after a wall-time kill
+out="$("$submit" --rerun "$run" -- --time=25 2>&1)" || fail "submit_sweep.sh --rerun failed: $out"
 echo "$out"
 grep -q "^rerunning shares 2 of 3 " <<< "$out" || fail "--rerun should resubmit share 2 alone: $out"
 array2="$(sed -n 's/^array job: *\([0-9]*\).*/\1/p' <<< "$out")"
 merge2="$(sed -n 's/^merge job: *\([0-9]*\).*/\1/p' <<< "$out")"
 if [ -n "$array2" ] && [ -n "$merge2" ]; then
+  grep -q "TimeLimit=00:25:00 " <<< "$(scontrol show job "$merge2")" \
+    || fail "the rerun's merge did not get the time limit given after --: $(scontrol show job "$merge2" | grep -o 'TimeLimit=[^ ]*')"
   wait_for_jobs "$array2" "$merge2" 240 || fail "the rerun and its merge were still queued after 240 s: $(squeue)"
   [ "$(job_state "$merge2")" = COMPLETED ] || fail "the merge after the rerun: $(job_state "$merge2"): $(cat "$run"/logs/merge-*.log 2>&1)"
   grep -q "share 2/3: resuming from .*part-2.h5.partial" "$run/logs/share-2.log" \

@@ -2,7 +2,7 @@
 # Runs a murk sweep on a Slurm cluster as a job array plus a merge job.
 #
 #   tools/cluster/submit_sweep.sh [options] CASE.toml DIR [-- SBATCH_OPTIONS...]
-#   tools/cluster/submit_sweep.sh --rerun DIR
+#   tools/cluster/submit_sweep.sh --rerun DIR [-- SBATCH_OPTIONS...]
 #
 # 1. `murk run CASE.toml --estimate --threads T` (T = --cpus) gives the time of
 #    the fixed part (the body assembled and factored, which every task repeats)
@@ -18,7 +18,8 @@
 # the merge is then dropped from the queue (its dependency can no longer be met).
 # When every job of the submission has left the queue, `--rerun DIR` resubmits
 # the shares whose part is not complete, with the same settings (they resume
-# from their journals), and a new merge. A task that Slurm requeues by itself
+# from their journals), and a new merge; sbatch options after -- are added to
+# the first submission's (e.g. -- --time=240 for a longer limit). A task that Slurm requeues by itself
 # (node failure, scontrol requeue) resumes in the same way, with no rerun.
 #
 # Options:
@@ -137,12 +138,18 @@ if [ "$rerun" -eq 1 ]; then
   [ -r "$dir/submission" ] || die "$dir: no submission of submit_sweep.sh there (no $dir/submission)"
   # The settings of the first submission: murk, case_file, shares, cpus, minutes,
   # mem_mib, output, sbatch_extra, then the job ids of each submission.
+  # Options after -- on this command line come after the first submission's, so
+  # they win where sbatch reads an option twice: `--rerun DIR -- --time=240`
+  # gives the resubmitted tasks and the merge a longer limit.
+  extra_now=("${sbatch_extra[@]}")
   # shellcheck source=/dev/null
   . "$dir/submission"
+  sbatch_extra+=("${extra_now[@]}")
   # A job of the last submission still queued or running would race with the
   # rerun (a task writing the part that a new task resumes): wait for it instead.
   if [ "$dry_run" -eq 0 ]; then
-    queued="$(squeue -h -u "$(id -un)" -o '%F %A' | awk -v a="$array_job" -v m="$merge_job" '$1 == a || $2 == m' || true)"
+    queue="$(squeue -h -u "$(id -un)" -o '%F %A')" || die "squeue failed: cannot tell whether the last submission still runs"
+    queued="$(awk -v a="$array_job" -v m="$merge_job" '$1 == a || $2 == m' <<< "$queue")"
     [ -z "$queued" ] || die "jobs of the last submission ($array_job, $merge_job) are still in the queue; wait until they end or scancel them"
   fi
   missing=()
