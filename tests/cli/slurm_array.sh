@@ -128,16 +128,17 @@ plan_value() { sed -n "s/^$1: *\([0-9.]*\).*/\1/p" <<< "$2"; }
 long="$("$submit" --dry-run --cpus 1 --task-minutes 100000 case.toml "$dir/dry" 2>&1)" \
   || fail "dry run with a long aimed task: $long"
 [ "$(plan_value tasks "$long")" = 1 ] || fail "a sweep far shorter than the aimed task length should be one task: $long"
-short="$("$submit" --dry-run --cpus 1 --task-minutes 0.001 --max-tasks 4 --min-minutes 3 case.toml "$dir/dry" 2>&1)" \
+short="$("$submit" --dry-run --cpus 1 --task-minutes 0.001 --max-tasks 4 --min-minutes 1 case.toml "$dir/dry" 2>&1)" \
   || fail "dry run with a short aimed task: $short"
 n="$(plan_value tasks "$short")"
 # A task aimed at 0.06 s, against points that take seconds: more than one task,
 # and no more than --max-tasks.
 { [ -n "$n" ] && [ "$n" -ge 2 ] && [ "$n" -le 4 ]; } || fail "a short aimed task should give 2..4 tasks (--max-tasks 4), got '$n': $short"
 limit="$(plan_value limit "$short")"; each="$(sed -n 's/^each task: about \([0-9.]*\) s.*/\1/p' <<< "$short")"
-# The limit covers twice the estimated task plus 2 minutes, and the minimum.
-{ [ -n "$limit" ] && [ -n "$each" ] && awk -v m="$limit" -v t="$each" 'BEGIN { exit !(m * 60 >= 2 * t + 120 && m >= 3) }'; } \
-  || fail "time limit '$limit' min below 2 x '$each' s + 2 min or below --min-minutes 3: $short"
+# The limit covers twice the estimated task plus 2 minutes (above the minimum of
+# 1 minute here), in whole minutes.
+{ [ -n "$limit" ] && [ -n "$each" ] && awk -v m="$limit" -v t="$each" 'BEGIN { exit !(m == int(m) && m * 60 >= 2 * t + 120) }'; } \
+  || fail "time limit '$limit' min below 2 x '$each' s + 2 min: $short"
 grep -q -- "--array=1-$n .*--cpus-per-task=1 .*--time=$limit " <<< "$short" \
   || fail "the dry run's array command lacks --array=1-$n, --cpus-per-task=1 or --time=$limit: $short"
 grep -q -- "--dependency=afterok:.*merge_task.sh" <<< "$short" || fail "the dry run's merge command has no afterok dependency: $short"
