@@ -921,7 +921,10 @@ H5FileId open_file(const std::string& path, unsigned flags) {
         const std::string reason = hdf5_reason();
         if (flags == H5F_ACC_RDWR && ::access(path.c_str(), W_OK) != 0)
             throw InputError(path + ": cannot write to file, it is read-only");
-        throw std::runtime_error("H5Fopen failed on " + path + ": " + reason);
+        // An HDF5 file that does not open is one cut short or damaged (a copy that stopped, a
+        // disk that filled): a problem of the file given, said in one line.
+        throw InputError(path + ": is damaged or cut short, HDF5 cannot open it (" + reason +
+                         "); use a complete copy, or make it again");
     }
     return id;
 }
