@@ -24,6 +24,10 @@ namespace fs = std::filesystem;
 // and turn into one clear message. Switched off once, before any other HDF5 call of ours.
 void silence_hdf5() {
     static const bool silenced = [] {
+        // No clean-up at exit by HDF5 itself: after a failed close (a full disk) it tries to
+        // flush the file again while the process ends, and crashes. murk closes every file
+        // it finishes explicitly, so there is nothing left for that clean-up to do.
+        H5dont_atexit();
         H5Eset_auto2(H5E_DEFAULT, nullptr, nullptr);
         return true;
     }();
@@ -43,7 +47,21 @@ std::string hdf5_reason() {
         },
         &reason);
     H5Eclear2(H5E_DEFAULT);
-    return reason.empty() ? "no reason given by HDF5" : reason;
+    if (reason.empty()) return "no reason given by HDF5";
+    // A failed write of the operating system carries its own words ("..., errno = 28, error
+    // message = 'No space left on device', ..."): those say why, in one line.
+    const std::string key = "error message = '";
+    const std::size_t at = reason.find(key);
+    if (at != std::string::npos) {
+        const std::size_t end = reason.find('\'', at + key.size());
+        const std::string system = reason.substr(at + key.size(), end == std::string::npos ? std::string::npos : end - at - key.size());
+        const bool full = system.find("No space left") != std::string::npos || system.find("too large") != std::string::npos ||
+                          system.find("quota") != std::string::npos;
+        return (full ? "the disk is full or a file-size limit was reached (" : "the system refused a write (") + system + ")";
+    }
+    for (char& c : reason)
+        if (c == '\n' || c == '\r') c = ' ';
+    return reason;
 }
 
 std::string object_path(hid_t id) {
@@ -903,7 +921,10 @@ H5FileId open_file(const std::string& path, unsigned flags) {
         const std::string reason = hdf5_reason();
         if (flags == H5F_ACC_RDWR && ::access(path.c_str(), W_OK) != 0)
             throw InputError(path + ": cannot write to file, it is read-only");
-        throw std::runtime_error("H5Fopen failed on " + path + ": " + reason);
+        // An HDF5 file that does not open is one cut short or damaged (a copy that stopped, a
+        // disk that filled): a problem of the file given, said in one line.
+        throw InputError(path + ": is damaged or cut short, HDF5 cannot open it (" + reason +
+                         "); use a complete copy, or make it again");
     }
     return id;
 }

@@ -159,6 +159,10 @@ void require_finite(const Solution<S>& solution, const char* what) {
 }
 
 template <class S>
+void write_solved(const CaseSpec& spec, const SolveOptions& options, const SolvedCase<S>& solved,
+                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert);
+
+template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     // Refuse an existing result or an unusable name before spending time on the solve.
     // Refuse an existing result or an unusable name before spending time on the
@@ -167,6 +171,9 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     check_xdmf_file_name(std::filesystem::path(options.output_path).filename().string());
     if (!options.force && std::filesystem::exists(options.output_path))
         throw InputError(options.output_path + " exists; pass --force to replace it");
+    const std::filesystem::path folder = std::filesystem::path(options.output_path).parent_path();
+    if (!folder.empty() && !std::filesystem::is_directory(folder))
+        throw InputError(options.output_path + ": directory " + folder.string() + " does not exist");
     const QuadratureOptions quad = quadrature_options(spec);
 
     SolvedCase<S> solved;
@@ -184,6 +191,19 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     require_finite(solved.perturbed_solution, "the scene with its objects");
 
     on_stop(OnStop::finish_work);  // a result is being written: a stop waits until it is complete
+    try {
+        write_solved(spec, options, solved, quad, base, pert);
+    } catch (const InputError&) {
+        throw;
+    } catch (const std::runtime_error& e) {
+        throw std::runtime_error(std::string(e.what()) + "; no result was kept: make room and solve again");
+    }
+}
+
+// Stage write (and summarize): the result file, its sidecar, the summary.
+template <class S>
+void write_solved(const CaseSpec& spec, const SolveOptions& options, const SolvedCase<S>& solved,
+                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert) {
     H5Output output(options.output_path, options.force, "pass --force to replace it");
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);

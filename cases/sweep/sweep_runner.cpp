@@ -109,7 +109,15 @@ public:
         // analysis and commit: the result file, written once from the journal.
         warn_about_checks(plan);
         warn_if_all_masked(plan);
-        write_result_from_journal(spec_, options_, plan, baselines, journal, peak_memory_MiB());
+        try {
+            write_result_from_journal(spec_, options_, plan, baselines, journal, peak_memory_MiB());
+        } catch (const InputError&) {
+            throw;
+        } catch (const std::runtime_error& e) {
+            // Nothing is lost: the journal holds every point, and a resume writes the result again.
+            throw std::runtime_error(std::string(e.what()) + "; every point is kept in " + journal.path() +
+                                     ": make room and run again with --resume");
+        }
         journal.discard();
         stats_.wall_seconds = since_start();
         stats_.peak_memory_MiB = peak_memory_MiB();

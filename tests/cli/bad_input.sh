@@ -50,6 +50,13 @@ write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/8 mm/')" zone_coarse.to
 expect_bad "zone coarser than the body" "mesh.zone[1].panel_size: 8 mm is larger" "$murk" solve "$dir/zone_coarse.toml" -o "$dir/out.h5"
 write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/1 mm/; s/"7.5 mm"/"4 cm"/')" zone_off.toml
 expect_bad "zone off the body" "mesh.zone[1].centre: the zone does not reach" "$murk" mesh "$dir/zone_off.toml"
+# Result files that are damaged or cut short, given to every command that reads one.
+"$murk" solve "$base" -o "$dir/whole.h5" --quiet 2> /dev/null
+head -c 20000 "$dir/whole.h5" > "$dir/cut.h5"
+expect_bad "a result cut short, to murk inspect" "cut.h5: is damaged or cut short" "$murk" inspect "$dir/cut.h5"
+expect_bad "a result cut short, to murk merge" "cut.h5: is damaged or cut short" "$murk" merge "$dir/cut.h5" -o "$dir/m.h5"
+printf 'not a journal' > "$dir/j.h5.partial"
+expect_bad "a damaged journal, to murk run --resume" "is not a journal" "$murk" run "$src/cases/examples/fish_map.toml" -o "$dir/j.h5" --resume
 expect_bad "unknown subcommand" "subcommand" "$murk" frobnicate
 expect_bad "unknown option" "--colour" "$murk" solve "$base" -o "$dir/out.h5" --colour
 
