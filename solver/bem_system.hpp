@@ -12,10 +12,10 @@
 // the representation of the interior potential; one row per electrode (current
 // balance, or its prescribed potential). Water sees the image Green's function
 // when an insulating plane bounds it.
+#include "geometry/eigen_core.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 
-#include <Eigen/Core>
 #include <vector>
 
 namespace murk {

@@ -6,7 +6,7 @@
 // vector products, and no matrix of the operator exists. (Eigen's unsupported
 // GMRES wants a matrix type; a callback keeps this one short.) Arnoldi with
 // modified Gram-Schmidt, Givens rotations in their complex form.
-#include <Eigen/Core>
+#include "geometry/eigen_core.hpp"
 
 #include <cmath>
 #include <complex>
