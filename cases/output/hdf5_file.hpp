@@ -1,6 +1,6 @@
 #pragma once
-// murk's thin layer over the HDF5 C API: result files that h5py, netCDF-4 and xarray read
-// without murk (DESIGN.md §5).
+// murk's thin layer over the HDF5 C API: result files that h5py and netCDF-4 readers read
+// without murk (the contract is cases/RESULT_LAYOUT.md).
 //
 //   H5Output out("OUT.h5", force, "pass --force to replace it");   // writes OUT.h5.partial
 //   H5Group mesh = out.root().group("mesh/body");

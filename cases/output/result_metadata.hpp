@@ -1,5 +1,5 @@
 #pragma once
-// Root attributes every murk result file carries (DESIGN.md §5): what made it,
+// Root attributes every murk result file carries (cases/RESULT_LAYOUT.md): what made it,
 // from which case, when, and under which approximation and accuracy switches.
 #include "cases/input/case_spec.hpp"
 #include "cases/output/hdf5_file.hpp"

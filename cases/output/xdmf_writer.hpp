@@ -1,5 +1,5 @@
 #pragma once
-// The XDMF 3 sidecar of a result file (DESIGN.md §5): a small XML text beside OUT.h5 that
+// The XDMF 3 sidecar of a result file (cases/RESULT_LAYOUT.md): a small XML text beside OUT.h5 that
 // tells ParaView and other XDMF readers which HDF5 datasets hold the triangle meshes and
 // the values per panel, so that surface results open without conversion. The sidecar holds
 // no numbers itself: it points into the HDF5 file, which must stay beside it.
@@ -8,7 +8,7 @@
 //                      {{"/mesh/fish", n_vertices, n_triangles,
 //                        {{"baseline transdermal voltage (V)", "/baseline/fish/transdermal_voltage"}}}});
 //
-// Types the sidecar declares, as murk writes them (cases/solve_output.cpp): vertices are
+// Types the sidecar declares, as murk writes them (cases/solve/solve_output.cpp): vertices are
 // (n, 3) 64-bit reals, triangles (t, 3) 32-bit integers, attributes (t) 64-bit reals.
 // Complex values cannot be described as one scalar: the caller writes a real dataset (the
 // magnitude, say) and names that.

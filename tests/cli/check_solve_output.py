@@ -1,6 +1,6 @@
 #!/usr/bin/python3
 """Reads a `murk solve` result the way a user would (h5py, no murk) and checks
-the layout contract of DESIGN.md §5: root metadata, units and long_name on every
+the layout contract of cases/RESULT_LAYOUT.md: root metadata, units and long_name on every
 dataset, finite values, and the meshes matching the panel values.
 Usage: check_solve_output.py OUT.h5 [--fish]   (--fish adds order-of-magnitude checks)"""
 import hashlib
@@ -48,7 +48,7 @@ with h5py.File(path, "r") as f:
             fail(f"{surface}: triangle indices out of range")
 
     if fish:
-        # Orders of magnitude of the trade (common practice, DESIGN.md §2): a baseline
+        # Orders of magnitude of the trade (common practice, DEVELOPERS.md "Physics and method"): a baseline
         # transdermal voltage of the order of a millivolt, and a prey-sized object a
         # couple of centimetres away changing it by microvolts or less.
         base = np.abs(f["baseline/fish/transdermal_voltage"][()]).max()
