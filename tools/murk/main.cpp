@@ -1,10 +1,12 @@
 // The murk command line: parses arguments (the only file that includes CLI11,
 // which is slow to compile) and hands each subcommand a plain options struct.
 #include "geometry/input_error.hpp"
+#include "geometry/internal_check.hpp"
 #include "tools/murk/commands.hpp"
 
 #include <CLI/CLI.hpp>
 #include <cstdio>
+#include <cstdlib>
 #include <exception>
 
 namespace {
@@ -66,6 +68,9 @@ int main(int argc, char** argv) {
     }
 
     try {
+        // The one way to make a correct murk fail an internal check, so that
+        // tests/cli/internal_error.sh sees how such a failure reaches the user.
+        MURK_CHECK(std::getenv("MURK_TEST_INTERNAL_ERROR") == nullptr, "set only by the test of internal errors");
         if (*run_cmd) return murk::cli::run_command(run, joined(argc, argv));
         if (*inspect_cmd) return murk::cli::inspect_command(inspect);
         if (*verify_cmd) return murk::cli::verify_command(verify);
@@ -74,6 +79,9 @@ int main(int argc, char** argv) {
     } catch (const murk::InputError& e) {
         std::fprintf(stderr, "murk: %s\n", e.what());
         return 2;
+    } catch (const murk::InternalError& e) {  // "internal error at FILE:LINE: CONDITION (WHY)"
+        std::fprintf(stderr, "murk: %s\n", e.what());
+        return 1;
     } catch (const std::bad_alloc&) {
         std::fprintf(stderr, "murk: out of memory (try a coarser mesh: a larger panel_size)\n");
         return 1;
