@@ -5,8 +5,8 @@
 // Why: with -march=native on an AVX-512 machine, Eigen's packet code calls GCC 12's
 // _mm512_undefined_* intrinsics, which make their "undefined" value by initialising
 // a variable with itself. After inlining, GCC 12 reports each use as
-// -Wmaybe-uninitialized (about 1,500 times in a Release build; at -O1, in the
-// sanitizer build, some as -Wuninitialized), although the value is undefined on
+// -Wmaybe-uninitialized (about 1,500 times in a Release build; at -O1, as in a Sanitize
+// build for this CPU, some as -Wuninitialized), although the value is undefined on
 // purpose and never read. GCC attaches the warning to the intrinsic's line in
 // <immintrin.h>, which Eigen/Core includes first; silencing both warnings for the
 // lines included here silences exactly those reports and leaves them on for murk's
