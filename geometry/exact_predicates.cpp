@@ -1,6 +1,14 @@
 #include "geometry/exact_predicates.hpp"
 
+// GCC 12 reports -Wmaybe-uninitialized inside Boost.Multiprecision once
+// boost::rational's normalisation of a cpp_int is inlined here: cpp_int keeps its
+// limbs in a union and chooses the member in use by a flag, and GCC flags the member
+// that is not in use. The report is false and attached to Boost's own lines, so it
+// is silenced for those lines alone.
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
 #include <boost/multiprecision/cpp_int.hpp>
+#pragma GCC diagnostic pop
 #include <cmath>
 
 namespace murk {

@@ -5,9 +5,8 @@
 // geometric predicates"); otherwise the determinant is recomputed in exact rational
 // arithmetic (Boost.Multiprecision cpp_rational), which happens only for (nearly)
 // degenerate configurations.
+#include "geometry/eigen_core.hpp"
 #include "geometry/mesh.hpp"
-
-#include <Eigen/Core>
 
 namespace murk {
 

@@ -7,7 +7,7 @@
 //    (v1 - v0) x (v2 - v0) points out of the enclosed region;
 //  - region[t] is a small integer tag per triangle (0 = untagged); region_names
 //    maps a tag to a name where one is known (electrodes, skin zones).
-#include <Eigen/Core>
+#include "geometry/eigen_core.hpp"
 #include <Eigen/Geometry>  // cross products
 #include <array>
 #include <string>

@@ -1,8 +1,7 @@
 #pragma once
 // Rigid placement and mirroring of meshes. All keep panels oriented outward.
+#include "geometry/eigen_core.hpp"
 #include "geometry/mesh.hpp"
-
-#include <Eigen/Core>
 
 namespace murk {
 

@@ -1,5 +1,7 @@
 #include "geometry/vertex_welding.hpp"
 
+#include "geometry/internal_check.hpp"
+
 #include <array>
 #include <cmath>
 #include <cstdint>
@@ -25,7 +27,11 @@ void weld_vertices(TriangleMesh& mesh, double tolerance) {
     const std::size_t nv = mesh.vertices.size();
     std::vector<char> used(nv, 0);
     for (const Triangle& t : mesh.triangles)
-        for (int v : t) used[v] = 1;
+        for (int v : t) {
+            // The readers that weld build their triangles from the vertices they read.
+            MURK_CHECK(v >= 0 && static_cast<std::size_t>(v) < nv, "a triangle refers to a vertex of its mesh");
+            used[v] = 1;
+        }
     std::vector<int> target(nv, -1);
     std::vector<Vec3> kept;
     if (tolerance > 0.0) {

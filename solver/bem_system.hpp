@@ -1,5 +1,6 @@
 #pragma once
-// The multi-domain direct collocation system of a scene (DESIGN.md §3).
+// The multi-domain direct collocation system of a scene (DEVELOPERS.md, "Physics and
+// method" and "The formulation in one paragraph").
 //
 // Unknowns per panel: the water-side potential u and q = j / sigma_water, the
 // outward normal current density scaled so that both columns have similar size
@@ -12,10 +13,10 @@
 // the representation of the interior potential; one row per electrode (current
 // balance, or its prescribed potential). Water sees the image Green's function
 // when an insulating plane bounds it.
+#include "geometry/eigen_core.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 
-#include <Eigen/Core>
 #include <vector>
 
 namespace murk {

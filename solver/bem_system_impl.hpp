@@ -4,6 +4,7 @@
 #include "solver/bem_system.hpp"
 
 #include "geometry/input_error.hpp"
+#include "geometry/internal_check.hpp"
 #include "solver/incident_field.hpp"
 #include "solver/layer_blocks.hpp"
 #include "solver/panel_set.hpp"
@@ -75,6 +76,22 @@ SystemLayout make_layout(const Scene<S>& scene) {
     layout.electrode_offset = offset;
     layout.size = offset + static_cast<Eigen::Index>(scene.electrodes.size());
     return layout;
+}
+
+// Whether `layout` is the one make_layout gives for `scene`: blocks, rows and
+// solutions are indexed by a layout passed beside the scene, and one made for
+// another scene would index the wrong unknowns without any error.
+template <class S>
+bool is_layout_of(const SystemLayout& layout, const Scene<S>& scene) {
+    const SystemLayout own = make_layout(scene);
+    if (own.size != layout.size || own.electrode_offset != layout.electrode_offset ||
+        own.surfaces.size() != layout.surfaces.size())
+        return false;
+    for (std::size_t s = 0; s < own.surfaces.size(); ++s)
+        if (own.surfaces[s].offset != layout.surfaces[s].offset || own.surfaces[s].panels != layout.surfaces[s].panels ||
+            own.surfaces[s].two_sided != layout.surfaces[s].two_sided)
+            return false;
+    return true;
 }
 
 template <class S>
@@ -150,8 +167,12 @@ SystemLayout system_layout(const Scene<S>& scene) {
 template <class S>
 std::vector<Eigen::Index> part_unknowns(const Scene<S>& scene, const SystemLayout& layout,
                                         const std::vector<std::size_t>& surfaces) {
+    MURK_CHECK(detail::is_layout_of(layout, scene), "the layout was made for this scene");
     std::vector<char> chosen(scene.surfaces.size(), 0);
-    for (std::size_t s : surfaces) chosen.at(s) = 1;
+    for (std::size_t s : surfaces) {
+        MURK_CHECK(s < scene.surfaces.size(), "a part names surfaces of its scene");
+        chosen[s] = 1;
+    }
     std::vector<Eigen::Index> out;
     for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
         if (!chosen[s]) continue;
@@ -178,7 +199,13 @@ inline std::vector<Eigen::Index> local_index(Eigen::Index size, const std::vecto
         for (Eigen::Index i = 0; i < size; ++i) local[i] = i;
         return local;
     }
-    for (std::size_t i = 0; i < selection->size(); ++i) local.at((*selection)[i]) = static_cast<Eigen::Index>(i);
+    for (std::size_t i = 0; i < selection->size(); ++i) {
+        const Eigen::Index global = (*selection)[i];
+        MURK_CHECK(global >= 0 && global < size, "selected rows and columns are unknowns of the system");
+        // A repeated index would leave a row or column of the block unassembled (zero).
+        MURK_CHECK(local[global] < 0, "no row or column is selected twice");
+        local[global] = static_cast<Eigen::Index>(i);
+    }
     return local;
 }
 
@@ -190,6 +217,7 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
                         const std::vector<Eigen::Index>* rows, const std::vector<Eigen::Index>* cols,
                         MatrixX<S>& matrix, VectorX<S>& rhs) {
     check_scene(scene);
+    MURK_CHECK(is_layout_of(layout, scene), "the layout was made for this scene");
     const Eigen::Index n = layout.size;
     const std::vector<Eigen::Index> row_of = local_index(n, rows), col_of = local_index(n, cols);
     matrix.resize(rows ? Eigen::Index(rows->size()) : n, cols ? Eigen::Index(cols->size()) : n);  // keeps storage of equal size
@@ -342,6 +370,9 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
         rhs(row_of[row]) =
             electrode.drive == ElectrodeDrive::current ? electrode.value / (sigma_w * total_area) : S(0);
     }
+    // Between the centroids of checked, separated meshes every panel integral is
+    // finite; a pass over the whole block is left to builds with assertions.
+    MURK_ASSERT(matrix.allFinite(), "every entry of an assembled block is finite");
 }
 
 }  // namespace detail
@@ -372,11 +403,20 @@ void assemble_block_into(const Scene<S>& scene, const SystemLayout& layout, cons
 template <class S>
 VectorX<S> solve_dense(LinearSystem<S>& system) {
     Eigen::PartialPivLU<MatrixX<S>> lu(system.matrix);
-    return lu.solve(system.rhs);
+    VectorX<S> x = lu.solve(system.rhs);
+    // LU with partial pivoting is backward stable: the residual is of the order of
+    // rounding times |A| |x| (a growth factor near one in practice); 1e-8 leaves a
+    // wide margin. One more product with the matrix, so only with assertions.
+    MURK_ASSERT((system.matrix * x - system.rhs).norm() <=
+                    1e-8 * (system.matrix.norm() * x.norm() + system.rhs.norm()),
+                "the dense solve satisfies its system");
+    return x;
 }
 
 template <class S>
 Solution<S> unpack_solution(const Scene<S>& scene, const SystemLayout& layout, const VectorX<S>& x) {
+    MURK_CHECK(detail::is_layout_of(layout, scene), "the layout was made for this scene");
+    MURK_CHECK(x.size() == layout.size, "one value per unknown of the layout");
     Solution<S> sol;
     const S sigma_w = scene.water_conductivity;
     sol.electrode_potential.resize(scene.electrodes.size());
@@ -429,6 +469,14 @@ template <class S>
 VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, const Eigen::Matrix3Xd& points,
                         const QuadratureOptions& options, bool induced_only) {
     const Eigen::Index m = points.cols();
+    MURK_CHECK(solution.surfaces.size() == scene.surfaces.size(), "the solution is of this scene");
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        const auto panels = static_cast<Eigen::Index>(scene.surfaces[s].mesh.size());
+        const SurfaceSolution<S>& sol = solution.surfaces[s];
+        MURK_CHECK(sol.outer_potential.size() == panels && sol.current_density.size() == panels &&
+                       (scene.surfaces[s].kind == InterfaceKind::sealed || sol.inner_potential.size() == panels),
+                   "the solution holds one value per panel of each surface");
+    }
     const std::vector<int> source_region = source_regions(scene);
     const IncidentField<S> incident = water_incident_field(scene, source_region);
 

@@ -1,5 +1,6 @@
 #include "solver/coupled_solve.hpp"
 
+#include "geometry/internal_check.hpp"
 #include <Eigen/QR>
 #include <stdexcept>
 
@@ -73,8 +74,10 @@ CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::s
     const SystemLayout layout = system_layout(scene);
     const std::vector<Eigen::Index> m = part_unknowns(scene, layout, moving);
     const std::vector<Eigen::Index> f = complement<S>(layout.size, m);
-    if (static_cast<Eigen::Index>(m.size()) != block.size || static_cast<Eigen::Index>(f.size()) != fixed.size())
-        throw std::logic_error("solve_coupled: the scene does not match its fixed part and moving block");
+    MURK_CHECK(static_cast<Eigen::Index>(m.size()) == block.size,
+               "the moving block was factored for surfaces of this scene's size");
+    MURK_CHECK(static_cast<Eigen::Index>(f.size()) == fixed.size(),
+               "the scene is the fixed part's scene with only the moving surfaces added");
 
     // Only the water rows of one part see the other part's panels (interior rows
     // see their own surface, electrode rows their own panels), so the coupling

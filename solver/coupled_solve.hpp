@@ -55,7 +55,7 @@ struct CoupledSolution {
 
 // `scene` must be fixed.scene() with the surfaces listed in `moving` (and the
 // electrodes on them) added, everything else in the same order; a mismatch of
-// sizes is a std::logic_error. When GMRES does not converge the solution is
+// sizes is a murk::InternalError (geometry/internal_check.hpp). When GMRES does not converge the solution is
 // still returned, and gmres.converged says so.
 template <class S>
 CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::size_t>& moving,

@@ -8,6 +8,7 @@
 //   p = integral over S of ( u n + y j / sigma_water ) dS
 // (the incident field's own contribution integrates to zero for any field that is
 // linear inside S, by the divergence theorem). Units: V m^2 (potential times area).
+#include "geometry/internal_check.hpp"
 #include "geometry/mesh.hpp"
 #include "solver/scene.hpp"
 
@@ -16,6 +17,9 @@ namespace murk {
 template <class S>
 Eigen::Matrix<S, 3, 1> induced_dipole_moment(const TriangleMesh& mesh, const SurfaceSolution<S>& values,
                                              S water_conductivity) {
+    const auto panels = static_cast<Eigen::Index>(mesh.size());
+    MURK_CHECK(values.outer_potential.size() == panels && values.current_density.size() == panels,
+               "the panel values belong to this mesh");
     Eigen::Matrix<S, 3, 1> p = Eigen::Matrix<S, 3, 1>::Zero();
     for (std::size_t t = 0; t < mesh.size(); ++t) {
         const Eigen::Index k = static_cast<Eigen::Index>(t);

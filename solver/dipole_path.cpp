@@ -1,5 +1,6 @@
 #include "solver/dipole_path.hpp"
 
+#include "geometry/internal_check.hpp"
 #include "solver/incident_field.hpp"
 
 namespace murk {
@@ -36,6 +37,7 @@ VectorX<S> dipole_rhs(const FixedPart<S>& fixed, const PointDipole<S>& dipole) {
 
 template <class S>
 LeadFields<S>::LeadFields(const FixedPart<S>& fixed, const MatrixX<S>& readout) : fixed_(&fixed) {
+    MURK_CHECK(readout.cols() == fixed.size(), "a readout row acts on the fixed part's unknowns");
     const MatrixX<S> lt = fixed.solve_transposed(readout.transpose());  // n x sensors: A^-T R^T
     water_.resize(readout.rows(), static_cast<Eigen::Index>(fixed.water_rows().size()));
     for (std::size_t i = 0; i < fixed.water_rows().size(); ++i)

@@ -1,5 +1,7 @@
 #include "solver/fixed_part.hpp"
 
+#include "geometry/internal_check.hpp"
+
 #include <chrono>
 
 namespace murk {
@@ -38,18 +40,21 @@ FixedPart<S>::FixedPart(Scene<S> scene, const QuadratureOptions& options) : scen
 
 template <class S>
 VectorX<S> FixedPart<S>::solve(const VectorX<S>& b) const {
+    MURK_CHECK(b.size() == size(), "a right-hand side has one row per unknown of the fixed part");
     if (size() == 0) return VectorX<S>();
     return lu_->solve(b);
 }
 
 template <class S>
 MatrixX<S> FixedPart<S>::solve(const MatrixX<S>& b) const {
+    MURK_CHECK(b.rows() == size(), "right-hand sides have one row per unknown of the fixed part");
     if (size() == 0) return MatrixX<S>(0, b.cols());
     return lu_->solve(b);
 }
 
 template <class S>
 MatrixX<S> FixedPart<S>::solve_transposed(const MatrixX<S>& b) const {
+    MURK_CHECK(b.rows() == size(), "right-hand sides have one row per unknown of the fixed part");
     if (size() == 0) return MatrixX<S>(0, b.cols());
     return lu_->transpose().solve(b);
 }

@@ -2,9 +2,9 @@
 // The part of a scene that stays while a sweep moves objects: the sensing body,
 // its electrodes and sources, and any object that does not move. Its system is
 // assembled and LU-factored once; every sweep point then costs triangular
-// solves against the stored factors (DESIGN.md §3, "Sweeps must not re-solve
-// the world"). The stored factors are only read after construction, so any
-// number of threads may solve against one FixedPart at once.
+// solves against the stored factors (DEVELOPERS.md, "How a sweep is solved").
+// The stored factors are only read after construction, so any number of threads
+// may solve against one FixedPart at once.
 #include "solver/bem_system.hpp"
 
 #include <Eigen/LU>

@@ -6,7 +6,8 @@
 // vector products, and no matrix of the operator exists. (Eigen's unsupported
 // GMRES wants a matrix type; a callback keeps this one short.) Arnoldi with
 // modified Gram-Schmidt, Givens rotations in their complex form.
-#include <Eigen/Core>
+#include "geometry/eigen_core.hpp"
+#include "geometry/internal_check.hpp"
 
 #include <cmath>
 #include <complex>
@@ -32,6 +33,8 @@ template <class S, class Apply>
 GmresResult gmres(Apply&& apply, const Eigen::Matrix<S, Eigen::Dynamic, 1>& b,
                   Eigen::Matrix<S, Eigen::Dynamic, 1>& x, double tolerance, int max_iterations, int restart = 40) {
     using Vec = Eigen::Matrix<S, Eigen::Dynamic, 1>;
+    // The tolerance a case gives was checked when the case was read.
+    MURK_CHECK(tolerance > 0.0 && max_iterations >= 0 && restart >= 1, "GMRES is called with a usable setting");
     const Eigen::Index n = b.size();
     x = Vec::Zero(n);
     GmresResult result;
@@ -58,6 +61,7 @@ GmresResult gmres(Apply&& apply, const Eigen::Matrix<S, Eigen::Dynamic, 1>& b,
         int k = 0;
         for (; k < m; ++k) {
             Vec w = apply(basis[k]);
+            MURK_CHECK(w.size() == n, "the operator maps vectors of the right-hand side's size to the same size");
             ++result.iterations;
             for (int i = 0; i <= k; ++i) {  // modified Gram-Schmidt
                 h(i, k) = basis[i].dot(w);  // conjugates basis[i]

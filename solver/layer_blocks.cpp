@@ -1,9 +1,9 @@
 #include "solver/layer_blocks.hpp"
 
+#include "geometry/internal_check.hpp"
 #include "solver/triangle_integrals.hpp"
 #include "solver/triangle_rules.hpp"
 
-#include <cassert>
 #include <cmath>
 
 namespace murk {
@@ -65,7 +65,11 @@ void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sour
                            const QuadratureOptions& options, bool targets_are_centroids, Eigen::Index first_target,
                            Eigen::Ref<Eigen::MatrixXd> single, Eigen::Ref<Eigen::MatrixXd> dbl) {
     const Eigen::Index m = targets.cols(), n = sources.size();
-    assert(single.rows() == m && single.cols() == n && dbl.rows() == m && dbl.cols() == n);
+    MURK_CHECK(single.rows() == m && single.cols() == n && dbl.rows() == m && dbl.cols() == n,
+               "the caller's storage holds one row per target and one column per source panel");
+    // Self terms and the Gauss's-law diagonal below index panel i + first_target.
+    MURK_CHECK(!targets_are_centroids || (first_target >= 0 && first_target + m <= n),
+               "a strip of centroid targets lies within the source panels");
 #pragma omp parallel for schedule(dynamic, 16)
     for (Eigen::Index k = 0; k < n; ++k)
         fill_column(targets, sources, k, options, targets_are_centroids, first_target, single.col(k).data(),

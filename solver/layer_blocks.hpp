@@ -12,10 +12,9 @@
 // so that every row sums to -1/2 (Gauss's law; the exact principal value of a
 // flat panel at its centroid is 0, and the diagonal absorbs the quadrature error
 // of the distant panels instead).
+#include "geometry/eigen_core.hpp"
 #include "solver/panel_set.hpp"
 #include "solver/quadrature_options.hpp"
-
-#include <Eigen/Core>
 
 namespace murk {
 

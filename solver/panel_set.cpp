@@ -1,5 +1,7 @@
 #include "solver/panel_set.hpp"
 
+#include "geometry/internal_check.hpp"
+
 #include <algorithm>
 
 namespace murk {
@@ -14,6 +16,9 @@ PanelSet::PanelSet(const TriangleMesh& mesh) {
         centroid.col(t) = (a + b + c) / 3.0;
         const Vec3 twice_area = (b - a).cross(c - a);
         area(t) = 0.5 * twice_area.norm();
+        // Meshes are checked (geometry/mesh_quality.hpp) before the solver sees them; a
+        // panel without area would have no normal and turn every integral over it to NaN.
+        MURK_CHECK(area(t) > 0.0, "panels reaching the solver have positive area");
         normal.col(t) = twice_area.normalized();
         diameter(t) = std::max({(b - a).norm(), (c - b).norm(), (a - c).norm()});
     }

@@ -2,9 +2,8 @@
 // Panel geometry in struct-of-arrays form, the layout the assembly loops want:
 // corners, centroids, unit normals, areas and diameters (longest edge) of every
 // triangle of a mesh, in metres.
+#include "geometry/eigen_core.hpp"
 #include "geometry/mesh.hpp"
-
-#include <Eigen/Core>
 
 namespace murk {
 

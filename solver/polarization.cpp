@@ -1,5 +1,6 @@
 #include "solver/polarization.hpp"
 
+#include "geometry/internal_check.hpp"
 #include "solver/bem_system.hpp"
 #include "solver/dipole_moment.hpp"
 
@@ -38,9 +39,10 @@ Eigen::Matrix3d conducting_ellipsoid_polarization(const Eigen::Vector3d& semi_ax
 
 template <class S>
 Matrix3<S> computed_polarization(const Scene<S>& scene, std::size_t surface, const QuadratureOptions& options) {
+    MURK_CHECK(surface < scene.surfaces.size(), "the object is a surface of the scene");
     Scene<S> alone;
     alone.water_conductivity = scene.water_conductivity;
-    Surface<S> object = scene.surfaces.at(surface);
+    Surface<S> object = scene.surfaces[surface];
     // Centred on the origin (the moment does not depend on where the object is,
     // but the incident potential -E.x stays small on it).
     Vec3 centre = Vec3::Zero();

@@ -14,10 +14,9 @@
 // Maxwell-Wagner form.
 // Any other object (capsule, box, imported mesh, membrane-covered) is solved
 // for once by boundary elements: the isolated object in three uniform fields.
+#include "geometry/eigen_core.hpp"
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
-
-#include <Eigen/Core>
 
 namespace murk {
 

@@ -5,9 +5,9 @@
 // Every surface bounds one interior region and sits in the water; surfaces are
 // not nested. The normal current density j on a surface is the current per area
 // leaving the interior (outward normal), and it is the same on both sides.
+#include "geometry/eigen_core.hpp"
 #include "geometry/mesh.hpp"
 
-#include <Eigen/Core>
 #include <complex>
 #include <optional>
 #include <string>

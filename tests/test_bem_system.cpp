@@ -2,6 +2,7 @@
 // interface kind, electrode drive, the image Green's function and the field
 // and potential evaluation at points.
 #include "geometry/input_error.hpp"
+#include "geometry/internal_check.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
 #include "solver/bem_system.hpp"
@@ -165,4 +166,26 @@ TEST_CASE("sources inside sealed surfaces and points inside them are refused") {
     CHECK_THROWS_WITH_AS(solve_scene(scene, kQuad), doctest::Contains("inside 'hull'"), InputError);
     CHECK(enclosing_surface(scene, Vec3(0.001, 0, 0)) == 0);
     CHECK(enclosing_surface(scene, Vec3(0.02, 0, 0)) == -1);
+}
+
+TEST_CASE("blocks and solutions indexed by a layout of another scene, or a row selected twice, are internal errors") {
+    Scene<double> one;
+    one.water_conductivity = kWater;
+    one.surfaces.push_back(electrode_sphere(0.01, 1));
+    one.electrodes.push_back({"e", ElectrodeDrive::current, 1e-3});
+    Scene<double> two = one;
+    Surface<double> other = electrode_sphere(0.01, 1);
+    translate(other.mesh, Vec3(0.05, 0, 0));
+    two.surfaces.push_back(other);
+    const SystemLayout layout_of_two = system_layout(two);
+    const std::vector<Eigen::Index> first{0, 1};
+    CHECK_THROWS_WITH_AS(assemble_block(one, layout_of_two, kQuad, first, first),
+                         doctest::Contains("the layout was made for this scene"), InternalError);
+    const VectorX<double> x = VectorX<double>::Zero(layout_of_two.size);
+    CHECK_THROWS_AS(unpack_solution(one, layout_of_two, x), InternalError);
+    const SystemLayout layout_of_one = system_layout(one);
+    CHECK_THROWS_WITH_AS(assemble_block(one, layout_of_one, kQuad, {0, 1, 0}, first),
+                         doctest::Contains("no row or column is selected twice"), InternalError);
+    // The same calls with matching arguments pass the checks.
+    CHECK(assemble_block(one, layout_of_one, kQuad, first, first).matrix.rows() == 2);
 }

@@ -2,6 +2,7 @@
 // against the full dense solve of the same scene: the two solve the same
 // discrete equations, so they must agree to the iteration tolerance. Also the
 // block assembly against the full matrix, entry for entry.
+#include "geometry/internal_check.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
 #include "solver/coupled_solve.hpp"
@@ -192,12 +193,14 @@ TEST_CASE("the exact path in complex arithmetic: a capacitive skin and a dielect
     CHECK(perturbation_difference(full, fixed, block) < 1e-6);
 }
 
-TEST_CASE("a scene whose moving part does not match the fixed part is refused") {
+TEST_CASE("a scene whose moving part does not match the fixed part is an internal error") {
     const Scene<double> body = fish_scene(0.2);
     const FixedPart<double> fixed(body, kQuad);
     Scene<double> two = body;
     two.surfaces.push_back(sphere_object(Vec3(0, 0.03, 0), 0.004, 0.1));
     two.surfaces.push_back(sphere_object(Vec3(0, -0.03, 0), 0.004, 0.1));
     const MovingBlock<double> block = factor_moving_block(two, {1}, kQuad);
-    CHECK_THROWS_AS(solve_coupled(two, {1}, fixed, block, kQuad, CouplingOptions{}), std::logic_error);
+    // Two objects added where the fixed part expects one: the sizes cannot match.
+    CHECK_THROWS_WITH_AS(solve_coupled(two, {1}, fixed, block, kQuad, CouplingOptions{}),
+                         doctest::Contains("f.size()) == fixed.size()"), InternalError);
 }

@@ -234,7 +234,7 @@ TEST_CASE("falloff: too few points") {
 }
 
 TEST_CASE("falloff: fourth-power rule of thumb") {
-    // Rule of thumb: p ~ d^-4 (common practice; DESIGN.md section 2).
+    // Rule of thumb: p ~ d^-4 (common practice; DEVELOPERS.md, "Physics and method").
     LocalExponents le;
     le.exponent = {-4.5, -3.49, -4.2, kNaN, -4.0};
     le.status = {ExponentStatus::ok, ExponentStatus::ok, ExponentStatus::ok, ExponentStatus::unusable_point,

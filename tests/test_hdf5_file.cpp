@@ -1,4 +1,4 @@
-// Tests of murk's HDF5 layer (cases/hdf5_file.hpp). Every file is checked two ways: read back
+// Tests of murk's HDF5 layer (cases/output/hdf5_file.hpp). Every file is checked two ways: read back
 // through the layer, and read by h5py, an independent implementation of the reading side, so
 // that a bug shared by writer and reader cannot hide.
 #include "cases/output/hdf5_file.hpp"

@@ -1,4 +1,4 @@
-// The axes of a sweep (cases/sweep_axes.hpp): which axes a [sweep] makes, in which
+// The axes of a sweep (cases/sweep/sweep_axes.hpp): which axes a [sweep] makes, in which
 // order, with which names and units, and how a flat point number maps onto one index
 // per axis. The expected orders are written out here by hand or counted with nested
 // loops (C order, the last axis running fastest: the row-major layout of HDF5 and
@@ -41,7 +41,7 @@ TEST_CASE("sweep axes: every axis, in the documented order, whatever order the s
     s.water_conductivity_S_per_m = {0.005, 0.03};
     s.objects = {"rod", "prey", "stone", "shell"};
     const std::vector<SweepAxis> axes = sweep_axes(s);
-    // cases/sweep_axes.hpp: water_conductivity, object, conductivity, size, distance, grid_u, grid_v (those given)
+    // cases/sweep/sweep_axes.hpp: water_conductivity, object, conductivity, size, distance, grid_u, grid_v (those given)
     CHECK(names_of(axes) ==
           std::vector<std::string>{"water_conductivity", "object", "conductivity", "size", "grid_u", "grid_v"});
     REQUIRE(axes.size() == 6);

@@ -1,4 +1,4 @@
-// Tests of the XDMF sidecar (cases/xdmf_writer.hpp). The sidecar is read back by independent
+// Tests of the XDMF sidecar (cases/output/xdmf_writer.hpp). The sidecar is read back by independent
 // readers, never by murk: meshio's XDMF reader (the one ParaView users also meet in Python
 // pipelines) for a single surface, and Python's XML parser with h5py for a collection of
 // surfaces, which meshio does not read. Expected values are the test's own inputs.

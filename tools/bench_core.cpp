@@ -22,6 +22,7 @@
 // packing (_mm256_undefined_pd in gemm_pack_rhs), instantiated here by the dense LU.
 #pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
 
+#include "geometry/eigen_core.hpp"
 #include "geometry/shapes.hpp"
 #include "solver/bem_system.hpp"
 #include "solver/layer_blocks.hpp"
@@ -30,7 +31,6 @@
 #include "solver/triangle_integrals.hpp"
 #include "solver/triangle_rules.hpp"
 
-#include <Eigen/Core>
 #include <Eigen/LU>
 #include <omp.h>
 #include <sys/resource.h>

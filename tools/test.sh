@@ -1,12 +1,70 @@
 #!/usr/bin/env bash
-# Set up murk (packages, build) and run every test through CTest: the doctest
-# unit tests, `murk verify --quick` and the end-to-end command-line tests.
+# Set up murk (packages, the Release build in build/) and run every test through
+# CTest: the doctest unit tests, `murk verify --quick` and the end-to-end
+# command-line tests. Then build the same tests again in build-sanitize/ with
+# AddressSanitizer and UndefinedBehaviorSanitizer and with assertions on
+# (CMake build type Sanitize), and run the unit and command-line tests there:
+# the Release build compiles every MURK_ASSERT out, this one runs them.
+# Prints a few lines of progress; the output of each test run is in TREE/test.log.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
-# Readers the tests exercise: xarray's two netCDF engines, ncdump, ParaView's XDMF reader (headless).
-bash "$root/tools/setup.sh" python3-xarray python3-h5netcdf python3-netcdf4 netcdf-bin paraview python3-paraview xvfb xauth slurm-wlm munge
-cd "$root/build"
+source "$root/tools/quiet_step.sh"
+cd "$root"
+
 # Two tests run at once on two cores: idle OpenMP threads should sleep, not spin,
 # or each test's threads steal the other's cores (a several-fold slowdown).
 export OMP_WAIT_POLICY=passive
-ctest --output-on-failure -j 2
+
+# run_tests TREE [CTest options...]
+run_tests() {
+  local tree="$1" log="$1/test.log" start=$SECONDS
+  shift
+  : > "$log"
+  printf 'test: %s/ (output in %s):' "$tree" "$log"
+  if ! quiet_step "$log" ctest --test-dir "$tree" --output-on-failure -j 2 "$@"; then
+    show_log_tail "$log" "testing $tree/"
+    exit 1
+  fi
+  printf ': %s%s\n' "$(grep -Eo '[0-9]+% tests passed, [0-9]+ tests failed out of [0-9]+' "$log" | tail -n 1)" \
+    "$(elapsed "$start")"
+}
+
+# Besides the build's packages, the programs the tests exercise: xarray's two netCDF engines,
+# ncdump, ParaView's XDMF reader (headless), a one-node Slurm with munge.
+bash tools/setup.sh python3-xarray python3-h5netcdf python3-netcdf4 netcdf-bin paraview python3-paraview xvfb xauth \
+  slurm-wlm munge
+run_tests build
+
+# The sanitizer tree: no benchmarks (they assert nothing and would only cost time),
+# and code for any x86-64 rather than this CPU, which compiles about a sixth faster
+# under the sanitizers; murk's own code is the same, only Eigen takes its SSE2 paths.
+bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCHMARKS=OFF -DMURK_NATIVE=OFF
+# Under the sanitizers murk runs 15 to 40 times slower. A full sanitized run of every
+# test took 24 minutes on two shared cores, 18 of them in the tests left out here.
+# Most of what they run is run under the sanitizers by cheaper tests: sweeps and
+# their HDF5 output by cli_run_sweep, the exact and dipole paths with one and two
+# threads by cli_run_threads, murk solve on every example by cli_solve_examples,
+# polarization by a sphere's tensor and the solver by the unit tests. Not run
+# sanitized: murk verify's checks, --resume, and murk inspect on damaged files
+# (cli_plot_and_inspect, whose time goes mostly to the Python plots). build/ runs
+# every test.
+# Also left out: the tests that run murk many times over as other programs drive it (thirty
+# kills and resumes, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
+# ParaView on the demo); the journal, placement, shares and merge code they drive is unit-tested
+# under the sanitizers, and build/ runs them all.
+slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect'
+slow+='|cli_kill_resume|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
+slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
+slow+="|mesh zones: the image of a sphere by the flank converges.*)$"
+run_tests build-sanitize -E "$slow"
+
+# The readers under a coverage-guided fuzzer (libFuzzer, clang): about 20 s per reader;
+# `bash tools/fuzz.sh 600` searches longer.
+mkdir -p build-fuzz
+printf 'fuzz: the STL, MSH and case-file readers (output in build-fuzz/fuzz.log):'
+start=$SECONDS
+if ! quiet_step build-fuzz/fuzz.log bash tools/fuzz.sh 20; then
+  show_log_tail build-fuzz/fuzz.log "fuzzing"
+  exit 1
+fi
+printf ': no finding%s\n' "$(elapsed "$start")"

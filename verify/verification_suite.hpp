@@ -1,5 +1,6 @@
 #pragma once
-// The checks of `murk verify`: murk against exact solutions (DESIGN.md §3).
+// The checks of `murk verify`: murk against exact solutions (DEVELOPERS.md, "Physics and
+// method" and "Adding a check to `murk verify`").
 #include "solver/quadrature_options.hpp"
 #include "verify/check_result.hpp"
 

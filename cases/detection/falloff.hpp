@@ -3,7 +3,7 @@
 // exponent d ln p / d ln d at each distance, a least-squares power law over a range of
 // distances, and the check against the fourth-power rule of thumb (a point source and
 // an induced dipole give p ~ d^-4, "doubling the distance leaves one sixteenth":
-// common practice, see DESIGN.md section 2). These feed /falloff/* in
+// common practice, see DEVELOPERS.md, "Physics and method"). These feed /falloff/* in
 // cases/RESULT_LAYOUT.md.
 //
 // Inputs shared by all functions: distances_m strictly increasing, > 0 and finite (the

@@ -22,7 +22,7 @@ struct SweepGridSpec {
 constexpr double kInsulatorConductivity = 0.0;
 constexpr double kConductorConductivity = std::numeric_limits<double>::infinity();
 
-// How the points of a sweep are solved (DESIGN.md §3, "Sweeps must not re-solve the world").
+// How the points of a sweep are solved (DEVELOPERS.md, "How a sweep is solved").
 enum class SweepMethod {
     exact,      // factored body, object coupled by GMRES: no approximation beyond the discretization
     dipole,     // every point by the induced-dipole path

@@ -50,7 +50,7 @@ with h5py.File(path, "r") as f:
             fail(f"{surface}: triangle indices out of range")
 
     if fish:
-        # Orders of magnitude of the trade (common practice): a baseline
+        # Orders of magnitude of the trade (common practice, DEVELOPERS.md "Physics and method"): a baseline
         # transdermal voltage of the order of a millivolt, and a prey-sized object a
         # couple of centimetres away changing it by microvolts or less.
         base = np.abs(f["baseline/fish/transdermal_voltage"][()]).max()

@@ -11,13 +11,13 @@ Usage: make_synthetic_result.py OUT.h5 [--kind sweep|grid|robot]
   robot  a capsule hull with six named sensor channels, axes size x distance, a 1 kHz lock-in
          (complex perturbations)
 
-All numbers are invented but of plausible size: a baseline transdermal
+All numbers are invented but of plausible size (DEVELOPERS.md, "Physics and method"): a baseline transdermal
 voltage of about a millivolt, an image of about a microvolt at the detection range. Each
 planted exponent is exact: the data are an exact power law times a curvature term that is
 orthogonal (over the fitted points) to the fitted line, so the least-squares slope is the
 planted exponent and R^2 is below 1. Each planted range is exact: the amplitude is tuned so that
 the crossing of the detection level, interpolated linearly against ln(distance) between
-computed points (the rule of cases/detectability.hpp), falls on it.
+computed points (the rule of cases/detection/detectability.hpp), falls on it.
 """
 import argparse
 import hashlib

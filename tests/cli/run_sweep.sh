@@ -95,7 +95,7 @@ a = h5py.File(os.path.join(d, "sweep.h5"), "r")
 b = h5py.File(os.path.join(d, "noisy.h5"), "r")
 case_text = open(os.path.join(d, "sweep.toml"), encoding="utf-8").read()
 
-# ---- root metadata (DESIGN.md section 5, cases/RESULT_LAYOUT.md)
+# ---- root metadata (cases/RESULT_LAYOUT.md)
 at = a.attrs
 for key in ("murk_version", "title", "case", "case_sha256", "created_utc", "command", "approximation"):
     check(key in at and isinstance(at[key], str) and at[key] != "", f"root attribute {key} missing or empty")

@@ -1,11 +1,13 @@
 // The murk command line: parses arguments (the only file that includes CLI11,
 // which is slow to compile) and hands each subcommand a plain options struct.
 #include "geometry/input_error.hpp"
+#include "geometry/internal_check.hpp"
 #include "tools/murk/commands.hpp"
 #include "tools/murk/mpi_ranks.hpp"
 
 #include <CLI/CLI.hpp>
 #include <cstdio>
+#include <cstdlib>
 #include <exception>
 
 namespace {
@@ -95,6 +97,9 @@ int main(int argc, char** argv) {
     };
     int status = 0;
     try {
+        // The one way to make a correct murk fail an internal check, so that
+        // tests/cli/internal_error.sh sees how such a failure reaches the user.
+        MURK_CHECK(std::getenv("MURK_TEST_INTERNAL_ERROR") == nullptr, "set only by the test of internal errors");
         if (*run_cmd) status = murk::cli::run_command(run, joined(argc, argv));
         else if (*inspect_cmd) status = murk::cli::inspect_command(inspect);
         else if (*merge_cmd) status = murk::cli::merge_command(merge, joined(argc, argv));
@@ -103,6 +108,8 @@ int main(int argc, char** argv) {
         else if (*mesh_cmd) status = murk::cli::mesh_command(mesh);
     } catch (const murk::InputError& e) {
         return fail(2, e.what());
+    } catch (const murk::InternalError& e) {  // "internal error at FILE:LINE: CONDITION (WHY)"
+        return fail(1, e.what());
     } catch (const std::bad_alloc&) {
         return fail(1, "out of memory (try a coarser mesh: a larger panel_size)");
     } catch (const std::exception& e) {
