@@ -69,7 +69,7 @@ conductivity = "200 uS/cm"
 [robot]
 shape = "capsule"
 radius = "2 cm"
-length = "30 cm"
+overall_length = "30 cm"
 [[robot.electrode]]
 name = "E"
 form = "ring"
@@ -225,7 +225,7 @@ frequency = "500 Hz"
     REQUIRE(s.robot);
     CHECK(s.robot->hull.kind == ShapeKind::capsule);
     CHECK(s.robot->hull.radius_m == doctest::Approx(0.02));
-    CHECK(s.robot->hull.length_m == doctest::Approx(0.3));
+    CHECK(s.robot->hull.overall_length_m == doctest::Approx(0.3));
     REQUIRE(s.robot->electrodes.size() == 3);
     const ElectrodeSpec& e = s.robot->electrodes[0];
     CHECK(e.form == ElectrodeForm::ring);
@@ -253,7 +253,7 @@ TEST_CASE("case reader: mesh files are found next to the case file") {
 name = "rock"
 shape = "mesh"
 file = "rock.stl"
-scale = "1 mm"
+file_unit = "1 mm"
 position = ["0 cm", "5 cm", "0 cm"]
 conductivity = "insulator"
 )";
@@ -261,7 +261,7 @@ conductivity = "insulator"
     const CaseSpec s = read_case_file((dir / "case.toml").string());
     REQUIRE(s.objects.size() == 1);
     CHECK(fs::equivalent(s.objects[0].shape.mesh_file, dir / "rock.stl"));
-    CHECK(s.objects[0].shape.mesh_scale_m == doctest::Approx(1e-3));
+    CHECK(s.objects[0].shape.file_unit_m == doctest::Approx(1e-3));
     CHECK(s.text == text);
     // the same text read from elsewhere cannot find the file
     fs::remove(dir / "rock.stl");
@@ -387,9 +387,9 @@ TEST_CASE("case reader: values out of range") {
                 "above from (0.6)");
     check_error(fish_with("[fish.organ]", "from = -0.1"), "from", "fish.organ.from", "in [0, 1)");
     check_error(fish_with("[fish.organ]", "points = 1"), "points", "fish.organ.points", "from 2 to 1000");
-    check_error(kFish + "[[object]]\nshape = \"capsule\"\nradius = \"1 cm\"\nlength = \"1 cm\"\n"
+    check_error(kFish + "[[object]]\nshape = \"capsule\"\nradius = \"1 cm\"\noverall_length = \"1 cm\"\n"
                         "position = [\"0 m\", \"1 m\", \"0 m\"]\nconductivity = \"insulator\"\n",
-                "length = \"1 cm\"", "object[1].length", "at least twice its radius");
+                "overall_length = \"1 cm\"", "object[1].overall_length", "at least twice its radius");
     check_error(kFish + "[[object]]\nshape = \"ellipsoid\"\nsemi_axes = [\"1 cm\", \"0 cm\", \"1 cm\"]\n"
                         "position = [\"0 m\", \"1 m\", \"0 m\"]\nconductivity = \"insulator\"\n",
                 "semi_axes", "object[1].semi_axes[2]", "must be positive");
@@ -902,20 +902,25 @@ TEST_CASE("case reader: [sweep] errors") {
     check_error(base + "[sweep]\nobject = 3\nsize = [\"1 mm\"]\n", "object = 3", "sweep.object", "expected text");
     check_error(base + "[sweep]\nobject = \"stone\"\nsize = [\"1 mm\"]\n", "object = ", "sweep.object",
                 "no [[object]] is named 'stone'");
-    // objects: an axis of alternative objects, by name
-    const std::string second = "[[object]]\nname = \"rod\"\nshape = \"capsule\"\nradius = \"1 mm\"\nlength = \"8 mm\"\n"
+    // alternatives: an axis of alternative objects, by name
+    const std::string second = "[[object]]\nname = \"rod\"\nshape = \"capsule\"\nradius = \"1 mm\"\noverall_length = \"8 mm\"\n"
                                "position = [\"-3 cm\", \"2 cm\", \"0 cm\"]\nconductivity = \"conductor\"\n";
-    const CaseSpec two = read_case_text(base + second + "[sweep]\nobjects = [\"rod\", \"prey\"]\n", "case.toml");
-    CHECK(two.sweep->objects == std::vector<std::string>{"rod", "prey"});
-    check_error(base + second + "[sweep]\nobjects = []\n", "objects", "sweep.objects", "expected an array of object names");
-    check_error(base + second + "[sweep]\nobjects = \"rod\"\n", "objects", "sweep.objects",
+    const CaseSpec two = read_case_text(base + second + "[sweep]\nalternatives = [\"rod\", \"prey\"]\n", "case.toml");
+    CHECK(two.sweep->alternatives == std::vector<std::string>{"rod", "prey"});
+    check_error(base + second + "[sweep]\nalternatives = []\n", "alternatives", "sweep.alternatives", "expected an array of object names");
+    check_error(base + second + "[sweep]\nalternatives = \"rod\"\n", "alternatives", "sweep.alternatives",
                 "expected an array of object names");
-    check_error(base + second + "[sweep]\nobjects = [\"rod\", 2]\n", "objects", "sweep.objects[2]",
+    check_error(base + second + "[sweep]\nalternatives = [\"rod\", 2]\n", "alternatives", "sweep.alternatives[2]",
                 "expected an object name in quotes");
-    check_error(base + second + "[sweep]\nobject = \"rod\"\nobjects = [\"rod\", \"prey\"]\n", "objects",
-                "sweep.objects", "not both");
-    check_error(base + second + "[sweep]\nobjects = [\"rod\", \"stone\"]\n", "objects", "sweep.objects",
+    check_error(base + second + "[sweep]\nobject = \"rod\"\nalternatives = [\"rod\", \"prey\"]\n", "alternatives",
+                "sweep.alternatives", "not both");
+    check_error(base + second + "[sweep]\nalternatives = [\"rod\", \"stone\"]\n", "alternatives", "sweep.alternatives",
                 "no [[object]] is named 'stone'");
+    // the keys' earlier names are refused with their new ones
+    check_error(base + second + "[sweep]\nobjects = [\"rod\", \"prey\"]\n", "objects", "sweep.objects",
+                "this key is now called alternatives");
+    check_error(base + "[sweep]\nsize = [\"1 mm\"]\nmethod = \"dipole\"\ncheck_points = 3\n", "check_points",
+                "sweep.check_points", "this key is now called dipole_checks");
 }
 
 TEST_CASE("case reader: [detection] errors") {
@@ -1046,8 +1051,8 @@ TEST_CASE("case reader: bad refinement zones") {
     check_error(kOpenWater + zone + "radius = \"5 mm\"\npanel_size = \"1 mm\"\n", "[[mesh.zone]]", "mesh.zone[1]",
                 "the case has no [fish] or [robot]");
     std::string robot = kRobot;
-    robot.replace(robot.find("shape = \"capsule\"\nradius = \"2 cm\"\nlength = \"30 cm\""),
-                  std::string("shape = \"capsule\"\nradius = \"2 cm\"\nlength = \"30 cm\"").size(),
+    robot.replace(robot.find("shape = \"capsule\"\nradius = \"2 cm\"\noverall_length = \"30 cm\""),
+                  std::string("shape = \"capsule\"\nradius = \"2 cm\"\noverall_length = \"30 cm\"").size(),
                   "shape = \"mesh\"\nfile = \"hull.stl\"");
     namespace fs = std::filesystem;
     const fs::path dir = fs::temp_directory_path() / "murk_test_mesh_zone";

@@ -32,7 +32,7 @@ panel_size = "1 cm"
 [robot]
 shape = "capsule"
 radius = "2 cm"
-length = "30 cm"
+overall_length = "30 cm"
 position = ["0 cm", "0 cm", "0 cm"]
 [[robot.electrode]]
 name = "E"

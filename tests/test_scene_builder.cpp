@@ -232,7 +232,7 @@ panel_size = "1 cm"
 [robot]
 shape = "capsule"
 radius = "2 cm"
-length = "30 cm"
+overall_length = "30 cm"
 position = ["10 cm", "20 cm", "30 cm"]
 heading = "90 deg"
 )";
@@ -540,7 +540,7 @@ TEST_CASE("scene builder: panel sizes, imported meshes and accuracy switches") {
     fs::create_directories(dir);
     write_stl((dir / "pebble.stl").string(), make_sphere(4.0, 2.0));  // radius 4 (mm)
     const std::string stl_case =
-        kFish + "[[object]]\nname = \"pebble\"\nshape = \"mesh\"\nfile = \"pebble.stl\"\nscale = \"1 mm\"\n"
+        kFish + "[[object]]\nname = \"pebble\"\nshape = \"mesh\"\nfile = \"pebble.stl\"\nfile_unit = \"1 mm\"\n"
                 "position = [\"0 cm\", \"4 cm\", \"0 cm\"]\nconductivity = \"insulator\"\n";
     { std::ofstream(dir / "case.toml") << stl_case; }
     const Scene<double> scene = build_scene<double>(read_case_file((dir / "case.toml").string()), true);
@@ -709,7 +709,7 @@ TEST_CASE("scene builder: a case without a body") {
     std::string imported = free;
     const std::string sphere_keys = "shape = \"sphere\"\nradius = \"5 mm\"";
     imported.replace(imported.find(sphere_keys), sphere_keys.size(),
-                     "shape = \"mesh\"\nfile = \"pebble.stl\"\nscale = \"1 mm\"");
+                     "shape = \"mesh\"\nfile = \"pebble.stl\"\nfile_unit = \"1 mm\"");
     { std::ofstream(dir / "case.toml") << imported; }
     const CaseSpec spec = read_case_file((dir / "case.toml").string());
     CHECK(object_panel_size(spec, spec.objects[0]) == doctest::Approx(mean_edge_mm * 1e-3).epsilon(1e-6));
@@ -917,7 +917,7 @@ panel_size = "3 mm"
 [robot]
 shape = "capsule"
 radius = "2 cm"
-length = "30 cm"
+overall_length = "30 cm"
 position = ["1 m", "2 m", "0.5 m"]
 heading = "90 deg"
 [[robot.electrode]]

@@ -39,14 +39,14 @@ TEST_CASE("sweep axes: every axis, in the documented order, whatever order the s
     s.size_m = {0.001, 0.002, 0.004};
     s.conductivity_S_per_m = {kInsulatorConductivity, 0.5, kConductorConductivity};
     s.water_conductivity_S_per_m = {0.005, 0.03};
-    s.objects = {"rod", "prey", "stone", "shell"};
+    s.alternatives = {"rod", "prey", "stone", "shell"};
     const std::vector<SweepAxis> axes = sweep_axes(s);
     // cases/sweep/sweep_axes.hpp: water_conductivity, object, conductivity, size, distance, grid_u, grid_v (those given)
     CHECK(names_of(axes) ==
-          std::vector<std::string>{"water_conductivity", "object", "conductivity", "size", "grid_u", "grid_v"});
+          std::vector<std::string>{"water_conductivity", "alternative", "conductivity", "size", "grid_u", "grid_v"});
     REQUIRE(axes.size() == 6);
     CHECK(axes[0].kind == AxisKind::water_conductivity);
-    CHECK(axes[1].kind == AxisKind::object);
+    CHECK(axes[1].kind == AxisKind::alternative);
     CHECK(axes[2].kind == AxisKind::conductivity);
     CHECK(axes[3].kind == AxisKind::size);
     CHECK(axes[4].kind == AxisKind::grid_u);

@@ -130,7 +130,7 @@ int main(int argc, char** argv) {
         std::fflush(stdout);
         CaseSpec dipole = spec;
         dipole.sweep->method = SweepMethod::dipole;
-        dipole.sweep->check_points = 0;
+        dipole.sweep->dipole_checks = 0;
         const RunStats t_dipole = run(dipole, (dir / "dipole.h5").string());
 
         const Perturbations p_naive = read_perturbations((dir / "naive.h5").string());

@@ -58,7 +58,7 @@ GRID_AXES = ("grid_u", "grid_v")
 class Axis:
     def __init__(self, name, values, units, labels=None):
         self.name, self.values, self.units = name, values, units
-        self.labels = labels  # names of the values (the object axis: attribute object_names)
+        self.labels = labels  # names of the values (the alternative axis: attribute alternative_names)
 
     def label(self):
         return {"m": f"{self.name} (mm)", "S m-1": f"{self.name} (S/m)"}.get(self.units, self.name)
@@ -205,7 +205,7 @@ class Result:
             values = self.array(f"sweep/{name}", (status.shape[k],)).astype(float)
             attrs = self.file[f"sweep/{name}"].attrs
             units = str(attrs.get("units", ""))
-            labels = str(attrs["object_names"]).split(",") if "object_names" in attrs else None
+            labels = str(attrs["alternative_names"]).split(",") if "alternative_names" in attrs else None
             axes.append(Axis(name, values, units, labels))
         return axes
 

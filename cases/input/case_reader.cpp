@@ -82,11 +82,21 @@ struct Section {
 };
 
 // Refuses any key of `sec` not in `allowed`, listing the allowed ones.
+// Keys whose names said less than they meant, and what they are called now.
+const std::vector<std::pair<std::string, std::string>> kRenamedKeys = {
+    {"objects", "alternatives (the objects of which one is in the water at each point)"},
+    {"check_points", "dipole_checks (dipole points re-solved exactly)"},
+    {"length", "overall_length (a capsule's length from tip to tip)"},
+    {"scale", "file_unit (the length of one unit of the mesh file's coordinates)"},
+};
+
 void check_keys(const Section& sec, const std::vector<std::string>& allowed) {
     for (const auto& [key, node] : sec.table) {
         const std::string k(key.str());
         if (std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
         const int line = key.source().begin.line ? static_cast<int>(key.source().begin.line) : line_of(node);
+        for (const auto& [old_name, new_name] : kRenamedKeys)
+            if (k == old_name) fail(at(sec.ctx, line, sec.key_path(k)), "this key is now called " + new_name);
         // The key is the user's: shown as short as a value, so that the list of allowed keys fits on the line.
         fail(at(sec.ctx, line, sec.key_path(printable(k, kEchoedValueChars))), "unknown key; allowed here: " + join(allowed));
     }
@@ -244,9 +254,9 @@ std::vector<std::string> shape_keys(ShapeKind kind) {
         case ShapeKind::sphere: return {"radius"};
         case ShapeKind::spheroid: return {"polar_radius", "equatorial_radius"};
         case ShapeKind::ellipsoid: return {"semi_axes"};
-        case ShapeKind::capsule: return {"radius", "length"};
+        case ShapeKind::capsule: return {"radius", "overall_length"};
         case ShapeKind::box: return {"size"};
-        case ShapeKind::mesh: return {"file", "scale"};
+        case ShapeKind::mesh: return {"file", "file_unit"};
     }
     return {};
 }
@@ -285,11 +295,11 @@ ShapeSpec read_shape_sizes(const Section& sec, ShapeKind kind) {
             break;
         case ShapeKind::capsule: {
             s.radius_m = required_positive(sec, "radius", Dimension::length);
-            s.length_m = required_positive(sec, "length", Dimension::length);
-            if (s.length_m < 2.0 * s.radius_m)
-                fail(sec.where("length"), "the overall length of a capsule must be at least twice its radius (" +
+            s.overall_length_m = required_positive(sec, "overall_length", Dimension::length);
+            if (s.overall_length_m < 2.0 * s.radius_m)
+                fail(sec.where("overall_length"), "the overall length of a capsule must be at least twice its radius (" +
                                               format_number(2.0 * s.radius_m) + " m), got " +
-                                              describe(*sec.find("length")));
+                                              describe(*sec.find("overall_length")));
             break;
         }
         case ShapeKind::box:
@@ -297,7 +307,7 @@ ShapeSpec read_shape_sizes(const Section& sec, ShapeKind kind) {
             break;
         case ShapeKind::mesh:
             s.mesh_file = read_mesh_file(sec);
-            s.mesh_scale_m = optional_positive(sec, "scale", Dimension::length).value_or(1.0);
+            s.file_unit_m = optional_positive(sec, "file_unit", Dimension::length).value_or(1.0);
             break;
     }
     return s;
@@ -822,8 +832,8 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 }
 
 SweepSpec read_sweep(const Section& sec) {
-    check_keys(sec, {"object", "objects", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
-                     "readings", "method", "dipole_accuracy", "check_points", "coupling_tolerance"});
+    check_keys(sec, {"object", "alternatives", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
+                     "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* m = sec.find("method")) {
@@ -839,10 +849,10 @@ SweepSpec read_sweep(const Section& sec) {
             fail(sec.where("dipole_accuracy"), "sets the switch of method = \"auto\" and means nothing otherwise");
         s.dipole_accuracy = *a;
     }
-    if (const toml::node* c = sec.find("check_points")) {
-        s.check_points = read_count(sec, "check_points", *c, 0, 10000);
+    if (const toml::node* c = sec.find("dipole_checks")) {
+        s.dipole_checks = read_count(sec, "dipole_checks", *c, 0, 10000);
         if (s.method != SweepMethod::dipole && s.method != SweepMethod::automatic)
-            fail(sec.where("check_points"), "goes with method = \"dipole\" or \"auto\" (the points re-solved exactly)");
+            fail(sec.where("dipole_checks"), "goes with method = \"dipole\" or \"auto\" (the points re-solved exactly)");
     }
     if (const auto t = optional_positive(sec, "coupling_tolerance", Dimension::dimensionless)) {
         if (*t > 1e-4) fail(sec.where("coupling_tolerance"), "must be at most 1e-4 (a relative residual), got " + format_number(*t));
@@ -851,20 +861,20 @@ SweepSpec read_sweep(const Section& sec) {
     if (const toml::node* o = sec.find("object")) s.object = read_string(sec, "object", *o);
     if (const toml::node* r = sec.find("readings"))
         s.electrode_pairs = read_choice(sec, "readings", *r, {"electrodes", "pairs"}) == "pairs";
-    if (const toml::node* list = sec.find("objects")) {
+    if (const toml::node* list = sec.find("alternatives")) {
         const toml::array* arr = list->as_array();
-        if (!arr || arr->empty()) fail(sec.where("objects"), "expected an array of object names, got " + describe(*list));
+        if (!arr || arr->empty()) fail(sec.where("alternatives"), "expected an array of object names, got " + describe(*list));
         if (arr->size() > kMaxAxisValues)
-            fail(sec.where("objects"), "expected at most " + std::to_string(kMaxAxisValues) + " names, got an array of " +
+            fail(sec.where("alternatives"), "expected at most " + std::to_string(kMaxAxisValues) + " names, got an array of " +
                                            std::to_string(arr->size()));
         for (std::size_t i = 0; i < arr->size(); ++i) {
             const toml::node& e = *arr->get(i);
             if (!e.is_string())
-                fail(at(sec.ctx, line_of(e), "sweep.objects[" + std::to_string(i + 1) + "]"),
+                fail(at(sec.ctx, line_of(e), "sweep.alternatives[" + std::to_string(i + 1) + "]"),
                      "expected an object name in quotes, got " + describe(e));
-            s.objects.push_back(e.as_string()->get());
+            s.alternatives.push_back(e.as_string()->get());
         }
-        if (sec.find("object")) fail(sec.where("objects"), "give either object (one) or objects (alternatives), not both");
+        if (sec.find("object")) fail(sec.where("alternatives"), "give either object (the one that changes) or alternatives, not both");
     }
     if (sec.find("distance")) s.distance_m = read_axis_values(sec, "distance", Dimension::length);
     if (sec.find("direction")) s.direction = read_direction(sec, "direction");
@@ -893,8 +903,8 @@ SweepSpec read_sweep(const Section& sec) {
         fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
-        s.water_conductivity_S_per_m.empty() && s.objects.empty())
-        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, objects or grid");
+        s.water_conductivity_S_per_m.empty() && s.alternatives.empty())
+        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, alternatives or grid");
     return s;
 }
 
@@ -1034,11 +1044,11 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
         fail(sec.where("detection"), "receptor_zones describe a fish's skin; the case has no [fish]");
     if (spec.sweep) {
         const Section sw{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx};
-        std::vector<std::string> names = spec.sweep->objects;
+        std::vector<std::string> names = spec.sweep->alternatives;
         if (!spec.sweep->object.empty()) names.push_back(spec.sweep->object);
         for (const std::string& n : names)
             if (!object_names.count(n))
-                fail(sw.where(spec.sweep->objects.empty() ? "object" : "objects"), "no [[object]] is named " + in_quotes(n));
+                fail(sw.where(spec.sweep->alternatives.empty() ? "object" : "alternatives"), "no [[object]] is named " + in_quotes(n));
     }
 
     // Without a body nothing drives a current or reads one unless the case has

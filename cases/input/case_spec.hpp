@@ -80,11 +80,11 @@ enum class ShapeKind { sphere, spheroid, ellipsoid, capsule, box, mesh };
 struct ShapeSpec {
     ShapeKind kind = ShapeKind::sphere;
     double radius_m = 0.0;           // sphere, capsule
-    double length_m = 0.0;           // capsule: overall length, tip to tip (> 2 radius)
+    double overall_length_m = 0.0;   // capsule: overall length, tip to tip (> 2 radius)
     Point3 semi_axes_m{};            // spheroid (polar along x, equatorial y and z), ellipsoid
     Point3 size_m{};                 // box: full edge lengths along x, y, z
     std::string mesh_file;           // mesh: path resolved against the case file's folder
-    double mesh_scale_m = 1.0;       // mesh: metres per unit of the file's coordinates
+    double file_unit_m = 1.0;        // mesh: metres per unit of the file's coordinates
 };
 
 // One station of a body profile, all as fractions of the body length.

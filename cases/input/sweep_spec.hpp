@@ -32,7 +32,7 @@ enum class SweepMethod {
 
 struct SweepSpec {
     std::string object;                        // the object that moves or changes (default: the first)
-    std::vector<std::string> objects;          // axis of alternative objects (shapes): at each point
+    std::vector<std::string> alternatives;     // axis of alternative objects (shapes): at each point
                                                // only the one named is in the water
     std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
     std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
@@ -44,7 +44,7 @@ struct SweepSpec {
     bool electrode_pairs = false;              // robot: read differences of neighbouring sensors
     SweepMethod method = SweepMethod::exact;
     double dipole_accuracy = 0.02;             // automatic: target relative error of a dipole point
-    int check_points = 8;                      // dipole, automatic: dipole points re-solved exactly
+    int dipole_checks = 8;                     // dipole, automatic: dipole points re-solved exactly
     double coupling_tolerance = 1e-10;         // exact: GMRES relative residual
     int line = 0;                              // line of [sweep] in the case file
 };

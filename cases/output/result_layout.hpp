@@ -95,7 +95,7 @@ inline constexpr const char* kPanel = "panel";        // panel (triangle) index 
 inline constexpr const char* kCorner = "corner";      // corner of a triangle, 0..2
 inline constexpr const char* kElectrode = "electrode";  // labels: electrode names
 inline constexpr const char* kSensor = "sensor";      // sensor index of a sweep
-inline constexpr const char* kCheckPoint = "point";   // /sweep/path_check: flat index of a checked point
+inline constexpr const char* kCheckPoint = "point";   // /sweep/dipole_check: flat index of a checked point
 inline constexpr const char* kWater = "water_conductivity";  // baseline_reading's first dimension
 
 // Groups and datasets.
@@ -111,7 +111,7 @@ inline constexpr const char* kSweep = "sweep";
 inline constexpr const char* kStatus = "status";
 inline constexpr const char* kMaskReason = "mask_reason";
 inline constexpr const char* kPath = "path";
-inline constexpr const char* kPathCheck = "path_check";
+inline constexpr const char* kDipoleCheck = "dipole_check";
 inline constexpr const char* kDiscrepancy = "discrepancy";
 inline constexpr const char* kPeakPerturbation = "peak_perturbation";
 inline constexpr const char* kDetection = "detection";
@@ -123,7 +123,7 @@ inline constexpr const char* kFlagValues = "flag_values";
 inline constexpr const char* kFlagMeanings = "flag_meanings";
 inline constexpr const char* kElectrodeNames = "electrode_names";
 inline constexpr const char* kSensorNames = "sensor_names";
-inline constexpr const char* kObjectNames = "object_names";
+inline constexpr const char* kAlternativeNames = "alternative_names";
 
 }  // namespace layout
 

@@ -83,7 +83,7 @@ double shape_length(const ShapeSpec& s, const TriangleMesh* mesh) {
         case ShapeKind::sphere: return 2.0 * s.radius_m;
         case ShapeKind::spheroid:
         case ShapeKind::ellipsoid: return 2.0 * *std::max_element(s.semi_axes_m.begin(), s.semi_axes_m.end());
-        case ShapeKind::capsule: return s.length_m;
+        case ShapeKind::capsule: return s.overall_length_m;
         case ShapeKind::box: return *std::max_element(s.size_m.begin(), s.size_m.end());
         case ShapeKind::mesh: {
             assert(mesh);
@@ -103,9 +103,9 @@ TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge, const std::
         case ShapeKind::sphere: return make_sphere(s.radius_m, target_edge, zones);
         case ShapeKind::spheroid:
         case ShapeKind::ellipsoid: return make_ellipsoid(to_vec(s.semi_axes_m), target_edge, zones);
-        case ShapeKind::capsule: return make_capsule(s.radius_m, s.length_m - 2.0 * s.radius_m, target_edge, zones);
+        case ShapeKind::capsule: return make_capsule(s.radius_m, s.overall_length_m - 2.0 * s.radius_m, target_edge, zones);
         case ShapeKind::box: return make_box(to_vec(s.size_m), target_edge, zones);
-        case ShapeKind::mesh: assert(zones.empty()); return read_mesh(s.mesh_file, s.mesh_scale_m);
+        case ShapeKind::mesh: assert(zones.empty()); return read_mesh(s.mesh_file, s.file_unit_m);
     }
     return {};
 }

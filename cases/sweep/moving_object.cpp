@@ -18,10 +18,10 @@ double size_of(const ShapeSpec& s) {
         case ShapeKind::sphere: return s.radius_m;
         case ShapeKind::spheroid:
         case ShapeKind::ellipsoid: return *std::max_element(s.semi_axes_m.begin(), s.semi_axes_m.end());
-        case ShapeKind::capsule: return 0.5 * s.length_m;
+        case ShapeKind::capsule: return 0.5 * s.overall_length_m;
         case ShapeKind::box: return 0.5 * *std::max_element(s.size_m.begin(), s.size_m.end());
         case ShapeKind::mesh: {
-            const TriangleMesh m = read_mesh(s.mesh_file, s.mesh_scale_m);
+            const TriangleMesh m = read_mesh(s.mesh_file, s.file_unit_m);
             Vec3 lo = Vec3::Constant(INFINITY), hi = -lo;
             for (const Vec3& v : m.vertices) lo = lo.cwiseMin(v), hi = hi.cwiseMax(v);
             return 0.5 * (hi - lo).maxCoeff();
@@ -32,10 +32,10 @@ double size_of(const ShapeSpec& s) {
 
 void scale_shape(ShapeSpec& s, double factor) {
     s.radius_m *= factor;
-    s.length_m *= factor;
+    s.overall_length_m *= factor;
     for (double& v : s.semi_axes_m) v *= factor;
     for (double& v : s.size_m) v *= factor;
-    s.mesh_scale_m *= factor;
+    s.file_unit_m *= factor;
 }
 
 void set_material(ObjectSpec& o, double sigma) {

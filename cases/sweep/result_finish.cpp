@@ -15,7 +15,7 @@ namespace {
 
 AxisKind kind_of(const std::string& name, const std::string& file) {
     static const std::pair<const char*, AxisKind> kinds[] = {
-        {"water_conductivity", AxisKind::water_conductivity}, {"object", AxisKind::object},
+        {"water_conductivity", AxisKind::water_conductivity}, {"alternative", AxisKind::alternative},
         {"conductivity", AxisKind::conductivity},             {"size", AxisKind::size},
         {"distance", AxisKind::distance},                     {"grid_u", AxisKind::grid_u},
         {"grid_v", AxisKind::grid_v}};

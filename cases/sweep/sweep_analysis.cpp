@@ -49,7 +49,7 @@ void copy_axes(const H5Group& root, const H5Group& group, const std::vector<Swee
     for (const SweepAxis& a : axes) {
         const H5Dataset copy = group.write_coordinate(a.name, a.values, a.units, a.long_name);
         const H5Dataset original = root.dataset(std::string(kSweep) + "/" + a.name);
-        if (original.has_attribute(kObjectNames)) copy.set_attribute(kObjectNames, original.string_attribute(kObjectNames));
+        if (original.has_attribute(kAlternativeNames)) copy.set_attribute(kAlternativeNames, original.string_attribute(kAlternativeNames));
         if (original.has_attribute(kFlagValues))
             copy.set_flags(original.double_array_attribute(kFlagValues), original.string_attribute(kFlagMeanings));
     }

@@ -11,8 +11,8 @@ std::vector<SweepAxis> sweep_axes(const SweepSpec& s) {
     add(AxisKind::water_conductivity, "water_conductivity", "S m-1", "conductivity of the water",
         s.water_conductivity_S_per_m);
     std::vector<double> object_index;
-    for (std::size_t k = 0; k < s.objects.size(); ++k) object_index.push_back(double(k));
-    add(AxisKind::object, "object", "1", "which object is in the water (index into the attribute object_names)",
+    for (std::size_t k = 0; k < s.alternatives.size(); ++k) object_index.push_back(double(k));
+    add(AxisKind::alternative, "alternative", "1", "which alternative object is in the water (index into the attribute alternative_names)",
         object_index);
     add(AxisKind::conductivity, "conductivity", "S m-1",
         "conductivity of the object (0: insulator, inf: perfect conductor)", s.conductivity_S_per_m);

@@ -43,7 +43,7 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
     work += double(routes.full.size()) * cost.full_point_seconds();
     for (const auto& block : routes.dipole_blocks) work += cost.dipole_block_seconds(block.size());
     if (method == SweepMethod::dipole || method == SweepMethod::automatic)  // the exact re-solves of the check
-        work += double(std::min<std::size_t>(e.dipole, std::size_t(plan.sweep.check_points))) *
+        work += double(std::min<std::size_t>(e.dipole, std::size_t(plan.sweep.dipole_checks))) *
                 cost.exact_point_seconds(0.1);
     e.points_seconds = work / double(cost.rates.threads);
     CostModel held = cost;

@@ -3,7 +3,7 @@
 #include "cases/output/hdf5_file.hpp"
 #include "cases/output/result_layout.hpp"
 #include "cases/output/result_metadata.hpp"
-#include "cases/sweep/path_check.hpp"
+#include "cases/sweep/dipole_check.hpp"
 #include "cases/sweep/result_finish.hpp"
 #include "geometry/input_error.hpp"
 
@@ -31,7 +31,7 @@ const char* const kPointDatasets[] = {"status", "mask_reason", "path", "peak_per
                                       "detection_probability"};
 
 Part open_part(const std::string& path) {
-    Part p{path, H5File::open_readonly(path)};
+    Part p{path, H5File::open_readonly(path), 0, 0, {}};
     const H5Group root = p.file.root();
     if (!root.has_attribute("share_index") || !root.has_attribute("share_count"))
         throw InputError(path + ": is not a share of a sweep (murk run --shard K/N writes those)");
@@ -140,15 +140,15 @@ void merge_results(const std::vector<std::string>& paths, const MergeOptions& op
     const std::vector<SweepAxis> axes = axes_in_file(root);
     std::vector<std::size_t> shape;
     for (const SweepAxis& a : axes) shape.push_back(a.values.size());
-    PathCheck checks;
+    DipoleCheck checks;
     double peak_memory = 0;
     for (std::size_t k = 0; k < parts.size(); ++k) {
         const H5Group part_root = parts[k].file.root();
         const H5Group part_sweep = part_root.open_group(layout::kSweep);
         if (part_root.has_attribute("peak_memory_MiB"))
             peak_memory = std::max(peak_memory, part_root.double_attribute("peak_memory_MiB"));
-        if (part_sweep.exists(layout::kPathCheck)) {
-            const H5Group c = part_sweep.open_group(layout::kPathCheck);
+        if (part_sweep.exists(layout::kDipoleCheck)) {
+            const H5Group c = part_sweep.open_group(layout::kDipoleCheck);
             for (std::int64_t v : c.read<std::int64_t>(layout::kCheckPoint).values) checks.points.push_back(v);
             for (double v : c.read<double>(layout::kDiscrepancy).values) checks.discrepancy.push_back(v);
             for (double v : c.read<double>("size_to_distance").values) checks.size_to_distance.push_back(v);
@@ -165,19 +165,19 @@ void merge_results(const std::vector<std::string>& paths, const MergeOptions& op
             copy_perturbation<double>(from, to, shape, take);
     }
     // The checks of every part, in point order, as one run lists them.
-    sweep.remove(layout::kPathCheck);
+    sweep.remove(layout::kDipoleCheck);
     if (!checks.points.empty()) {
         std::vector<std::size_t> order(checks.points.size());
         for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
         std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return checks.points[a] < checks.points[b]; });
-        PathCheck sorted;
+        DipoleCheck sorted;
         for (std::size_t i : order) {
             sorted.points.push_back(checks.points[i]);
             sorted.discrepancy.push_back(checks.discrepancy[i]);
             sorted.size_to_distance.push_back(checks.size_to_distance[i]);
         }
         const bool automatic = root.string_attribute("sweep_method") == "auto";
-        write_path_check(root, sorted,
+        write_dipole_check(root, sorted,
                          automatic ? std::optional<double>(root.double_attribute("dipole_accuracy")) : std::nullopt);
     }
     // A whole sweep now: no share, the analysis and the sidecar of the whole.

@@ -6,7 +6,7 @@
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
-#include "cases/sweep/path_check.hpp"
+#include "cases/sweep/dipole_check.hpp"
 #include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "geometry/input_error.hpp"
@@ -39,10 +39,10 @@ std::string method_description(SweepMethod m) {
                    "discretization)";
         case SweepMethod::dipole:
             return "dipole: every point by the induced-dipole path (object replaced by its polarization tensor times the "
-                   "baseline field); a sample re-solved exactly, see /sweep/path_check";
+                   "baseline field); a sample re-solved exactly, see /sweep/dipole_check";
         case SweepMethod::automatic:
             return "auto: induced-dipole path where the object is small against its distance, exact path elsewhere; "
-                   "see /sweep/path and /sweep/path_check";
+                   "see /sweep/path and /sweep/dipole_check";
         case SweepMethod::full:
             return "full boundary-element solve at every point (no approximation beyond the discretization)";
     }
@@ -72,7 +72,7 @@ std::vector<S> flatten(const std::vector<std::vector<S>>& rows) {
 
 }  // namespace
 
-double PathCheck::largest() const {
+double DipoleCheck::largest() const {
     return discrepancy.empty() ? 0.0 : *std::max_element(discrepancy.begin(), discrepancy.end());
 }
 
@@ -120,19 +120,19 @@ void SweepFile<S>::create_datasets() {
     }
     // The axes in their order: what a reader (murk merge) needs to rebuild the point index.
     sweep.set_attribute("axes", axes_attribute);
-    if (!plan.sweep.objects.empty()) {
-        // The object axis holds indices into object_names; as CF flags, xarray and ncdump show the names.
+    if (!plan.sweep.alternatives.empty()) {
+        // The alternative axis holds indices into alternative_names; as CF flags, xarray and ncdump show the names.
         std::string names, words;
         std::vector<double> codes;
-        for (std::size_t k = 0; k < plan.sweep.objects.size(); ++k) {
-            names += (k ? "," : "") + plan.sweep.objects[k];
-            std::string word = plan.sweep.objects[k];
+        for (std::size_t k = 0; k < plan.sweep.alternatives.size(); ++k) {
+            names += (k ? "," : "") + plan.sweep.alternatives[k];
+            std::string word = plan.sweep.alternatives[k];
             std::replace(word.begin(), word.end(), ' ', '_');
             words += (k ? " " : "") + word;
             codes.push_back(double(k));
         }
-        sweep.dataset("object").set_attribute(kObjectNames, names);
-        sweep.dataset("object").set_flags(codes, words);
+        sweep.dataset("alternative").set_attribute(kAlternativeNames, names);
+        sweep.dataset("alternative").set_flags(codes, words);
     }
     if (plan.sweep.grid) {
         H5Dataset u = sweep.dataset("grid_u");
@@ -256,9 +256,9 @@ void SweepFile<S>::set_history(const std::vector<std::string>& lines) {
     if (!text.empty()) output_->root().set_attribute("history", text);
 }
 
-void write_path_check(const H5Group& root, const PathCheck& c, std::optional<double> accuracy_target) {
+void write_dipole_check(const H5Group& root, const DipoleCheck& c, std::optional<double> dipole_accuracy) {
     using layout::kCheckPoint;
-    H5Group check = root.group(std::string(layout::kSweep) + "/" + layout::kPathCheck);
+    H5Group check = root.group(std::string(layout::kSweep) + "/" + layout::kDipoleCheck);
     // The checked points' flat indices are the coordinate of the group's one dimension.
     check.write_coordinate(kCheckPoint, c.points, "1",
                            "flat index (C order over the sweep axes) of a dipole point re-solved exactly");
@@ -270,12 +270,12 @@ void write_path_check(const H5Group& root, const PathCheck& c, std::optional<dou
         .label_dimensions({kCheckPoint})
         .set_fill_value(std::numeric_limits<double>::quiet_NaN());
     d.set_attribute("max_discrepancy", c.largest());
-    if (accuracy_target) d.set_attribute("accuracy_target", *accuracy_target);
+    if (dipole_accuracy) d.set_attribute("dipole_accuracy", *dipole_accuracy);
 }
 
 template <class S>
-void SweepFile<S>::write_path_check(const PathCheck& c, const SweepSpec& sweep) {
-    murk::write_path_check(output_->root(), c,
+void SweepFile<S>::write_dipole_check(const DipoleCheck& c, const SweepSpec& sweep) {
+    murk::write_dipole_check(output_->root(), c,
                      sweep.method == SweepMethod::automatic ? std::optional<double>(sweep.dipole_accuracy) : std::nullopt);
 }
 
@@ -300,7 +300,7 @@ void write_result_from_journal(const CaseSpec& spec, const RunOptions& options, 
     for (std::size_t p = 0; p < plan.total; ++p)
         if (journal.has(p)) file.write_point(journal.template read<S>(p));
     // In point order, as a run that was never interrupted lists them.
-    if (!journal.checks().empty()) file.write_path_check(path_check_of(journal), plan.sweep);
+    if (!journal.checks().empty()) file.write_dipole_check(dipole_check_of(journal), plan.sweep);
     file.commit(peak_memory_MiB, journal.header().share_count == 1);
 }
 

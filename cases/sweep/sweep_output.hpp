@@ -23,15 +23,15 @@ namespace murk {
 
 
 // The dipole points re-solved exactly (stage checks).
-struct PathCheck {
+struct DipoleCheck {
     std::vector<std::int64_t> points;      // flat indices
     std::vector<double> discrepancy;       // max |dipole - exact| / max |exact|, per point
     std::vector<double> size_to_distance;  // per point
     double largest() const;
 };
 
-// /sweep/path_check: the dipole points re-solved exactly; `accuracy_target` with method "auto".
-void write_path_check(const H5Group& root, const PathCheck& check, std::optional<double> accuracy_target);
+// /sweep/dipole_check: the dipole points re-solved exactly; `dipole_accuracy` with method "auto".
+void write_dipole_check(const H5Group& root, const DipoleCheck& check, std::optional<double> dipole_accuracy);
 
 template <class S>
 class SweepFile {
@@ -46,7 +46,7 @@ public:
     void write_point(const PointResult<S>& result);
     // The CF history: one line per run that worked on the result (a resumed run adds its own).
     void set_history(const std::vector<std::string>& lines);
-    void write_path_check(const PathCheck& check, const SweepSpec& sweep);
+    void write_dipole_check(const DipoleCheck& check, const SweepSpec& sweep);
     // Analysis (/detection, /falloff) and surface fields for the sidecar; a share's
     // part file skips them. Then the file gets its name (and a whole run its sidecar).
     void commit(double peak_memory_MiB, bool whole);

@@ -13,7 +13,7 @@ std::size_t SweepPlan::water_of(const std::vector<std::size_t>& index) const {
 }
 
 std::size_t SweepPlan::moving_of(const std::vector<std::size_t>& index) const {
-    const int o = axis(AxisKind::object);
+    const int o = axis(AxisKind::alternative);
     return o >= 0 ? index[o] : 0;
 }
 
@@ -49,10 +49,10 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
     }
     plan.total = total;
 
-    if (plan.sweep.objects.empty()) {
+    if (plan.sweep.alternatives.empty()) {
         plan.moving = {plan.sweep.object.empty() ? 0 : object_named(spec, plan.where, "object", plan.sweep.object)};
     } else {
-        for (const std::string& name : plan.sweep.objects)
+        for (const std::string& name : plan.sweep.alternatives)
             plan.moving.push_back(object_named(spec, plan.where, "objects", name));
     }
     for (std::size_t k = 0; k < spec.objects.size(); ++k)

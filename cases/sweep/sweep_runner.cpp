@@ -3,7 +3,7 @@
 #include "cases/output/result_metadata.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
-#include "cases/sweep/path_check.hpp"
+#include "cases/sweep/dipole_check.hpp"
 #include "cases/sweep/point_journal.hpp"
 #include "cases/sweep/sweep_estimate.hpp"
 #include "cases/sweep/sweep_points.hpp"
@@ -89,7 +89,7 @@ public:
             compute_points(routes, paths, baselines, share, journal, options_.quiet, stats_);
             const double before_checks = since_start();
             if (!stop_requested() && checks_dipoles(plan))
-                check_dipole_points(routes, std::size_t(plan.sweep.check_points), share, *paths.exact, baselines,
+                check_dipole_points(routes, std::size_t(plan.sweep.dipole_checks), share, *paths.exact, baselines,
                                     journal);
             stats_.check_seconds = since_start() - before_checks;
             journal.sync();

@@ -10,7 +10,7 @@
 //   output     point_journal     the run's journal and lock (or the interrupted run's, reopened)
 //   points     sweep_points      every point routed to its path, appended to the journal
 //                                (point_path: path_exact, path_dipole, path_full)
-//   checks     path_check        dipole points re-solved exactly
+//   checks     dipole_check      dipole points re-solved exactly
 //   analysis   sweep_analysis    detection range and falloff
 //   commit     sweep_output      the result file written from the journal, sidecar
 #include "cases/input/case_spec.hpp"

@@ -17,7 +17,7 @@ fail() { echo "FAIL $*"; failures=$((failures + 1)); }
 cd "$dir" || exit 1
 # The demo with method "auto" (exact and dipole points, dipole checks) on a coarse zone: about
 # a second a run on one thread.
-sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ncheck_points = 6/' \
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ndipole_checks = 6/' \
     -e '/^\[\[mesh.zone\]\]/,/^$/s/^panel_size = .*/panel_size = "3 mm"/' "$src/cases/examples/fish_detection.toml" > case.toml
 run() { "$murk" run case.toml --quiet --threads 1 "$@"; }
 t0=$(date +%s%N)
@@ -54,11 +54,12 @@ killed=0 identical=0
 for trial in $(seq 1 "$trials"); do
   RANDOM=$trial
   rm -f out.h5 out.h5.partial out.xdmf out.h5.writing
-  # A kill during a fresh run, then one during its resume, each at a random instant up to
-  # 1.2 times a run's length; then resumes until it finishes.
-  kill_at $(( RANDOM % (length_ms * 12 / 10 + 1) )) -o out.h5
-  if [ ! -e out.h5 ]; then
-    kill_at $(( RANDOM % (length_ms * 12 / 10 + 1) )) -o out.h5 --resume
+  # A kill during a fresh run at a random instant of its length (the last tenth is the
+  # result being written), then one during its resume (if the first left a journal to
+  # resume); then resumes until it finishes.
+  kill_at $(( RANDOM % (length_ms + 1) )) -o out.h5
+  if [ ! -e out.h5 ] && [ -e out.h5.partial ]; then
+    kill_at $(( RANDOM % (length_ms + 1) )) -o out.h5 --resume
   fi
   for attempt in 1 2 3; do
     [ -e out.h5 ] && break

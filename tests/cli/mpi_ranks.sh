@@ -19,7 +19,7 @@ command -v mpirun > /dev/null || { echo "FAIL mpirun is not installed (tools/set
 # As root (CI), Open MPI wants to be told; --bind-to none lets each rank use more than one core.
 export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 mpi() { mpirun --oversubscribe --bind-to none -np 2 "$murk" "$@"; }
-sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ncheck_points = 6/' \
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ndipole_checks = 6/' \
     -e '/^\[\[mesh.zone\]\]/,/^$/s/^panel_size = .*/panel_size = "3 mm"/' "$src/cases/examples/fish_detection.toml" > case.toml
 "$murk" run case.toml -o whole.h5 --quiet --threads 1 2> err.txt || { cat err.txt; fail "the single-process run"; }
 

@@ -21,20 +21,20 @@ done
 command -v ncdump > /dev/null || { echo "ncdump is missing (Debian netcdf-bin): run bash tools/test.sh, which installs it"; exit 1; }
 
 examples="$src/cases/examples"
-# The demo again with an object axis (prey or stone) and method "auto": the object axis's flags
-# and the /sweep/path_check group, which no shipped example has.
-sed -e 's/^object = "prey"/objects = ["prey", "stone"]\nmethod = "auto"/' \
+# The demo again with an axis of alternative objects (prey or stone) and method "auto": its flags
+# and the /sweep/dipole_check group, which no shipped example has.
+sed -e 's/^object = "prey"/alternatives = ["prey", "stone"]\nmethod = "auto"/' \
     -e 's/^\[sweep\]/[[object]]\nname = "stone"\nshape = "sphere"\nradius = "3 mm"\nposition = ["3 cm", "2 cm", "0 cm"]\nconductivity = "insulator"\n\n[sweep]/' \
     "$examples/fish_detection.toml" > "$dir/two_objects.toml"
-grep -q '^objects = \["prey", "stone"\]' "$dir/two_objects.toml" || { echo "could not write the two-object case"; exit 1; }
+grep -q '^alternatives = \["prey", "stone"\]' "$dir/two_objects.toml" || { echo "could not write the two-object case"; exit 1; }
 for case in "$examples/fish_detection" "$examples/robot_detection" "$examples/canonical_falloff" "$dir/two_objects"; do
   "$murk" run "$case.toml" -o "$dir/run_$(basename "$case").h5" --quiet --threads 1 2> "$dir/err.txt" \
     || { cat "$dir/err.txt"; echo "murk run $case failed"; exit 1; }
 done
 "$py" -c 'import sys, h5py
 f = h5py.File(sys.argv[1], "r")
-assert "path_check" in f["sweep"] and f["sweep/object"].attrs["flag_meanings"] == "prey stone"' "$dir/run_two_objects.h5" \
-  || fail "the two-object case has no /sweep/path_check or no object flags"
+assert "dipole_check" in f["sweep"] and f["sweep/alternative"].attrs["flag_meanings"] == "prey stone"' "$dir/run_two_objects.h5" \
+  || fail "the two-object case has no /sweep/dipole_check or no alternative flags"
 for case in fish_prey membrane_sphere point_emitter; do
   "$murk" solve "$examples/$case.toml" -o "$dir/solve_$case.h5" --quiet 2> "$dir/err.txt" \
     || { cat "$dir/err.txt"; echo "murk solve $case failed"; exit 1; }

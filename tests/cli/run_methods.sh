@@ -24,7 +24,7 @@ grep -q "body system: assembly" "$dir/exact.log" || { echo "FAIL: no body stage 
 grep -q "dipole points re-solved exactly" "$dir/dipole.log" || { echo "FAIL: no check summary"; exit 1; }
 "$murk" inspect "$dir/auto.h5" > "$dir/inspect.txt"
 grep -q "^paths: .* exact, .* induced dipole" "$dir/inspect.txt" || { echo "FAIL: inspect shows no paths"; cat "$dir/inspect.txt"; exit 1; }
-grep -q "^dipole check: .*(target 0.02)" "$dir/inspect.txt" || { echo "FAIL: inspect shows no dipole check"; exit 1; }
+grep -q "^dipole check: .*(dipole_accuracy 0.02)" "$dir/inspect.txt" || { echo "FAIL: inspect shows no dipole check"; exit 1; }
 /usr/bin/python3 - "$dir" <<'PY'
 import sys
 import h5py
@@ -55,7 +55,7 @@ if e.max() > 1e-6: bad.append(f"exact differs from full by {e.max():.3g} > 1e-6"
 print(f"exact vs full: max relative difference {e.max():.2g} over {ok.sum()} points")
 
 # The dipole run's own check against the full run's values at the same points.
-chk = f["dipole"]["sweep/path_check"]
+chk = f["dipole"]["sweep/dipole_check"]
 points = chk["point"][()]
 if len(points) != 8: bad.append(f"dipole: {len(points)} check points, expected the default 8")
 dd = difference("dipole")

@@ -34,8 +34,8 @@ sed -e 's/^\[sweep\]/[sweep]\ndipole_accuracy = 0.05/' "$base" > "$dir/accuracy.
 expect_bad "dipole accuracy without auto" "sweep.dipole_accuracy" "$murk" run "$dir/accuracy.toml" -o "$dir/e.h5" --quiet
 sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ndipole_accuracy = 2/' "$base" > "$dir/accuracy2.toml"
 expect_bad "dipole accuracy above 0.5" "sweep.dipole_accuracy" "$murk" run "$dir/accuracy2.toml" -o "$dir/f.h5" --quiet
-sed -e 's/^\[sweep\]/[sweep]\nmethod = "dipole"\ncheck_points = -1/' "$base" > "$dir/checks.toml"
-expect_bad "negative check points" "sweep.check_points" "$murk" run "$dir/checks.toml" -o "$dir/g.h5" --quiet
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "dipole"\ndipole_checks = -1/' "$base" > "$dir/checks.toml"
+expect_bad "negative dipole checks" "sweep.dipole_checks" "$murk" run "$dir/checks.toml" -o "$dir/g.h5" --quiet
 sed -e 's/^\[sweep\]/[sweep]\ncoupling_tolerance = 0.1/' "$base" > "$dir/tolerance.toml"
 expect_bad "loose coupling tolerance" "sweep.coupling_tolerance" "$murk" run "$dir/tolerance.toml" -o "$dir/h.h5" --quiet
 

@@ -17,7 +17,7 @@ trap cleanup EXIT
 failures=0
 fail() { echo "FAIL $*"; failures=$((failures + 1)); }
 cd "$dir" || exit 1
-sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ncheck_points = 6/' \
+sed -e 's/^\[sweep\]/[sweep]\nmethod = "auto"\ndipole_checks = 6/' \
     -e '/^\[\[mesh.zone\]\]/,/^$/s/^panel_size = .*/panel_size = "3 mm"/' "$src/cases/examples/fish_detection.toml" > case.toml
 run() { "$murk" run "$@" --quiet --threads 1; }
 run case.toml -o whole.h5 2> err.txt || { cat err.txt; fail "the whole run"; }

@@ -27,7 +27,7 @@ int solve_command(const SolveArgs& args, const std::string& command_line);
 struct MeshArgs {
     std::string input;       // a mesh file (STL, MSH) or a case file (TOML)
     std::string convert_to;  // optional output mesh (STL or VTK), empty for none
-    double scale = 1.0;      // file units to metres for mesh files
+    std::string file_unit;   // mesh files: the length of one unit of the file's coordinates, e.g. "1 mm"; default 1 m
 };
 int mesh_command(const MeshArgs& args);
 

@@ -314,7 +314,7 @@ void print_solve(const H5Group& root) {
 struct Axis {
     std::string name, units;
     std::vector<double> values;
-    std::vector<std::string> labels;  // object axis: names from object_names
+    std::vector<std::string> labels;  // alternative axis: names from alternative_names
 
     std::string header() const {
         if (units == "m") return name + " (mm)";
@@ -350,7 +350,7 @@ std::vector<Axis> read_axes(const H5Group& sweep, const H5Dataset& status) {
         if (a.values.size() != shape[k])
             malformed(d, "has " + std::to_string(a.values.size()) + " values but /sweep/status has " +
                              std::to_string(shape[k]) + " along dimension " + std::to_string(k));
-        if (d.has_attribute(layout::kObjectNames)) a.labels = split_commas(d.string_attribute(layout::kObjectNames));
+        if (d.has_attribute(layout::kAlternativeNames)) a.labels = split_commas(d.string_attribute(layout::kAlternativeNames));
         axes.push_back(std::move(a));
     }
     return axes;
@@ -429,7 +429,7 @@ void print_masks(const H5Group& sweep, const PointStates& status) {
 }
 
 // Which path computed the points (/sweep/path), and the exact re-solves of
-// dipole points (/sweep/path_check), when the file has them.
+// dipole points (/sweep/dipole_check), when the file has them.
 void print_paths(const H5Group& sweep, const PointStates& status) {
     if (!sweep.exists(layout::kPath)) return;
     const std::vector<bool> every(status.of_point.size(), true);
@@ -437,13 +437,13 @@ void print_paths(const H5Group& sweep, const PointStates& status) {
     std::printf("paths:            %zu exact, %zu induced dipole, %zu full re-solve\n",
                 count[std::size_t(PathCode::exact)], count[std::size_t(PathCode::dipole)],
                 count[std::size_t(PathCode::full)]);
-    const std::string check = std::string(layout::kPathCheck) + "/" + layout::kDiscrepancy;
+    const std::string check = std::string(layout::kDipoleCheck) + "/" + layout::kDiscrepancy;
     if (!sweep.exists(check)) return;
     const H5Dataset d = sweep.dataset(check);
     const std::size_t n = d.shape().empty() ? 0 : d.shape()[0];
     std::printf("dipole check:     %zu dipole points re-solved exactly, largest discrepancy %.3g", n,
                 n ? d.double_attribute("max_discrepancy") : 0.0);
-    if (d.has_attribute("accuracy_target")) std::printf(" (target %.3g)", d.double_attribute("accuracy_target"));
+    if (d.has_attribute("dipole_accuracy")) std::printf(" (dipole_accuracy %.3g)", d.double_attribute("dipole_accuracy"));
     std::printf("\n");
 }
 
@@ -670,7 +670,7 @@ void print_journal(const std::string& path) {
     if (h.share_count > 1) std::printf("share:            %u/%u\n", h.share_index + 1, h.share_count);
     std::printf("points:           %zu of %llu finished: %zu computed, %zu masked\n", j.finished(),
                 static_cast<unsigned long long>(h.points), computed, masked);
-    std::printf("dipole checks:    %zu\n", j.checks().size());
+    std::printf("dipole check:     %zu points re-solved exactly\n", j.checks().size());
     if (j.dropped_bytes() > 0)
         std::printf("torn end:         %zu bytes of a record cut short (a resume drops them)\n", j.dropped_bytes());
     std::printf("%s\n", j.held_by_a_run() ? "the run is alive; it writes the result file when it finishes"

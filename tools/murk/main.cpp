@@ -73,8 +73,8 @@ int main(int argc, char** argv) {
     auto* mesh_cmd = app.add_subcommand("mesh", "mesh statistics and quality report; conversion to STL or VTK");
     mesh_cmd->add_option("input", mesh.input, "mesh file (.stl, .msh) or case file (.toml)")->required();
     mesh_cmd->add_option("--convert", mesh.convert_to, "write the mesh to this file (.stl or .vtk)");
-    mesh_cmd->add_option("--scale", mesh.scale, "file units to metres for mesh files (e.g. 0.001 for mm)")
-        ->check(CLI::PositiveNumber);
+    mesh_cmd->add_option("--file-unit", mesh.file_unit,
+                         "mesh files: the length of one unit of the file's coordinates, e.g. \"1 mm\" (default: 1 m)");
 
     try {
         app.parse(argc, argv);

@@ -3,6 +3,7 @@
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_io.hpp"
 #include "geometry/mesh_quality.hpp"
+#include "cases/input/units.hpp"
 #include "tools/murk/commands.hpp"
 #include "cases/input/case_reader.hpp"
 #include "cases/scene/scene_builder.hpp"
@@ -36,7 +37,10 @@ int mesh_command(const MeshArgs& args) {
         for (const auto& surface : scene.surfaces) all_good = report(surface.mesh) && all_good;
         return all_good ? 0 : 2;
     }
-    TriangleMesh mesh = read_mesh(args.input, args.scale);
+    // A length with its unit, as every quantity murk reads (case files say the same with file_unit).
+    const double unit_m = args.file_unit.empty() ? 1.0 : parse_quantity(args.file_unit, Dimension::length, "--file-unit");
+    if (!(unit_m > 0)) throw InputError("--file-unit: must be a positive length, got " + args.file_unit);
+    TriangleMesh mesh = read_mesh(args.input, unit_m);
     const bool good = report(mesh);
     if (!args.convert_to.empty()) {
         if (ends_with(args.convert_to, ".stl")) write_stl(args.convert_to, mesh);

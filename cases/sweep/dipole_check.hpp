@@ -11,7 +11,7 @@ namespace murk {
 
 // Flat indices of the dipole points to re-solve (at most `count`), sorted.
 template <class S>
-std::vector<std::size_t> path_check_sample(const PointRoutes<S>& routes, std::size_t count);
+std::vector<std::size_t> dipole_check_sample(const PointRoutes<S>& routes, std::size_t count);
 
 // Re-solves the sample points of `share` (flags over all points; empty: every
 // point) that the journal has no check for, and appends each check: max over
@@ -22,6 +22,6 @@ void check_dipole_points(const PointRoutes<S>& routes, std::size_t count, const 
                          const PointPath<S>& exact, const SweepBaselines<S>& baselines, PointJournal& journal);
 
 // The journal's checks as the result file lists them (in point order).
-PathCheck path_check_of(const PointJournal& journal);
+DipoleCheck dipole_check_of(const PointJournal& journal);
 
 }  // namespace murk

@@ -1,4 +1,4 @@
-#include "cases/sweep/path_check.hpp"
+#include "cases/sweep/dipole_check.hpp"
 
 #include "cases/sweep/parallel_points.hpp"
 
@@ -21,7 +21,7 @@ std::map<std::size_t, const PlacedPoint<S>*> dipole_points(const PointRoutes<S>&
 }  // namespace
 
 template <class S>
-std::vector<std::size_t> path_check_sample(const PointRoutes<S>& routes, std::size_t count) {
+std::vector<std::size_t> dipole_check_sample(const PointRoutes<S>& routes, std::size_t count) {
     const auto points = dipole_points(routes);
     const std::size_t n = std::min(points.size(), count);
     std::vector<const PlacedPoint<S>*> by_ratio;
@@ -46,7 +46,7 @@ void check_dipole_points(const PointRoutes<S>& routes, std::size_t count, const 
     std::vector<char> checked(journal.header().points, 0);
     for (const CheckRecord& c : journal.checks()) checked[c.point] = 1;
     std::vector<std::size_t> todo;
-    for (std::size_t p : path_check_sample(routes, count))
+    for (std::size_t p : dipole_check_sample(routes, count))
         if ((share.empty() || share[p]) && !checked[p]) todo.push_back(p);
     std::mutex journal_lock;
     for_each_in_parallel(todo.size(), [&](std::size_t k) {
@@ -65,10 +65,10 @@ void check_dipole_points(const PointRoutes<S>& routes, std::size_t count, const 
     });
 }
 
-PathCheck path_check_of(const PointJournal& journal) {
+DipoleCheck dipole_check_of(const PointJournal& journal) {
     std::vector<CheckRecord> checks = journal.checks();
     std::sort(checks.begin(), checks.end(), [](const CheckRecord& a, const CheckRecord& b) { return a.point < b.point; });
-    PathCheck c;
+    DipoleCheck c;
     for (const CheckRecord& r : checks) {
         c.points.push_back(std::int64_t(r.point));
         c.discrepancy.push_back(r.discrepancy);
@@ -77,8 +77,8 @@ PathCheck path_check_of(const PointJournal& journal) {
     return c;
 }
 
-template std::vector<std::size_t> path_check_sample(const PointRoutes<double>&, std::size_t);
-template std::vector<std::size_t> path_check_sample(const PointRoutes<Complex>&, std::size_t);
+template std::vector<std::size_t> dipole_check_sample(const PointRoutes<double>&, std::size_t);
+template std::vector<std::size_t> dipole_check_sample(const PointRoutes<Complex>&, std::size_t);
 template void check_dipole_points(const PointRoutes<double>&, std::size_t, const std::vector<char>&,
                                   const PointPath<double>&, const SweepBaselines<double>&, PointJournal&);
 template void check_dipole_points(const PointRoutes<Complex>&, std::size_t, const std::vector<char>&,
