@@ -62,6 +62,20 @@ bool check_indices(const TriangleMesh& m, std::vector<std::string>& problems) {
             problems.push_back("vertex " + sz(v) + " has a non-finite coordinate");
             return false;
         }
+    // A surface far from the origin for its size loses its shape to rounding: at a
+    // million sizes away the coordinates keep only about ten digits of its panels.
+    Vec3 low = m.vertices.front(), high = low;
+    for (const Vec3& v : m.vertices) {
+        low = low.cwiseMin(v);
+        high = high.cwiseMax(v);
+    }
+    const double size = (high - low).maxCoeff();
+    const double away = (0.5 * (low + high)).norm();
+    if (away > kMaxDistanceInSizes * size) {
+        problems.push_back("lies " + num(away) + " m from the origin, over " + num(kMaxDistanceInSizes) +
+                           " times its size (" + num(size) + " m): too far for double precision; move the scene nearer");
+        return false;
+    }
     return true;
 }
 

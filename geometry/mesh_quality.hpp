@@ -10,6 +10,10 @@
 
 namespace murk {
 
+// A mesh whose centre lies farther from the origin than this many times its size
+// is refused: its coordinates no longer resolve its panels to useful accuracy.
+inline constexpr double kMaxDistanceInSizes = 1e6;
+
 struct MeshReport {
     std::string name;
     std::size_t panel_count = 0;

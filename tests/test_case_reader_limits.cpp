@@ -10,7 +10,9 @@
 
 #include "tests/temp_dir.hpp"
 
+#include <cmath>
 #include <string>
+#include <vector>
 
 using namespace murk;
 
@@ -165,4 +167,63 @@ TEST_CASE("case limits: negative counts and counts that disagree with the conten
     std::string grid = "[[probe]]\nname = \"g\"\nform = \"grid\"\ncorner = [\"1 cm\", \"1 cm\", \"0 cm\"]\n"
                        "along = [\"2 cm\", \"0 cm\", \"0 cm\"]\nacross = [\"0 cm\", \"0 cm\", \"1 cm\"]\npoints = [3, 3, 3]\n";
     expect_has(refusal(kBody + grid), "probe[1].points: expected two whole numbers");
+}
+
+// Quantities murk cannot compute with: subnormal numbers (they have lost digits and
+// vanish or overflow in the first quotient) and magnitudes outside the computing
+// window of cases/input/case_limits.hpp. Each is refused at reading time, naming
+// the line and key, whichever key holds it. The window is our own design choice
+// (products of three quantities within it stay inside double precision, whose
+// limits, 2.2e-308 and 1.8e308, are those of IEEE 754 binary64: common practice).
+TEST_CASE("case limits: subnormal and out-of-window quantities are refused at reading time") {
+    struct Bad {
+        std::string from, to, key, words;
+    };
+    const std::vector<Bad> bad{
+        {"conductivity = \"100 uS/cm\"", "conductivity = \"4.9e-324 S/m\"", "water.conductivity", "too small for double"},
+        {"conductivity = \"100 uS/cm\"", "conductivity = \"1e-308 uS/cm\"", "water.conductivity", "too small for double"},
+        {"conductivity = \"100 uS/cm\"", "conductivity = \"1e-31 S/m\"", "water.conductivity", "outside the range murk"},
+        {"current = \"50 uA\"", "current = \"1e308 A\"", "fish.organ.current", "outside the range murk"},
+        {"current = \"50 uA\"", "current = \"1e-40 A\"", "fish.organ.current", "outside the range murk"},
+        {"length = \"15 cm\"", "length = \"1e31 m\"", "fish.length", "outside the range murk"},
+        {"radius = \"2 mm\"", "radius = \"4.9e-324 m\"", "object[1].radius", "too small for double"},
+        {"conductivity = \"0.5 S/m\"", "conductivity = \"4.9e-324 S/m\"", "object[1].conductivity", "too small"},
+    };
+    for (const Bad& b : bad) {
+        std::string text = kBody + kPrey;
+        const std::size_t at = text.find(b.from);
+        REQUIRE(at != std::string::npos);
+        text.replace(at, b.from.size(), b.to);
+        CAPTURE(b.to);
+        const std::string m = refusal(text);
+        expect_has(m, "case.toml:");
+        expect_has(m, b.key + ":");
+        expect_has(m, b.words);
+    }
+}
+
+TEST_CASE("case limits: an object's conductivity may span every normal number (solved as its limit beyond 1e8)") {
+    for (const char* value : {"1e-300 S/m", "1e300 S/m", "2.3e-308 S/m"}) {
+        std::string text = kBody + kPrey;
+        const std::string from = "conductivity = \"0.5 S/m\"";
+        text.replace(text.find(from), from.size(), std::string("conductivity = \"") + value + "\"");
+        CAPTURE(value);
+        CHECK_NOTHROW(read_case_text(text, "case.toml"));
+    }
+}
+
+TEST_CASE("case limits: directions normalize whatever the size of their numbers") {
+    // [a, a, 0] / |.| = [1/sqrt 2, 1/sqrt 2, 0] for any a > 0: plain vector algebra.
+    const std::string sweep = "[sweep]\nobject = \"prey\"\ndistance = [\"1 cm\", \"2 cm\"]\n";
+    for (const char* direction : {"[1e200, 1e200, 0]", "[1e-200, 1e-200, 0]", "[1e-300, 1e-300, 0]"}) {
+        const CaseSpec spec = read_case_text(kBody + kPrey + sweep + "direction = " + direction + "\n", "case.toml");
+        REQUIRE(spec.sweep);
+        REQUIRE(spec.sweep->direction);
+        const auto& d = *spec.sweep->direction;
+        CAPTURE(direction);
+        CHECK(d[0] == doctest::Approx(1.0 / std::sqrt(2.0)).epsilon(1e-15));
+        CHECK(d[1] == doctest::Approx(1.0 / std::sqrt(2.0)).epsilon(1e-15));
+        CHECK(d[2] == 0.0);
+    }
+    expect_has(refusal(kBody + kPrey + sweep + "direction = [0, 0, 0]\n"), "sweep.direction: a direction cannot be zero");
 }

@@ -226,3 +226,17 @@ TEST_CASE("a large valid mesh passes, and a single panel turned or vertex moved 
     CHECK_THROWS_AS(require_valid_mesh(dented, "dented"), InputError);
     CHECK_NOTHROW(require_valid_mesh(m, "the original still"));
 }
+
+TEST_CASE("geometry: a mesh far from the origin for its size is refused for that reason") {
+    // A 2 mm tetrahedron at 1e15 m: double precision (2.2e-16 relative, IEEE 754
+    // binary64: common practice) spaces representable coordinates 0.125 m apart
+    // there, so its corners merge. The report names the distance, not the symptom.
+    const MeshReport far = inspect_mesh(tetrahedron(Vec3(1e15, 0, 0), 2e-3));
+    CHECK(has_problem(far, "lies 1e+15 m from the origin"));
+    CHECK(far.problems.size() == 1);
+    // A thousand sizes away is an ordinary scene: no problem.
+    CHECK(inspect_mesh(tetrahedron(Vec3(2.0, 0, 0), 2e-3)).problems.empty());
+    // A million sizes is the limit: just inside passes, just outside is refused.
+    CHECK(inspect_mesh(tetrahedron(Vec3(0.999e6, 0, 0), 1.0)).problems.empty());
+    CHECK(has_problem(inspect_mesh(tetrahedron(Vec3(1.01e6, 0, 0), 1.0)), "lies "));
+}

@@ -45,14 +45,17 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # their HDF5 output by cli_run_sweep, the exact and dipole paths with one and two
 # threads by cli_run_threads, murk solve on every example by cli_solve_examples,
 # polarization by a sphere's tensor and the solver by the unit tests. Not run
-# sanitized: murk verify's checks, --resume, and murk inspect on damaged files
-# (cli_plot_and_inspect, whose time goes mostly to the Python plots). build/ runs
-# every test.
+# sanitized: murk verify's checks, --resume, murk inspect on damaged files
+# (cli_plot_and_inspect, whose time goes mostly to the Python plots), and murk solve
+# on every example (cli_solve_examples, 84 s sanitized; cli_solve_signs runs murk
+# solve on direct-current and complex cases under the sanitizers). build/ runs every
+# test. A clean clone's whole CI run took 18.7 minutes on two cores with
+# cli_solve_examples sanitized; without it about 17.
 # Also left out: the tests that run murk many times over as other programs drive it (thirty
 # kills and resumes, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
 # ParaView on the demo); the journal, placement, shares and merge code they drive is unit-tested
 # under the sanitizers, and build/ runs them all.
-slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect'
+slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples'
 slow+='|cli_kill_resume|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*)$"
@@ -61,7 +64,7 @@ run_tests build-sanitize -E "$slow"
 # The readers under a coverage-guided fuzzer (libFuzzer, clang): about 20 s per reader;
 # `bash tools/fuzz.sh 600` searches longer.
 mkdir -p build-fuzz
-printf 'fuzz: the STL, MSH and case-file readers (output in build-fuzz/fuzz.log):'
+printf 'fuzz: the STL, MSH and case-file readers (output in build-fuzz/fuzz.log)'
 start=$SECONDS
 if ! quiet_step build-fuzz/fuzz.log bash tools/fuzz.sh 20; then
   show_log_tail build-fuzz/fuzz.log "fuzzing"

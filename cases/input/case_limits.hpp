@@ -20,4 +20,14 @@ constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (
                                                    // the sweep's points, murk run checks against memory
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
 
+// Every quantity with a unit, except an object's conductivity, is zero or lies
+// between these magnitudes in SI units. Potentials are products and quotients of a
+// few such quantities (current / (conductivity x length)); within this window they
+// stay far inside double precision, so no solve can overflow or underflow. Real
+// cases sit many orders of magnitude inside it. An object's conductivity may be any
+// normal number: beyond a contrast of 1e8 it is solved as its limit (insulator or
+// perfect conductor, cases/scene/scene_rules.hpp), whatever its value.
+constexpr double kSmallestQuantity = 1e-30;
+constexpr double kLargestQuantity = 1e30;
+
 }  // namespace murk

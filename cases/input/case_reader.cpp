@@ -135,14 +135,28 @@ std::string read_choice(const Section& sec, const std::string& key, const toml::
     return value;
 }
 
+// Whether a quantity must lie in murk's computing window (case_limits.hpp) or is
+// an object's conductivity, which is taken to its limit beyond a contrast instead.
+enum class Window { computable, contrast_limited };
+
 // A quantity: a string with a unit, or a bare TOML number where the dimension
 // has no unit. `where` names the node in messages.
-double quantity_at(const std::string& where, const toml::node& n, Dimension d) {
-    if (n.is_string()) return parse_quantity(n.as_string()->get(), d, where);
+double quantity_at(const std::string& where, const toml::node& n, Dimension d, Window window = Window::computable) {
+    if (n.is_string()) {
+        const double v = parse_quantity(n.as_string()->get(), d, where);
+        const double size = std::abs(v);
+        if (window == Window::computable && v != 0.0 && (size < kSmallestQuantity || size > kLargestQuantity))
+            fail(where, describe(n) + " is " + format_number(v) + " " + si_unit(d) + ", outside the range murk computes with (" +
+                            format_number(kSmallestQuantity) + " to " + format_number(kLargestQuantity) + " " +
+                            si_unit(d) + ", or zero)");
+        return v;
+    }
     if (n.is_number()) {
         const double v = n.is_integer() ? static_cast<double>(n.as_integer()->get()) : n.as_floating_point()->get();
         if (d == Dimension::dimensionless || d == Dimension::permittivity_relative) {
             if (!std::isfinite(v)) fail(where, "expected a finite number, got " + describe(n));
+            if (std::fpclassify(v) == FP_SUBNORMAL)
+                fail(where, describe(n) + " is too small for double precision (below 2.2e-308; write 0 if zero is meant)");
             return v;
         }
         fail(where, "expected " + dimension_name(d) + " written with a unit like '" + example_quantity(d) +
@@ -151,8 +165,9 @@ double quantity_at(const std::string& where, const toml::node& n, Dimension d) {
     fail(where, "expected " + dimension_name(d) + " like '" + example_quantity(d) + "', got " + describe(n));
 }
 
-double read_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d) {
-    return quantity_at(sec.where(key), n, d);
+double read_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d,
+                     Window window = Window::computable) {
+    return quantity_at(sec.where(key), n, d, window);
 }
 
 std::optional<double> optional_quantity(const Section& sec, const std::string& key, Dimension d) {
@@ -161,8 +176,9 @@ std::optional<double> optional_quantity(const Section& sec, const std::string& k
     return read_quantity(sec, key, *n, d);
 }
 
-double positive_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d) {
-    const double v = read_quantity(sec, key, n, d);
+double positive_quantity(const Section& sec, const std::string& key, const toml::node& n, Dimension d,
+                         Window window = Window::computable) {
+    const double v = read_quantity(sec, key, n, d, window);
     if (!(v > 0.0)) fail(sec.where(key), "must be positive, got " + describe(n));
     return v;
 }
@@ -620,7 +636,7 @@ ObjectSpec read_object(const Section& sec, std::size_t index) {
                 fail(sec.where(key), "does not apply to an object whose conductivity is \"" + word + "\"");
     } else {
         o.material = Material::conducting;
-        o.conductivity_S_per_m = read_quantity(sec, "conductivity", c, Dimension::conductivity);
+        o.conductivity_S_per_m = read_quantity(sec, "conductivity", c, Dimension::conductivity, Window::contrast_limited);
         if (!(o.conductivity_S_per_m > 0.0))
             fail(sec.where("conductivity"), "must be positive, got " + describe(c) + " (write \"insulator\" for none)");
         o.permittivity_relative = optional_permittivity(sec, "permittivity");
@@ -789,7 +805,7 @@ std::vector<double> read_axis_values(const Section& sec, const std::string& key,
             if (words && e.is_string() && e.as_string()->get() == "insulator") values.push_back(kInsulatorConductivity);
             else if (words && e.is_string() && e.as_string()->get() == "conductor") values.push_back(kConductorConductivity);
             else {
-                const double v = quantity_at(where, e, d);
+                const double v = quantity_at(where, e, d, words ? Window::contrast_limited : Window::computable);
                 if (!any_sign && !(v > 0.0)) fail(where, "must be positive, got " + describe(e));
                 values.push_back(v);
             }
@@ -797,9 +813,12 @@ std::vector<double> read_axis_values(const Section& sec, const std::string& key,
     } else if (n.is_table()) {
         const Section range{*n.as_table(), sec.key_path(key), line_of(n), sec.ctx};
         check_keys(range, {"from", "to", "count", "spacing"});
+        // The object-conductivity axis (`words`) spans contrasts beyond the computing window.
+        const Window window = words ? Window::contrast_limited : Window::computable;
         const double from = any_sign ? read_quantity(range, "from", required(range, "from"), d)
-                                     : required_positive(range, "from", d);
-        const double to = any_sign ? read_quantity(range, "to", required(range, "to"), d) : required_positive(range, "to", d);
+                                     : positive_quantity(range, "from", required(range, "from"), d, window);
+        const double to = any_sign ? read_quantity(range, "to", required(range, "to"), d)
+                                   : positive_quantity(range, "to", required(range, "to"), d, window);
         const int count = read_count(range, "count", required(range, "count"), 1, kMaxAxisValues);
         std::string spacing = "linear";
         if (const toml::node* sp = range.find("spacing")) spacing = read_choice(range, "spacing", *sp, {"linear", "log"});
@@ -825,8 +844,12 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
                [&](const std::string& where, const toml::node& e, std::size_t i) {
                    v[i] = quantity_at(where, e, Dimension::dimensionless);
                });
+    // Scaled by the largest component first, so that [1e200, 1e200, 0] and
+    // [0, 1e-200, 0] normalize without their squares overflowing or vanishing.
+    const double largest = std::max({std::abs(v[0]), std::abs(v[1]), std::abs(v[2])});
+    if (!(largest > 0.0)) fail(sec.where(key), "a direction cannot be zero");
+    for (double& x : v) x /= largest;
     const double norm = std::sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
-    if (!(norm > 0.0)) fail(sec.where(key), "a direction cannot be zero");
     for (double& x : v) x /= norm;
     return v;
 }

@@ -380,6 +380,11 @@ double parse_quantity(const std::string& text, Dimension expected, const std::st
     }
     if (!std::isfinite(*value))
         fail(where, in_quotes(trimmed) + " is out of range once converted to " + si_unit(expected));
+    // A subnormal number has lost digits already and turns into zero or infinity in
+    // the first product or quotient it enters: refuse it rather than compute with it.
+    if (std::fpclassify(number) == FP_SUBNORMAL || std::fpclassify(*value) == FP_SUBNORMAL)
+        fail(where, in_quotes(trimmed) + " is too small for double precision once converted to " + si_unit(expected) +
+                        " (below 2.2e-308; write 0 if zero is meant)");
     return *value;
 }
 

@@ -43,7 +43,8 @@ std::string example_quantity(Dimension d);
 //    and a trailing "/sqrt(Hz)" or "/√Hz" for the two noise densities; a noise
 //    density may also be given as a power density ("100 nV^2/Hz"), whose square
 //    root is taken;
-//  - a bare number is accepted only for permittivity_relative and dimensionless.
+//  - a bare number is accepted only for permittivity_relative and dimensionless;
+//  - the value, in SI, is finite and not subnormal (zero, or at least 2.2e-308).
 // Throws InputError with one line "<where>: <what is wrong>" otherwise.
 // Thread-safe (UDUNITS-2 calls are serialized).
 double parse_quantity(const std::string& text, Dimension expected, const std::string& where);

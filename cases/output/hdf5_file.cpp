@@ -262,6 +262,20 @@ hsize_t element_count(const H5Shape& shape) {
     return n;
 }
 
+// The number of values a read of `shape` holds, refused (as damaged input) when the
+// shape's product overflows or the values would not fit in this machine's memory:
+// the shape comes from the file, and a damaged or hostile file can claim anything.
+std::size_t readable_count(const H5Shape& shape, std::size_t element_size, const std::string& what) {
+    hsize_t n = 1;
+    bool overflow = false;
+    for (hsize_t d : shape) overflow = overflow || __builtin_mul_overflow(n, d, &n);
+    const double memory = double(sysconf(_SC_PHYS_PAGES)) * double(sysconf(_SC_PAGESIZE));
+    if (overflow || double(n) * double(element_size) > memory)
+        throw InputError(what + " claims more values than this machine's memory holds; the file is damaged or not "
+                                "one of murk's");
+    return static_cast<std::size_t>(n);
+}
+
 std::string shape_text(const H5Shape& shape) {
     std::string text = "(";
     for (std::size_t k = 0; k < shape.size(); ++k) text += (k ? ", " : "") + std::to_string(shape[k]);
@@ -532,7 +546,7 @@ H5Array<T> H5Dataset::read() const {
         throw InputError(file_name() + ": dataset " + path() + " holds " + describe_type(type.get()) +
                          ", which cannot be read as " + Element<T>::name);
     H5Array<T> array{shape(), {}};
-    array.values.resize(element_count(array.shape));
+    array.values.resize(readable_count(array.shape, sizeof(T), file_name() + ": dataset " + path()));
     if (!array.values.empty()) {
         const H5TypeId memory = Element<T>::memory();
         checked(H5Dread(id(), memory.get(), H5S_ALL, H5S_ALL, H5P_DEFAULT, array.values.data()), "H5Dread", id());
@@ -547,7 +561,7 @@ namespace {
 H5SpaceId slab_selection(const H5Dataset& dataset, const H5Shape& offset, const H5Shape& count) {
     const H5Shape shape = dataset.shape();
     bool inside = offset.size() == shape.size() && count.size() == shape.size();
-    for (std::size_t k = 0; inside && k < shape.size(); ++k) inside = offset[k] + count[k] <= shape[k];
+    for (std::size_t k = 0; inside && k < shape.size(); ++k) inside = count[k] <= shape[k] && offset[k] <= shape[k] - count[k];
     if (!inside)
         throw std::out_of_range("slab at " + shape_text(offset) + " of " + shape_text(count) + " lies outside " +
                                 dataset.file_name() + ":" + dataset.path() + " of shape " + shape_text(shape));
@@ -588,7 +602,7 @@ std::vector<T> H5Dataset::read_slab(const H5Shape& offset, const H5Shape& count)
         throw InputError(file_name() + ": dataset " + path() + " holds " + describe_type(type.get()) +
                          ", which cannot be read as " + Element<T>::name);
     const H5SpaceId file_space = slab_selection(*this, offset, count);
-    std::vector<T> values(element_count(count));
+    std::vector<T> values(readable_count(count, sizeof(T), file_name() + ": dataset " + path()));
     if (values.empty()) return values;
     const H5SpaceId memory_space = simple_space(count);
     const H5TypeId memory = Element<T>::memory();

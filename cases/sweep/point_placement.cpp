@@ -3,11 +3,14 @@
 #include "cases/scene/scene_builder.hpp"
 #include "cases/scene/scene_rules.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/mesh_quality.hpp"
+#include "geometry/message_text.hpp"
 #include "geometry/transform.hpp"
 #include "geometry/triangle_distance.hpp"
 
 #include <algorithm>
 #include <cmath>
+#include <sstream>
 
 namespace murk {
 
@@ -49,6 +52,23 @@ bool move_to_clearance(const Clearance& clearance, TriangleMesh& object, const V
     return std::abs(c - distance) <= 1e-3 * distance;
 }
 
+// Refuses a point that takes the object so far from the origin that its
+// coordinates cannot hold its shape (the rule of geometry/mesh_quality.hpp, which
+// a rigidly moved mesh does not pass through again).
+void require_resolvable(const TriangleMesh& object, const Vec3& at, const std::string& key) {
+    const BgBox box = mesh_box(object);
+    const double size = std::max({bg::get<bg::max_corner, 0>(box) - bg::get<bg::min_corner, 0>(box),
+                                  bg::get<bg::max_corner, 1>(box) - bg::get<bg::min_corner, 1>(box),
+                                  bg::get<bg::max_corner, 2>(box) - bg::get<bg::min_corner, 2>(box)});
+    if (at.norm() > kMaxDistanceInSizes * size) {
+        std::ostringstream text;
+        text.precision(4);
+        text << key << ": takes object " << in_quotes(object.name) << " " << at.norm() << " m from the origin, over "
+             << kMaxDistanceInSizes << " times its size (" << size << " m): too far for double precision";
+        throw InputError(text.str());
+    }
+}
+
 }  // namespace
 
 PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed)
@@ -77,6 +97,9 @@ PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std:
                 if ((v - start).squaredNorm() < (nearest - start).squaredNorm()) nearest = v;
         }
         if (!plan.sweep.direction) {
+            if (!((start - nearest).norm() > 0.0))
+                throw InputError(o.source.where() + ".position: lies on the body's surface, so there is no way away from "
+                                 "it; give " + plan.where + ".direction");
             direction_.push_back((start - nearest).normalized());
             continue;
         }
@@ -135,10 +158,12 @@ Placement PointPlacement::place(const std::vector<std::size_t>& index, const Tri
         at = to_vec(grid.origin_m) + plan.axes[u].values[index[u]] * to_vec(grid.u_direction) +
              plan.axes[v].values[index[v]] * to_vec(grid.v_direction);
     }
+    const int d = plan.axis(AxisKind::distance);
+    require_resolvable(object, d >= 0 ? Vec3(at + plan.axes[d].values[index[d]] * direction_[m]) : at,
+                       plan.where + (d >= 0 ? ".distance" : ".grid"));
     Placement p;
     TriangleMesh moved = object;
     translate(moved, at);
-    const int d = plan.axis(AxisKind::distance);
     if (d >= 0) {
         double t = 0.0;
         if (!move_to_clearance([this](const TriangleMesh& o) { return clearance(o); }, moved, direction_[m],

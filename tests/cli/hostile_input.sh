@@ -44,4 +44,33 @@ line=$(grep -n '^conductivity = "100 uS/cm"' "$base" | head -n 1 | cut -d: -f1)
   tail -n +$((line + 1)) "$base"; } > "$dir/megabyte.toml"
 expect_short "megabyte value" "(1048577 bytes)" "$murk" solve "$dir/megabyte.toml" -o "$dir/out.h5"
 
+# Absurd quantities, at reading time and whichever command reads them: subnormal
+# numbers, magnitudes beyond what murk computes with, an object placed so far away
+# that its coordinates cannot hold its shape. Before this test, these gave NaN
+# results summarised as "0 V" with exit 0, or an exit 2 naming no key.
+falloff="$src/cases/examples/canonical_falloff.toml"
+edit() {  # edit FROM TO > FILE: one literal replacement in the canonical falloff case
+  /usr/bin/python3 -c 'import sys; s = open(sys.argv[1]).read(); assert sys.argv[2] in s, sys.argv[2]
+sys.stdout.write(s.replace(sys.argv[2], sys.argv[3], 1))' "$falloff" "$1" "$2"
+}
+edit 'conductivity = "1 S/m"' 'conductivity = "4.9e-324 S/m"' > "$dir/subnormal.toml"
+expect_short "subnormal conductivity, solve" "subnormal.toml:41: object[1].conductivity:" \
+  "$murk" solve "$dir/subnormal.toml" -o "$dir/out.h5"
+expect_short "subnormal conductivity, run with detection" "subnormal.toml:41: object[1].conductivity:" \
+  "$murk" run "$dir/subnormal.toml" -o "$dir/out.h5"
+edit 'conductivity = "100 uS/cm"' 'conductivity = "1e-308 uS/cm"' > "$dir/water.toml"
+expect_short "subnormal water conductivity" "water.toml:21: water.conductivity:" \
+  "$murk" run "$dir/water.toml" -o "$dir/out.h5"
+edit 'current = "10 uA"' 'current = "1e308 A"' > "$dir/current.toml"
+expect_short "current beyond the computing range" "current.toml:29: source[1].current:" \
+  "$murk" solve "$dir/current.toml" -o "$dir/out.h5"
+edit 'position = ["10 mm", "0 mm", "0 mm"]' 'position = ["1e15 m", "0 mm", "0 mm"]' > "$dir/far.toml"
+expect_short "object 1e15 m away" "from the origin, over 1e+06 times its size" \
+  "$murk" solve "$dir/far.toml" -o "$dir/out.h5"
+edit 'distance = { from = "8 mm", to = "256 mm"' 'distance = { from = "8 mm", to = "1e15 m"' > "$dir/far_sweep.toml"
+expect_short "sweep distance 1e15 m" "sweep.distance" "$murk" run "$dir/far_sweep.toml" -o "$dir/out.h5"
+
+# Command-line arguments are echoed on one printable line too.
+expect_short "argument with a line break" 'unexpected\nsecond' "$murk" run "$falloff" $'unexpected\nsecond' -o "$dir/out.h5"
+
 [ "$failures" -eq 0 ] || { echo "$failures hostile inputs misbehaved"; exit 1; }

@@ -1,6 +1,7 @@
 // The murk command line: parses arguments (the only file that includes CLI11,
 // which is slow to compile) and hands each subcommand a plain options struct.
 #include "geometry/input_error.hpp"
+#include "geometry/message_text.hpp"
 #include "geometry/internal_check.hpp"
 #include "tools/murk/commands.hpp"
 #include "tools/murk/mpi_ranks.hpp"
@@ -80,7 +81,8 @@ int main(int argc, char** argv) {
         app.parse(argc, argv);
     } catch (const CLI::ParseError& e) {
         if (e.get_exit_code() == 0) return app.exit(e);  // --help
-        std::fprintf(stderr, "murk: %s (see murk --help)\n", e.what());
+        // CLI11 quotes the offending arguments as given: one printable line of them.
+        std::fprintf(stderr, "murk: %s (see murk --help)\n", murk::printable(e.what(), 200).c_str());
         return 2;
     }
 
