@@ -2,6 +2,8 @@
 
 #include "geometry/internal_check.hpp"
 #include <Eigen/QR>
+#include <memory>
+#include <optional>
 #include <stdexcept>
 
 namespace murk {
@@ -67,70 +69,138 @@ MovingBlock<S> factor_moving_block(const Scene<S>& scene, const std::vector<std:
     return block;
 }
 
+namespace {
+
+// One point's coupling system: its blocks, its GMRES run, and the vectors GMRES
+// applied the operator to with the fixed part's answers to them.
+template <class S>
+struct CouplingSystem {
+    const CoupledProblem<S>* problem = nullptr;
+    SystemLayout layout;
+    std::vector<Eigen::Index> m, f;
+    WaterRows fw, mw;
+    // Water rows of one part against the other part's unknowns (fm: fixed rows,
+    // moving columns), in storage kept per thread: every point of a sweep has
+    // blocks of the same size, and reusing it saves the page faults of fresh
+    // allocations of tens of megabytes.
+    SystemBlock<S>* fm = nullptr;
+    SystemBlock<S>* mf = nullptr;
+    std::vector<VectorX<S>> applied, answers;
+    std::optional<GmresRun<S>> run;
+    VectorX<S> pending;  // the moving part's answer to the vector being applied
+
+    // v - C_MF t, with C_MF acting on the moving water rows only.
+    VectorX<S> minus_coupling(VectorX<S> v, const VectorX<S>& t) const {
+        const VectorX<S> c = mf->matrix * t;
+        for (std::size_t i = 0; i < mw.at.size(); ++i) v(mw.at[i]) -= c(static_cast<Eigen::Index>(i));
+        return v;
+    }
+    // C_FM w spread over the fixed part's unknowns (zero off its water rows).
+    VectorX<S> coupled_into_fixed(const VectorX<S>& w, Eigen::Index fixed_size) const {
+        VectorX<S> u = VectorX<S>::Zero(fixed_size);
+        const VectorX<S> c = fm->matrix * w;
+        for (std::size_t i = 0; i < fw.at.size(); ++i) u(fw.at[i]) = c(static_cast<Eigen::Index>(i));
+        return u;
+    }
+};
+
+}  // namespace
+
+template <class S>
+std::vector<CoupledSolution<S>> solve_coupled_together(const std::vector<CoupledProblem<S>>& problems,
+                                                       const FixedPart<S>& fixed, const QuadratureOptions& options,
+                                                       const CouplingOptions& coupling) {
+    std::vector<CouplingSystem<S>> systems(problems.size());
+    thread_local std::vector<std::unique_ptr<SystemBlock<S>>> storage;
+    while (storage.size() < 2 * problems.size()) storage.push_back(std::make_unique<SystemBlock<S>>());
+    const VectorX<S>& x0 = fixed.unknowns();
+    for (std::size_t j = 0; j < problems.size(); ++j) {
+        const CoupledProblem<S>& p = problems[j];
+        CouplingSystem<S>& sys = systems[j];
+        sys.problem = &p;
+        sys.layout = system_layout(*p.scene);
+        sys.m = part_unknowns(*p.scene, sys.layout, p.moving);
+        sys.f = complement<S>(sys.layout.size, sys.m);
+        MURK_CHECK(static_cast<Eigen::Index>(sys.m.size()) == p.block->size,
+                   "the moving block was factored for surfaces of this scene's size");
+        MURK_CHECK(static_cast<Eigen::Index>(sys.f.size()) == fixed.size(),
+                   "the scene is the fixed part's scene with only the moving surfaces added");
+        // Only the water rows of one part see the other part's panels (interior rows
+        // see their own surface, electrode rows their own panels), so the coupling
+        // blocks keep just those rows: half the memory of the full-height blocks.
+        sys.fw = water_rows_of(sys.layout, sys.f);
+        sys.mw = water_rows_of(sys.layout, sys.m);
+        sys.fm = storage[2 * j].get();
+        sys.mf = storage[2 * j + 1].get();
+        assemble_block_into(*p.scene, sys.layout, options, sys.fw.rows, sys.m, *sys.fm);
+        assemble_block_into(*p.scene, sys.layout, options, sys.mw.rows, sys.f, *sys.mf);
+        const VectorX<S> b_m = assemble_block(*p.scene, sys.layout, options, sys.m, {}).rhs;
+        sys.run.emplace(sys.f.empty() ? b_m : sys.minus_coupling(b_m, x0), coupling.tolerance, coupling.max_iterations);
+    }
+
+    // GMRES on every system in step. Each iteration of each system applies the
+    // operator once, which is one solve against the body's factors; the systems
+    // still running share that solve as the columns of one blocked solve, which
+    // reads the factors once for all of them instead of once each (the solve is
+    // bound by memory bandwidth, not by arithmetic). Every vector GMRES applies
+    // the operator to is kept with the fixed part's answer to it: the answer to
+    // the solution is a combination of these, which saves the last solve against
+    // the factors.
+    for (;;) {
+        std::vector<std::size_t> active;
+        for (std::size_t j = 0; j < systems.size(); ++j)
+            if (!systems[j].run->done()) active.push_back(j);
+        if (active.empty()) break;
+        std::vector<std::size_t> need_fixed;
+        for (std::size_t j : active) {
+            CouplingSystem<S>& sys = systems[j];
+            if (sys.f.empty()) {
+                sys.run->answer(sys.run->request());
+                continue;
+            }
+            sys.applied.push_back(sys.run->request());
+            sys.pending = sys.problem->block->lu.solve(sys.applied.back());
+            need_fixed.push_back(j);
+        }
+        if (need_fixed.empty()) continue;
+        MatrixX<S> u(fixed.size(), static_cast<Eigen::Index>(need_fixed.size()));
+        for (std::size_t c = 0; c < need_fixed.size(); ++c)
+            u.col(static_cast<Eigen::Index>(c)) = systems[need_fixed[c]].coupled_into_fixed(
+                systems[need_fixed[c]].pending, fixed.size());
+        // One column alone goes through the matrix-vector solve, which Eigen's
+        // blocked triangular solve is about twice as slow as for a single column.
+        const MatrixX<S> answers = u.cols() == 1 ? MatrixX<S>(fixed.solve(VectorX<S>(u.col(0)))) : fixed.solve(u);
+        for (std::size_t c = 0; c < need_fixed.size(); ++c) {
+            CouplingSystem<S>& sys = systems[need_fixed[c]];
+            sys.answers.push_back(answers.col(static_cast<Eigen::Index>(c)));
+            sys.run->answer(sys.minus_coupling(sys.applied.back(), sys.answers.back()));
+        }
+    }
+
+    std::vector<CoupledSolution<S>> out(systems.size());
+    for (std::size_t j = 0; j < systems.size(); ++j) {
+        CouplingSystem<S>& sys = systems[j];
+        const VectorX<S>& z = sys.run->solution();
+        const VectorX<S> x_m = sys.problem->block->lu.solve(z);
+        VectorX<S> x(sys.layout.size);
+        for (std::size_t i = 0; i < sys.m.size(); ++i) x(sys.m[i]) = x_m(static_cast<Eigen::Index>(i));
+        if (!sys.f.empty()) {
+            const VectorX<S> x_f = x0 - fixed_answer(z, sys.applied, sys.answers, [&] {
+                                       return fixed.solve(sys.coupled_into_fixed(x_m, fixed.size()));
+                                   });
+            for (std::size_t i = 0; i < sys.f.size(); ++i) x(sys.f[i]) = x_f(static_cast<Eigen::Index>(i));
+        }
+        out[j].solution = unpack_solution(*sys.problem->scene, sys.layout, x);
+        out[j].gmres = sys.run->result();
+    }
+    return out;
+}
+
 template <class S>
 CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::size_t>& moving,
                                  const FixedPart<S>& fixed, const MovingBlock<S>& block,
                                  const QuadratureOptions& options, const CouplingOptions& coupling) {
-    const SystemLayout layout = system_layout(scene);
-    const std::vector<Eigen::Index> m = part_unknowns(scene, layout, moving);
-    const std::vector<Eigen::Index> f = complement<S>(layout.size, m);
-    MURK_CHECK(static_cast<Eigen::Index>(m.size()) == block.size,
-               "the moving block was factored for surfaces of this scene's size");
-    MURK_CHECK(static_cast<Eigen::Index>(f.size()) == fixed.size(),
-               "the scene is the fixed part's scene with only the moving surfaces added");
-
-    // Only the water rows of one part see the other part's panels (interior rows
-    // see their own surface, electrode rows their own panels), so the coupling
-    // blocks keep just those rows: half the memory of the full-height blocks.
-    const WaterRows fw = water_rows_of(layout, f), mw = water_rows_of(layout, m);
-    // Kept per thread: every point of a sweep has blocks of the same size, and
-    // reusing their storage saves the page faults of fresh allocations.
-    thread_local SystemBlock<S> fm, mf;
-    assemble_block_into(scene, layout, options, fw.rows, m, fm);
-    assemble_block_into(scene, layout, options, mw.rows, f, mf);
-    const MatrixX<S>& c_fm = fm.matrix;
-    const MatrixX<S>& c_mf = mf.matrix;
-    const VectorX<S> b_m = assemble_block(scene, layout, options, m, {}).rhs;
-    const VectorX<S>& x0 = fixed.unknowns();
-
-    // The fixed part's answer to the moving unknowns w: A_FF^-1 C_FM w.
-    auto fixed_response = [&](const VectorX<S>& w) -> VectorX<S> {
-        VectorX<S> u = VectorX<S>::Zero(fixed.size());
-        const VectorX<S> c = c_fm * w;
-        for (std::size_t i = 0; i < fw.at.size(); ++i) u(fw.at[i]) = c(static_cast<Eigen::Index>(i));
-        return fixed.solve(u);
-    };
-    // v - C_MF t, with C_MF acting on the moving water rows only.
-    auto minus_coupling = [&](VectorX<S> v, const VectorX<S>& t) -> VectorX<S> {
-        const VectorX<S> c = c_mf * t;
-        for (std::size_t i = 0; i < mw.at.size(); ++i) v(mw.at[i]) -= c(static_cast<Eigen::Index>(i));
-        return v;
-    };
-
-    const VectorX<S> rhs = f.empty() ? b_m : minus_coupling(b_m, x0);
-    // Every vector GMRES applies the operator to, with the fixed part's answer to
-    // it: the answer to the solution is a combination of these, which saves the
-    // last solve against the body's factors (one of three or four per point).
-    std::vector<VectorX<S>> applied, answers;
-    auto apply = [&](const VectorX<S>& v) -> VectorX<S> {
-        if (f.empty()) return v;
-        applied.push_back(v);
-        answers.push_back(fixed_response(block.lu.solve(v)));
-        return minus_coupling(v, answers.back());
-    };
-    CoupledSolution<S> out;
-    VectorX<S> z;
-    out.gmres = gmres<S>(apply, rhs, z, coupling.tolerance, coupling.max_iterations);
-    const VectorX<S> x_m = block.lu.solve(z);
-
-    VectorX<S> x(layout.size);
-    for (std::size_t i = 0; i < m.size(); ++i) x(m[i]) = x_m(static_cast<Eigen::Index>(i));
-    if (!f.empty()) {
-        const VectorX<S> x_f = x0 - fixed_answer(z, applied, answers, [&] { return fixed_response(x_m); });
-        for (std::size_t i = 0; i < f.size(); ++i) x(f[i]) = x_f(static_cast<Eigen::Index>(i));
-    }
-    out.solution = unpack_solution(scene, layout, x);
-    return out;
+    return solve_coupled_together<S>({CoupledProblem<S>{&scene, moving, &block}}, fixed, options, coupling).front();
 }
 
 template MovingBlock<double> factor_moving_block(const Scene<double>&, const std::vector<std::size_t>&,
@@ -140,6 +210,12 @@ template MovingBlock<Complex> factor_moving_block(const Scene<Complex>&, const s
 template CoupledSolution<double> solve_coupled(const Scene<double>&, const std::vector<std::size_t>&,
                                                const FixedPart<double>&, const MovingBlock<double>&,
                                                const QuadratureOptions&, const CouplingOptions&);
+template std::vector<CoupledSolution<double>> solve_coupled_together(const std::vector<CoupledProblem<double>>&,
+                                                                     const FixedPart<double>&, const QuadratureOptions&,
+                                                                     const CouplingOptions&);
+template std::vector<CoupledSolution<Complex>> solve_coupled_together(const std::vector<CoupledProblem<Complex>>&,
+                                                                      const FixedPart<Complex>&,
+                                                                      const QuadratureOptions&, const CouplingOptions&);
 template CoupledSolution<Complex> solve_coupled(const Scene<Complex>&, const std::vector<std::size_t>&,
                                                 const FixedPart<Complex>&, const MovingBlock<Complex>&,
                                                 const QuadratureOptions&, const CouplingOptions&);

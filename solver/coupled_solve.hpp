@@ -13,7 +13,8 @@
 // reflected by the body back onto the object, which is small unless the object
 // nearly touches the body, so a few iterations reach 1e-10. Each iteration is
 // one triangular solve against the stored body factors (memory-bound, about
-// 2 n^2 flops) and two products with the coupling blocks. Forming the Schur
+// 2 n^2 flops) and two products with the coupling blocks; a batch of points
+// shares those solves (solve_coupled_together). Forming the Schur
 // complement instead needs A_FF^-1 C_FM, a solve with one right-hand side per
 // moving unknown (hundreds), which measured slower (tools/bench_sweep.cpp).
 //
@@ -61,5 +62,24 @@ template <class S>
 CoupledSolution<S> solve_coupled(const Scene<S>& scene, const std::vector<std::size_t>& moving,
                                  const FixedPart<S>& fixed, const MovingBlock<S>& block,
                                  const QuadratureOptions& options, const CouplingOptions& coupling);
+
+// One point of a batch: its scene (the fixed part's with `moving` added, as for
+// solve_coupled) and the moving surfaces' factored block.
+template <class S>
+struct CoupledProblem {
+    const Scene<S>* scene = nullptr;
+    std::vector<std::size_t> moving;
+    const MovingBlock<S>* block = nullptr;
+};
+
+// Several points against one fixed part, their GMRES iterations in step so that
+// each step's solves against the body's factors are one blocked solve (reading
+// the factors once for the batch). Each point's result depends only on the batch
+// it was solved in (its members and their order), not on threads or timing.
+// solve_coupled is the batch of one.
+template <class S>
+std::vector<CoupledSolution<S>> solve_coupled_together(const std::vector<CoupledProblem<S>>& problems,
+                                                       const FixedPart<S>& fixed, const QuadratureOptions& options,
+                                                       const CouplingOptions& coupling);
 
 }  // namespace murk

@@ -204,3 +204,45 @@ TEST_CASE("a scene whose moving part does not match the fixed part is an interna
     CHECK_THROWS_WITH_AS(solve_coupled(two, {1}, fixed, block, kQuad, CouplingOptions{}),
                          doctest::Contains("f.size()) == fixed.size()"), InternalError);
 }
+
+TEST_CASE("points solved together equal the full solve, each as alone, and do not depend on their batch's timing") {
+    // Three places of one sphere (near, middle, far) and one of a second, larger
+    // sphere, against one factored body: their GMRES runs advance in step and share
+    // each solve against the factors (solve_coupled_together). Reference: the full
+    // dense solve of each scene (the same discrete equations, up to the GMRES
+    // tolerance, 1e-10), and each point solved alone.
+    const Scene<double> body = fish_scene(0.2);
+    const FixedPart<double> fixed(body, kQuad);
+    std::vector<Scene<double>> scenes;
+    for (const auto& [centre, radius] : {std::pair{Vec3(0.01, 0.019, 0), 0.005}, std::pair{Vec3(-0.02, 0.03, 0), 0.005},
+                                         std::pair{Vec3(0.03, 0.08, 0), 0.005}, std::pair{Vec3(0.0, -0.03, 0), 0.008}}) {
+        scenes.push_back(body);
+        scenes.back().surfaces.push_back(sphere_object(centre, radius, 0.5));
+    }
+    const MovingBlock<double> small = factor_moving_block(scenes[0], {1}, kQuad);
+    const MovingBlock<double> large = factor_moving_block(scenes[3], {1}, kQuad);
+    std::vector<CoupledProblem<double>> problems;
+    for (std::size_t k = 0; k < scenes.size(); ++k) problems.push_back({&scenes[k], {1}, k == 3 ? &large : &small});
+    const std::vector<CoupledSolution<double>> together = solve_coupled_together(problems, fixed, kQuad, CouplingOptions{});
+    REQUIRE(together.size() == scenes.size());
+    std::vector<int> iterations;
+    for (std::size_t k = 0; k < scenes.size(); ++k) {
+        CAPTURE(k);
+        CHECK(together[k].gmres.converged);
+        iterations.push_back(together[k].gmres.iterations);
+        const Solution<double> direct = solve_scene(scenes[k], kQuad);
+        const double scale = direct.surfaces[0].outer_potential.cwiseAbs().maxCoeff();
+        CHECK(max_difference(direct, together[k].solution) < 1e-9 * scale);
+        const CoupledSolution<double> alone = solve_coupled(scenes[k], {1}, fixed, *problems[k].block, kQuad,
+                                                            CouplingOptions{});
+        CHECK(alone.gmres.iterations == together[k].gmres.iterations);
+        CHECK(max_difference(alone.solution, together[k].solution) < 1e-12 * scale);
+    }
+    // The near point needs more iterations than the far one: the runs did finish
+    // at different steps, so the batch's later solves had fewer columns.
+    CHECK(iterations.front() > iterations[2]);
+    // The same batch again gives the same bits: nothing depends on timing.
+    const std::vector<CoupledSolution<double>> again = solve_coupled_together(problems, fixed, kQuad, CouplingOptions{});
+    for (std::size_t k = 0; k < scenes.size(); ++k)
+        CHECK(max_difference(again[k].solution, together[k].solution) == 0.0);
+}

@@ -92,6 +92,13 @@ int expected_coupling_iterations(double size_to_distance) {
     return size_to_distance < 0.1 ? 2 : 3;
 }
 
+std::size_t exact_batch_size(const SweepSizes& sizes) {
+    const double point_bytes =
+        double(sizes.fixed_unknowns) * double(sizes.moving_unknowns) * (sizes.complex ? 16.0 : 8.0);
+    if (!(point_bytes > 0.0)) return kMaxExactBatch;
+    return std::size_t(std::clamp(std::floor(kExactBatchBytes / point_bytes), 1.0, double(kMaxExactBatch)));
+}
+
 double CostModel::fixed_part_seconds() const {
     const double n = double(sizes.fixed_unknowns);
     const double assembly = n * n / (rates.entry_rate * rates.threads);
@@ -101,7 +108,10 @@ double CostModel::fixed_part_seconds() const {
 
 double CostModel::exact_point_seconds(double size_to_distance) const {
     const double n = double(sizes.fixed_unknowns), m = double(sizes.moving_unknowns);
-    const double solve = n * n * scalar_bytes() / rates.solve_byte_rate;
+    // A batch of points shares each solve: the factors are read once per batch,
+    // the arithmetic is each point's own.
+    const double solve = n * n * scalar_bytes() / rates.solve_byte_rate / double(exact_batch_size(sizes)) +
+                         flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     // The coupling blocks: the fixed water rows against the object's unknowns and
     // back; most pairs are far apart and cheap (10x the body's mixed entry rate).
     const double coupling = 2.0 * n * m / (10.0 * rates.entry_rate);
@@ -121,7 +131,9 @@ double CostModel::full_point_seconds() const {
 double CostModel::memory_bytes(bool exact, bool full) const {
     const double n = double(sizes.fixed_unknowns), m = double(sizes.moving_unknowns);
     double bytes = double(sizes.waters) * n * n * scalar_bytes();
-    if (exact) bytes += rates.threads * 2.0 * n * m * scalar_bytes();
+    // Each point of a running batch holds its two coupling blocks, about n m / 2
+    // entries each (the water rows of one part against the other part).
+    if (exact) bytes += rates.threads * double(exact_batch_size(sizes)) * n * m * scalar_bytes();
     if (full) bytes += rates.threads * (n + m) * (n + m) * scalar_bytes();
     return bytes;
 }

@@ -2,9 +2,11 @@
 // by GMRES (solver/coupled_solve.hpp), each iteration one solve against the
 // stored factors. Nothing is approximated beyond the discretization. An object
 // almost touching the body can keep GMRES from converging: that point falls back
-// on the full path, and says so.
+// on the full path, and says so. Points come in batches of one water whose
+// GMRES iterations share their solves against the factors.
 #include "cases/sweep/point_path.hpp"
 
+#include "geometry/internal_check.hpp"
 #include "solver/bem_system.hpp"
 
 namespace murk {
@@ -20,26 +22,38 @@ class ExactPath : public PointPath<S> {
 public:
     explicit ExactPath(const PathContext<S>& context) : c_(context), full_(make_full_path(context)) {}
 
+    // The points of one water, solved as one batch (solve_coupled_together).
     std::vector<PathReading<S>> solve(const std::vector<PlacedPoint<S>>& points) const override {
-        std::vector<PathReading<S>> out;
+        if (points.empty()) return {};
+        const std::size_t water = points.front().water;
+        const FixedPart<S>& fixed = *c_.baselines->waters[water].fixed;
+        std::vector<Scene<S>> scenes;
+        scenes.reserve(points.size());  // the problems point into it
+        std::vector<std::shared_ptr<const MovingBlock<S>>> blocks;
+        std::vector<CoupledProblem<S>> problems;
         for (const PlacedPoint<S>& p : points) {
-            const FixedPart<S>& fixed = *c_.baselines->waters[p.water].fixed;
-            const Scene<S> scene = point_scene(c_, p);
+            MURK_CHECK(p.water == water, "an exact batch holds points of one water");
+            scenes.push_back(point_scene(c_, p));
+            const Scene<S>& scene = scenes.back();
             const std::size_t moving = scene.surfaces.size() - 1;
             // The object's own block moves with it, unless a plane's images move
             // differently: then it is the point's own.
-            const std::shared_ptr<const MovingBlock<S>> block =
-                scene.plane ? std::make_shared<const MovingBlock<S>>(factor_moving_block(scene, {moving}, c_.quad))
-                            : c_.objects->block(*p.object, c_.quad);
-            CouplingOptions coupling = c_.coupling;
-            coupling.max_iterations = kMaxCouplingIterations;
-            const CoupledSolution<S> coupled = solve_coupled(scene, {moving}, fixed, *block, c_.quad, coupling);
-            if (!coupled.gmres.converged) {
-                out.push_back(full_->solve({p}).front());
+            blocks.push_back(scene.plane
+                                 ? std::make_shared<const MovingBlock<S>>(factor_moving_block(scene, {moving}, c_.quad))
+                                 : c_.objects->block(*p.object, c_.quad));
+            problems.push_back({&scene, {moving}, blocks.back().get()});
+        }
+        CouplingOptions coupling = c_.coupling;
+        coupling.max_iterations = kMaxCouplingIterations;
+        const std::vector<CoupledSolution<S>> coupled = solve_coupled_together(problems, fixed, c_.quad, coupling);
+        std::vector<PathReading<S>> out;
+        for (std::size_t k = 0; k < points.size(); ++k) {
+            if (!coupled[k].gmres.converged) {
+                out.push_back(full_->solve({points[k]}).front());
                 continue;
             }
             out.push_back(
-                {sensor_readings(c_.baselines->sensors, scene, coupled.solution, c_.quad), PathCode::exact});
+                {sensor_readings(c_.baselines->sensors, scenes[k], coupled[k].solution, c_.quad), PathCode::exact});
         }
         return out;
     }

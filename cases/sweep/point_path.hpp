@@ -23,6 +23,7 @@ namespace murk {
 // rather than 32 saved 5 % of the dipole stage on the benchmark.
 inline constexpr std::size_t kDipoleBlockSize = 128;
 
+
 // A point whose object has a valid place.
 template <class S>
 struct PlacedPoint {

@@ -30,7 +30,7 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
     e.sizes = cost.sizes;
     e.rates = cost.rates;
     e.points = plan.total;
-    e.exact = routes.exact.size();
+    for (const auto& block : routes.exact_blocks) e.exact += block.size();
     e.full = routes.full.size();
     for (const auto& block : routes.dipole_blocks) e.dipole += block.size();
     e.masked = routes.masked.size();
@@ -39,7 +39,8 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
     // per water for the baseline, about what assembling and factoring it costs.
     e.setup_seconds = cost.fixed_part_seconds();
     double work = 0;
-    for (const PlacedPoint<S>& q : routes.exact) work += cost.exact_point_seconds(q.size_to_distance);
+    for (const auto& block : routes.exact_blocks)
+        for (const PlacedPoint<S>& q : block) work += cost.exact_point_seconds(q.size_to_distance);
     work += double(routes.full.size()) * cost.full_point_seconds();
     for (const auto& block : routes.dipole_blocks) work += cost.dipole_block_seconds(block.size());
     if (method == SweepMethod::dipole || method == SweepMethod::automatic)  // the exact re-solves of the check
@@ -48,7 +49,7 @@ SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes
     e.points_seconds = work / double(cost.rates.threads);
     CostModel held = cost;
     if (method == SweepMethod::full) held.sizes.waters = 0;  // nothing factored is kept, a system per thread
-    e.memory_bytes = held.memory_bytes(!routes.exact.empty(), !routes.full.empty()) + kBytesPerPoint * double(plan.total);
+    e.memory_bytes = held.memory_bytes(!routes.exact_blocks.empty(), !routes.full.empty()) + kBytesPerPoint * double(plan.total);
     return e;
 }
 

@@ -37,7 +37,7 @@ PointPaths<S> make_point_paths(const PathContext<S>& context) {
 
 template <class S>
 PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placement, const MovingObjects<S>& objects,
-                            std::size_t dipole_block) {
+                            std::size_t exact_block, std::size_t dipole_block) {
     const SweepMethod method = plan.sweep.method;
     const bool measure = method == SweepMethod::dipole || method == SweepMethod::automatic;
     std::vector<PlacedPoint<S>> placed(plan.total);
@@ -56,7 +56,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
         if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre());
     });
     PointRoutes<S> routes;
-    std::vector<std::vector<PlacedPoint<S>>> dipoles(plan.waters.size());
+    std::vector<std::vector<PlacedPoint<S>>> exacts(plan.waters.size()), dipoles(plan.waters.size());
     for (std::size_t p = 0; p < plan.total; ++p) {
         if (mask[p] != MaskReason::none) {
             routes.masked.push_back(masked_point<S>(p, mask[p]));
@@ -68,12 +68,16 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
                              q.size_to_distance <= plan.sweep.dipole_accuracy / kDipoleErrorPerRatio);
         if (dipole) dipoles[q.water].push_back(q);
         else if (method == SweepMethod::full) routes.full.push_back(q);
-        else routes.exact.push_back(q);
+        else exacts[q.water].push_back(q);
     }
-    for (const auto& of_water : dipoles)
-        for (std::size_t b = 0; b < of_water.size(); b += dipole_block)
-            routes.dipole_blocks.emplace_back(of_water.begin() + b,
-                                              of_water.begin() + std::min(of_water.size(), b + dipole_block));
+    auto in_blocks = [](const std::vector<std::vector<PlacedPoint<S>>>& by_water, std::size_t size,
+                        std::vector<std::vector<PlacedPoint<S>>>& blocks) {
+        for (const auto& of_water : by_water)
+            for (std::size_t b = 0; b < of_water.size(); b += size)
+                blocks.emplace_back(of_water.begin() + b, of_water.begin() + std::min(of_water.size(), b + size));
+    };
+    in_blocks(exacts, exact_block, routes.exact_blocks);
+    in_blocks(dipoles, dipole_block, routes.dipole_blocks);
     return routes;
 }
 
@@ -102,48 +106,46 @@ void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, co
     for (const PointResult<S>& r : routes.masked)
         if (pending(r.point)) store(r);
 
-    // Exact and full points, one per thread (the solves inside run single-threaded,
-    // as OpenMP does not nest by default).
-    std::vector<std::pair<const PlacedPoint<S>*, const PointPath<S>*>> singles;
-    for (const PlacedPoint<S>& q : routes.exact)
-        if (pending(q.point)) singles.emplace_back(&q, paths.exact.get());
-    for (const PlacedPoint<S>& q : routes.full)
-        if (pending(q.point)) singles.emplace_back(&q, paths.full.get());
-    const auto t0 = Clock::now();
+    // Blocks with any point left, one per thread (the solves inside run
+    // single-threaded, as OpenMP does not nest by default); a block is solved
+    // whole, so that its points come out as in a run that was never interrupted.
+    // Full points are blocks of one.
     std::atomic<std::size_t> fallbacks{0};
-    for_each_in_parallel(singles.size(), [&](std::size_t i) {
-        const auto [q, path] = singles[i];
-        PathReading<S> r = path->solve({*q}).front();
-        if (path == paths.exact.get() && r.path == PathCode::full) ++fallbacks;
-        store(computed_point(q->point, q->centre(), std::move(r.reading), r.path, baselines, q->water));
-    });
+    auto solve_blocks = [&](const std::vector<std::vector<PlacedPoint<S>>>& all, const PointPath<S>& path) {
+        std::vector<const std::vector<PlacedPoint<S>>*> blocks;
+        for (const auto& block : all)
+            if (std::any_of(block.begin(), block.end(), [&](const PlacedPoint<S>& q) { return pending(q.point); }))
+                blocks.push_back(&block);
+        for_each_in_parallel(blocks.size(), [&](std::size_t b) {
+            const std::vector<PlacedPoint<S>>& block = *blocks[b];
+            std::vector<PathReading<S>> readings = path.solve(block);
+            for (std::size_t k = 0; k < block.size(); ++k) {
+                if (!pending(block[k].point)) continue;
+                if (&path == paths.exact.get() && readings[k].path == PathCode::full) ++fallbacks;
+                store(computed_point(block[k].point, block[k].centre(), std::move(readings[k].reading),
+                                     readings[k].path, baselines, block[k].water));
+            }
+        });
+    };
+    const auto t0 = Clock::now();
+    if (!routes.exact_blocks.empty()) solve_blocks(routes.exact_blocks, *paths.exact);
+    std::vector<std::vector<PlacedPoint<S>>> full_singles;
+    for (const PlacedPoint<S>& q : routes.full) full_singles.push_back({q});
+    if (!full_singles.empty()) solve_blocks(full_singles, *paths.full);
     stats.point_seconds += seconds_since(t0);
     stats.fallbacks += fallbacks;
 
-    // Dipole blocks with any point left; a block is solved whole, so that its
-    // points come out as in a run that was never interrupted.
-    std::vector<const std::vector<PlacedPoint<S>>*> blocks;
-    for (const auto& block : routes.dipole_blocks)
-        if (std::any_of(block.begin(), block.end(), [&](const PlacedPoint<S>& q) { return pending(q.point); }))
-            blocks.push_back(&block);
     const auto t1 = Clock::now();
-    for_each_in_parallel(blocks.size(), [&](std::size_t b) {
-        const std::vector<PlacedPoint<S>>& block = *blocks[b];
-        std::vector<PathReading<S>> readings = paths.dipole->solve(block);
-        for (std::size_t k = 0; k < block.size(); ++k)
-            if (pending(block[k].point))
-                store(computed_point(block[k].point, block[k].centre(), std::move(readings[k].reading),
-                                     PathCode::dipole, baselines, block[k].water));
-    });
+    if (!routes.dipole_blocks.empty()) solve_blocks(routes.dipole_blocks, *paths.dipole);
     stats.dipole_seconds += seconds_since(t1);
 }
 
 template PointPaths<double> make_point_paths(const PathContext<double>&);
 template PointPaths<Complex> make_point_paths(const PathContext<Complex>&);
 template PointRoutes<double> route_points(const SweepPlan&, const PointPlacement&, const MovingObjects<double>&,
-                                          std::size_t);
+                                          std::size_t, std::size_t);
 template PointRoutes<Complex> route_points(const SweepPlan&, const PointPlacement&, const MovingObjects<Complex>&,
-                                           std::size_t);
+                                           std::size_t, std::size_t);
 template void compute_points(const PointRoutes<double>&, const PointPaths<double>&, const SweepBaselines<double>&,
                              const std::vector<char>&, PointJournal&, bool, RunStats&);
 template void compute_points(const PointRoutes<Complex>&, const PointPaths<Complex>&, const SweepBaselines<Complex>&,

@@ -59,10 +59,11 @@ public:
         SensorLayout sensors = sensor_layout(spec_, scenes.front(), plan.where);
         const MovingObjects<S> objects(spec_, plan);
         const PointPlacement placement(spec_, plan, meshes_of(scenes.front()));
-        const PointRoutes<S> routes = route_points(plan, placement, objects, kDipoleBlockSize);
+        const SweepSizes sizes = sweep_sizes(scenes, objects, plan);
+        const PointRoutes<S> routes =
+            route_points(plan, placement, objects, exact_batch_size(sizes), kDipoleBlockSize);
         stats_.placement_seconds = since_start();
         // The cost, before paying it.
-        const SweepSizes sizes = sweep_sizes(scenes, objects, plan);
         const SweepEstimate estimate = estimate_sweep(plan, routes, CostModel{measured_or_reference_rates(), sizes});
         if (options_.estimate_only) {
             std::printf("%s", format_estimate(estimate).c_str());

@@ -8,7 +8,14 @@ namespace murk {
 template <class S>
 std::vector<WorkUnit> work_units(const PointRoutes<S>& routes, const CostModel& cost) {
     std::vector<WorkUnit> units;
-    for (const PlacedPoint<S>& q : routes.exact) units.push_back({{q.point}, cost.exact_point_seconds(q.size_to_distance)});
+    for (const auto& block : routes.exact_blocks) {
+        WorkUnit u;
+        for (const PlacedPoint<S>& q : block) {
+            u.points.push_back(q.point);
+            u.seconds += cost.exact_point_seconds(q.size_to_distance);
+        }
+        units.push_back(std::move(u));
+    }
     for (const PlacedPoint<S>& q : routes.full) units.push_back({{q.point}, cost.full_point_seconds()});
     for (const auto& block : routes.dipole_blocks) {
         WorkUnit u;
