@@ -108,10 +108,14 @@ double CostModel::fixed_part_seconds() const {
 
 double CostModel::exact_point_seconds(double size_to_distance) const {
     const double n = double(sizes.fixed_unknowns), m = double(sizes.moving_unknowns);
-    // A batch of points shares each solve: the factors are read once per batch,
-    // the arithmetic is each point's own.
-    const double solve = n * n * scalar_bytes() / rates.solve_byte_rate / double(exact_batch_size(sizes)) +
-                         flop_factor() * 2.0 * n * n / rates.block_flop_rate;
+    // Per GMRES step: a batch of points shares the solve against the factors,
+    // whose blocked form passes over them about three times (Eigen packs each
+    // triangle, reading and writing it, then reads the packed copy), while the
+    // arithmetic is each point's own; and each point reads its two coupling
+    // blocks (n m entries in all). Checked by tools/bench/estimate_check.sh.
+    const double solve =
+        (3.0 * n * n / double(exact_batch_size(sizes)) + n * m) * scalar_bytes() / rates.solve_byte_rate +
+        flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     // The coupling blocks: the fixed water rows against the object's unknowns and
     // back; most pairs are far apart and cheap (10x the body's mixed entry rate).
     const double coupling = 2.0 * n * m / (10.0 * rates.entry_rate);
@@ -135,7 +139,11 @@ double CostModel::memory_bytes(bool exact, bool full) const {
     // entries each (the water rows of one part against the other part).
     if (exact) bytes += rates.threads * double(exact_batch_size(sizes)) * n * m * scalar_bytes();
     if (full) bytes += rates.threads * (n + m) * (n + m) * scalar_bytes();
-    return bytes;
+    // What the terms above leave out: the process itself (libraries, HDF5; about
+    // 25 MiB), the strips of layer blocks each thread assembles into, allocator
+    // slack. tools/bench/estimate_check.sh found the terms 11-14 % below the peak
+    // resident memory of runs on three body sizes (792 to 2,928 panels).
+    return 1.1 * bytes + 24.0 * 1024 * 1024;
 }
 
 }  // namespace murk

@@ -1,11 +1,11 @@
 #!/usr/bin/env bash
 # How good is `murk run --estimate`? For three body sizes (the fish of
-# tools/bench/fish_grid.toml at three panel sizes, 40 exact points each) prints the
+# tools/bench/fish_grid.toml at three panel sizes, 200 exact points each) prints the
 # estimated memory and time next to the measured peak memory (resident set, from
 # /usr/bin/time) and wall time of the same run, and the relative error of each.
 #
 # Usage: bash tools/bench/estimate_check.sh [BUILD_DIR] [THREADS]   (default build/, 2)
-# About 3 minutes on two cores. The estimate uses reference rates of this kind of
+# About 2 minutes on two cores. The estimate uses reference rates of this kind of
 # machine unless murk has measured them; a busy machine makes the runs slower than
 # estimated, so say whether it was quiet when you quote the figures.
 set -euo pipefail
@@ -23,8 +23,8 @@ echo "estimate_check: $threads threads, $(date -u +%Y-%m-%dT%H:%MZ), load averag
 printf '%-12s %8s | %9s %9s %7s | %8s %8s %7s\n' "panel size" panels "est. MiB" "peak MiB" error "est. s" "wall s" error
 for size in 6 4.5 3.1; do
   sed -e "s/^panel_size = .*/panel_size = \"$size mm\"/" \
-      -e 's/^u = .*/u = { from = "-9 cm", to = "9 cm", count = 8 }/' \
-      -e 's/^v = .*/v = { from = "1.5 cm", to = "6 cm", count = 5 }/' \
+      -e 's/^u = .*/u = { from = "-9 cm", to = "9 cm", count = 20 }/' \
+      -e 's/^v = .*/v = { from = "1.5 cm", to = "6 cm", count = 10 }/' \
       "$root/tools/bench/fish_grid.toml" > "$work/case.toml"
   "$murk" run "$work/case.toml" --estimate --threads "$threads" > "$work/estimate.txt"
   panels=$(sed -n 's/.*unknowns in the fixed part (\([0-9]*\) panels).*/\1/p' "$work/estimate.txt")
