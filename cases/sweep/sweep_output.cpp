@@ -194,7 +194,7 @@ void SweepFile<S>::create_datasets() {
     H5Shape one_point(shape.size(), 1);
     one_point.push_back(hsize_t(sensors.size()));
     per_point(S{}, "perturbation", with(shape, {hsize_t(sensors.size())}), sensors.units,
-              "change of the " + kind + " caused by the object", H5Layout::compressed(4, one_point), with_sensor);
+              "change of the " + kind + " caused by the object", H5Layout::compressed(1, one_point), with_sensor);
     per_point(double{}, kPeakPerturbation, with(shape), sensors.units, "largest magnitude of the change over the sensors",
               chunked, axis_names);
     // -1 (no sensor) until written, and for masked points: 0 is a sensor.
@@ -216,6 +216,39 @@ void SweepFile<S>::create_datasets() {
     }
     coded(kPath, "path that computed the point", flags_of<PathCode>());
     status_.assign(plan.total, PointStatus::not_computed);
+    // As the datasets are filled: NaN, -1 for the peak sensor, 0 for the codes.
+    const std::size_t n = plan.total;
+    const double nan = std::numeric_limits<double>::quiet_NaN();
+    values_.object_position.assign(3 * n, nan);
+    values_.peak.assign(n, nan);
+    values_.peak_position.assign(3 * n, nan);
+    if (sensors.skin) values_.image_width.assign(n, nan);
+    if (base.noise) values_.snr.assign(n, nan), values_.detection_probability.assign(n, nan);
+    values_.peak_sensor.assign(n, -1);
+    values_.mask_reason.assign(n, 0);
+    values_.path.assign(n, 0);
+}
+
+template <class S>
+void SweepFile<S>::write_point_values() {
+    H5Group sweep = output_->root().open_group("sweep");
+    auto whole = [&](const char* name, const auto& values) {
+        if (values.empty()) return;
+        const H5Dataset d = sweep.dataset(name);
+        d.write_slab(H5Shape(d.shape().size(), 0), d.shape(), values);
+    };
+    std::vector<std::uint8_t> status(status_.size());
+    for (std::size_t p = 0; p < status_.size(); ++p) status[p] = std::uint8_t(status_[p]);
+    whole("object_position", values_.object_position);
+    whole("peak_perturbation", values_.peak);
+    whole("peak_sensor", values_.peak_sensor);
+    whole("peak_position", values_.peak_position);
+    whole("image_width", values_.image_width);
+    whole("snr", values_.snr);
+    whole("detection_probability", values_.detection_probability);
+    whole("mask_reason", values_.mask_reason);
+    whole("path", values_.path);
+    whole("status", status);
 }
 
 template <class S>
@@ -223,30 +256,30 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
     H5Group sweep = output_->root().open_group("sweep");
     const std::vector<std::size_t> index = plan_->index_of(r.point);
     const SensorLayout& sensors = baselines_->sensors;
+    const std::size_t p = r.point;
     PointStatus status = PointStatus::computed;
     if (r.mask != MaskReason::none) {
         // Masked: every real value stays NaN (the object has no valid place),
         // and the peak sensor is -1, which no sensor index can be.
-        write_at(sweep, "peak_sensor", index, {}, std::vector<std::int32_t>{-1});
-        write_at(sweep, "mask_reason", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.mask)});
+        values_.mask_reason[p] = std::uint8_t(r.mask);
         status = PointStatus::masked;
     } else {
-        const Vec3 c = r.centre;
-        write_at(sweep, "object_position", index, {3}, std::vector<double>{c.x(), c.y(), c.z()});
         write_at(sweep, "perturbation", index, {hsize_t(r.change.size())}, r.change);
-        write_at(sweep, "peak_perturbation", index, {}, std::vector<double>{r.image.peak});
-        write_at(sweep, "peak_sensor", index, {}, std::vector<std::int32_t>{std::int32_t(r.image.peak_sensor)});
         const Vec3 at = sensors.position[r.image.peak_sensor];
-        write_at(sweep, "peak_position", index, {3}, std::vector<double>{at.x(), at.y(), at.z()});
-        if (sensors.skin) write_at(sweep, "image_width", index, {}, std::vector<double>{r.image.width});
+        for (int k = 0; k < 3; ++k) {
+            values_.object_position[3 * p + k] = r.centre[k];
+            values_.peak_position[3 * p + k] = at[k];
+        }
+        values_.peak[p] = r.image.peak;
+        values_.peak_sensor[p] = std::int32_t(r.image.peak_sensor);
+        if (sensors.skin) values_.image_width[p] = r.image.width;
         if (baselines_->noise) {
-            write_at(sweep, "snr", index, {}, std::vector<double>{r.snr});
-            write_at(sweep, "detection_probability", index, {}, std::vector<double>{r.detection_probability});
+            values_.snr[p] = r.snr;
+            values_.detection_probability[p] = r.detection_probability;
         }
     }
-    status_[r.point] = status;
-    write_at(sweep, "path", index, {}, std::vector<std::uint8_t>{std::uint8_t(r.path)});
-    write_at(sweep, "status", index, {}, std::vector<std::uint8_t>{std::uint8_t(status)});
+    status_[p] = status;
+    values_.path[p] = std::uint8_t(r.path);
 }
 
 template <class S>
@@ -281,6 +314,7 @@ void SweepFile<S>::write_dipole_check(const DipoleCheck& c, const SweepSpec& swe
 
 template <class S>
 void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
+    write_point_values();
     H5Group root = output_->root();
     const std::vector<XdmfSurface> surfaces = whole ? finish_result(root) : std::vector<XdmfSurface>{};
     root.set_attribute("peak_memory_MiB", peak_memory_MiB);

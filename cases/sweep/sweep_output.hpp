@@ -15,6 +15,7 @@
 #include "cases/sweep/sweep_baseline.hpp"
 #include "cases/sweep/sweep_plan.hpp"
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -53,6 +54,18 @@ public:
 
 private:
     void create_datasets();
+    void write_point_values();
+
+    // The small per-point datasets, held until commit and then written whole: a
+    // value at a time, each write would inflate and deflate a shared compressed
+    // chunk (it took longer than computing a dipole map). The perturbations, a
+    // chunk per point, are written as the points come.
+    struct PointValues {
+        std::vector<double> object_position, peak, peak_position, image_width, snr, detection_probability;
+        std::vector<std::int32_t> peak_sensor;
+        std::vector<std::uint8_t> mask_reason, path;
+    };
+    PointValues values_;
 
     const CaseSpec* spec_;
     RunOptions options_;
