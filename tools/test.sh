@@ -52,11 +52,11 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # test. A clean clone's whole CI run took 18.7 minutes on two cores with
 # cli_solve_examples sanitized; without it about 17.
 # Also left out: the tests that run murk many times over as other programs drive it (thirty
-# kills and resumes, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
+# kills and resumes, two runs racing for one output, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
 # ParaView on the demo); the journal, placement, shares and merge code they drive is unit-tested
 # under the sanitizers, and build/ runs them all.
 slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples'
-slow+='|cli_kill_resume|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
+slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*)$"
 run_tests build-sanitize -E "$slow"
