@@ -62,6 +62,17 @@ bool check_indices(const TriangleMesh& m, std::vector<std::string>& problems) {
             problems.push_back("vertex " + sz(v) + " has a non-finite coordinate");
             return false;
         }
+    if (std::string far = too_far_from_origin(m); !far.empty()) {
+        problems.push_back(std::move(far));
+        return false;
+    }
+    return true;
+}
+
+}  // namespace
+
+std::string too_far_from_origin(const TriangleMesh& m, const Vec3& offset) {
+    if (m.vertices.empty()) return {};
     // A surface far from the origin for its size loses its shape to rounding: at a
     // million sizes away the coordinates keep only about ten digits of its panels.
     Vec3 low = m.vertices.front(), high = low;
@@ -70,16 +81,11 @@ bool check_indices(const TriangleMesh& m, std::vector<std::string>& problems) {
         high = high.cwiseMax(v);
     }
     const double size = (high - low).maxCoeff();
-    const double away = (0.5 * (low + high)).norm();
-    if (away > kMaxDistanceInSizes * size) {
-        problems.push_back("lies " + num(away) + " m from the origin, over " + num(kMaxDistanceInSizes) +
-                           " times its size (" + num(size) + " m): too far for double precision; move the scene nearer");
-        return false;
-    }
-    return true;
+    const double away = (0.5 * (low + high) + offset).norm();
+    if (!(away > kMaxDistanceInSizes * size)) return {};
+    return "lies " + num(away) + " m from the origin, over " + num(kMaxDistanceInSizes) + " times its size (" +
+           num(size) + " m): too far for double precision; move the scene nearer";
 }
-
-}  // namespace
 
 MeshReport inspect_mesh(const TriangleMesh& m) {
     MeshReport r;

@@ -41,6 +41,11 @@ struct MeshReport {
 // Degenerate panels are reported and left out of the intersection test.
 MeshReport inspect_mesh(const TriangleMesh& mesh);
 
+// Empty, or why `mesh` moved by `offset` lies too far from the origin for its size
+// (more than kMaxDistanceInSizes times the largest side of its box): the check
+// inspect_mesh makes, for meshes that are moved after it (sweep points).
+std::string too_far_from_origin(const TriangleMesh& mesh, const Vec3& offset = Vec3::Zero());
+
 // Throws InputError "<where>: mesh '<name>' is not usable: <first problem>" unless
 // the mesh is valid; `where` names the file or case key the mesh came from.
 void require_valid_mesh(const TriangleMesh& mesh, const std::string& where);

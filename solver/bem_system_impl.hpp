@@ -212,41 +212,27 @@ inline std::vector<Eigen::Index> local_index(Eigen::Index size, const std::vecto
 // Whether the selection (local indices, -1 where not selected) is water rows of
 // some surfaces against unknowns of other surfaces, each unknown belonging to one
 // panel (not an electrode's, which its panels share): assemble_selection writes
-// each entry of such a block once.
-template <class S>
-bool is_coupling_block(const Scene<S>& scene, const SystemLayout& layout, const std::vector<Eigen::Index>& row_of,
-                       const std::vector<Eigen::Index>& col_of) {
-    const Eigen::Index n = layout.size;
-    std::vector<char> row_surface(scene.surfaces.size(), 0);
-    std::vector<int> panels_of_column(std::size_t(n), 0);
-    std::vector<int> surface_of_column(std::size_t(n), -1);
-    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
-        const auto& block = layout.surfaces[s];
-        const PanelColumns c = panel_columns(scene, layout, s);
-        for (Eigen::Index k = 0; k < block.panels; ++k)
-            for (const Eigen::Index col : {c.phi[k], c.q[k]})
-                if (col >= 0) {
-                    ++panels_of_column[std::size_t(col)];
-                    surface_of_column[std::size_t(col)] = int(s);
-                }
+// each entry of such a block once. `columns` are every surface's panel_columns.
+inline bool is_coupling_block(const SystemLayout& layout, const std::vector<PanelColumns>& columns,
+                              const std::vector<Eigen::Index>& row_of, const std::vector<Eigen::Index>& col_of) {
+    const std::size_t n = std::size_t(layout.size);
+    std::vector<int> panels_of_column(n, 0), surface_of_column(n, -1), surface_of_row(n, -1);
+    for (std::size_t s = 0; s < columns.size(); ++s) {
+        for (const auto* of : {&columns[s].phi, &columns[s].q})
+            for (const Eigen::Index col : *of)
+                if (col >= 0) ++panels_of_column[std::size_t(col)], surface_of_column[std::size_t(col)] = int(s);
+        for (Eigen::Index k = 0; k < layout.surfaces[s].panels; ++k)
+            surface_of_row[std::size_t(layout.surfaces[s].offset + k)] = int(s);  // its water rows
     }
-    std::vector<char> is_water_row(std::size_t(n), 0);
-    std::vector<int> surface_of_row(std::size_t(n), -1);
-    for (std::size_t s = 0; s < scene.surfaces.size(); ++s)
-        for (Eigen::Index k = 0; k < layout.surfaces[s].panels; ++k) {
-            is_water_row[std::size_t(layout.surfaces[s].offset + k)] = 1;
-            surface_of_row[std::size_t(layout.surfaces[s].offset + k)] = int(s);
-        }
-    for (Eigen::Index r = 0; r < n; ++r) {
+    std::vector<char> row_surface(columns.size(), 0);
+    for (std::size_t r = 0; r < n; ++r) {
         if (row_of[r] < 0) continue;
-        if (!is_water_row[std::size_t(r)]) return false;
-        row_surface[std::size_t(surface_of_row[std::size_t(r)])] = 1;
+        if (surface_of_row[r] < 0) return false;
+        row_surface[std::size_t(surface_of_row[r])] = 1;
     }
-    for (Eigen::Index c = 0; c < n; ++c) {
-        if (col_of[c] < 0) continue;
-        if (panels_of_column[std::size_t(c)] != 1) return false;
-        if (row_surface[std::size_t(surface_of_column[std::size_t(c)])]) return false;
-    }
+    for (std::size_t c = 0; c < n; ++c)
+        if (col_of[c] >= 0 && (panels_of_column[c] != 1 || row_surface[std::size_t(surface_of_column[c])]))
+            return false;
     return true;
 }
 
@@ -262,14 +248,8 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
     const Eigen::Index n = layout.size;
     const std::vector<Eigen::Index> row_of = local_index(n, rows), col_of = local_index(n, cols);
     matrix.resize(rows ? Eigen::Index(rows->size()) : n, cols ? Eigen::Index(cols->size()) : n);  // keeps storage of equal size
-    // A coupling block of a sweep point (the water rows of some surfaces against
-    // other surfaces' unknowns, each unknown one panel's) has every entry written
-    // exactly once below: it is then not cleared first, which saves a pass over
-    // its tens of megabytes (8 % of an exact sweep point). Each entry is then set
-    // to 0 + v, the same bits as adding v to a cleared entry.
-    const bool written_once = rows && cols && is_coupling_block(scene, layout, row_of, col_of);
-    if (!written_once) matrix.setZero();
     rhs.setZero(matrix.rows());
+    bool written_once = false;  // decided below, before any entry is written
     auto add = [&](Eigen::Index r, Eigen::Index c, S v) {
         const Eigen::Index i = row_of[r], j = col_of[c];
         if (i < 0 || j < 0) return;
@@ -294,6 +274,13 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
         for (Eigen::Index c : columns.back().q) any = any || (c >= 0 && col_of[c] >= 0);
         has_cols.push_back(any);
     }
+    // A coupling block of a sweep point (the water rows of some surfaces against
+    // other surfaces' unknowns, each unknown one panel's) has every entry written
+    // exactly once below: it is then not cleared first, which saves a pass over
+    // its tens of megabytes (8 % of an exact sweep point). Each entry is then set
+    // to 0 + v, the same bits as adding v to a cleared entry.
+    written_once = rows && cols && is_coupling_block(layout, columns, row_of, col_of);
+    if (!written_once) matrix.setZero();
 
     const std::vector<int> source_region = source_regions(scene);
     const IncidentField<S> incident = water_incident_field(scene, source_region);

@@ -48,9 +48,11 @@ struct SweepSizes {
 // (about body unknowns x object unknowns entries), so the batch holds as many
 // points as fit in kExactBatchBytes per thread, at most kMaxExactBatch and at
 // least one. Taken from the case's sizes alone, so that every run, share or rank
-// deals the same batches and each point's arithmetic is the same. On
-// tools/bench/fish_grid.toml (5,856 body and 640 object unknowns) the exact
-// stage took 70 s with batches of 1, 58 s of 4, 47 s of 8 and 40 s of 16.
+// deals the same batches and each point's arithmetic is the same. Measured on
+// 2026-12-02 (`time build/murk run tools/bench/fish_grid.toml`, 2 threads, with
+// this file's limit changed by hand to force each size; 5,856 body and 640
+// object unknowns): 70 s with batches of 1, 58 s of 4, 47 s of 8, 40 s of 16 and
+// 38 s of 32 (1 GB more memory than 16).
 inline constexpr double kExactBatchBytes = 512.0 * 1024 * 1024;
 inline constexpr std::size_t kMaxExactBatch = 16;
 std::size_t exact_batch_size(const SweepSizes& sizes);

@@ -10,7 +10,6 @@
 
 #include <algorithm>
 #include <cmath>
-#include <sstream>
 
 namespace murk {
 
@@ -56,17 +55,8 @@ bool move_to_clearance(const Clearance& clearance, TriangleMesh& object, const V
 // coordinates cannot hold its shape (the rule of geometry/mesh_quality.hpp, which
 // a rigidly moved mesh does not pass through again).
 void require_resolvable(const TriangleMesh& object, const Vec3& at, const std::string& key) {
-    const BgBox box = mesh_box(object);
-    const double size = std::max({bg::get<bg::max_corner, 0>(box) - bg::get<bg::min_corner, 0>(box),
-                                  bg::get<bg::max_corner, 1>(box) - bg::get<bg::min_corner, 1>(box),
-                                  bg::get<bg::max_corner, 2>(box) - bg::get<bg::min_corner, 2>(box)});
-    if (at.norm() > kMaxDistanceInSizes * size) {
-        std::ostringstream text;
-        text.precision(4);
-        text << key << ": takes object " << in_quotes(object.name) << " " << at.norm() << " m from the origin, over "
-             << kMaxDistanceInSizes << " times its size (" << size << " m): too far for double precision";
-        throw InputError(text.str());
-    }
+    if (const std::string far = too_far_from_origin(object, at); !far.empty())
+        throw InputError(key + ": object " + in_quotes(object.name) + " " + far);
 }
 
 }  // namespace
