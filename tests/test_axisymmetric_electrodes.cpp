@@ -183,6 +183,24 @@ TEST_CASE("two unequal rings: the mutual conductances agree (Green's reciprocity
     CHECK(previous < 1e-4);
 }
 
+TEST_CASE("Richardson extrapolation recovers a known power series and refuses what does not converge") {
+    // v(h) = 2 + 3 h^2 + h^3 at h = 1, 1/2, 1/4, 1/8, 1/16 (common practice: the leading
+    // order is 2, the remainder shrinks the error estimate level by level).
+    std::vector<double> raw;
+    for (int l = 0; l < 5; ++l) {
+        const double h = std::ldexp(1.0, -l);
+        raw.push_back(2 + 3 * h * h + h * h * h);
+    }
+    const Extrapolated r = richardson(raw);
+    CHECK(r.order == doctest::Approx(2.0).epsilon(0.05));
+    CHECK(std::abs(r.value - 2) < 0.05 * std::abs(raw.back() - 2));  // 3.9e-4 against 1.2e-2 raw
+    CHECK(std::abs(r.value - 2) <= r.error);
+    const Extrapolated flat = richardson({1.0, 1.1, 1.0, 1.1});
+    CHECK(flat.order == 0);
+    CHECK(flat.value == 1.1);
+    CHECK(flat.error == doctest::Approx(0.1));
+}
+
 TEST_CASE("capsule ring pair: rings off the cylinder or overlapping are refused") {
     CHECK_THROWS_AS(capsule_ring_pair_study(0.02, 0.26, 0.12, 0.14, -0.12, -0.11, 1.0), murk::InputError);
     CHECK_THROWS_AS(capsule_ring_pair_study(0.02, 0.26, -0.115, -0.10, -0.12, -0.11, 1.0), murk::InputError);

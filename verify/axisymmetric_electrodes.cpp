@@ -9,6 +9,7 @@
 
 #include <algorithm>
 #include <chrono>
+#include <stdexcept>
 #include <cmath>
 #include <string>
 
@@ -280,17 +281,26 @@ double floating_pair_resistance(const Eigen::MatrixXd& conductance) {
 // ---- extrapolation ----
 
 Extrapolated richardson(const std::vector<double>& raw) {
+    if (raw.size() < 3) throw std::invalid_argument("richardson: needs at least three levels");
     Extrapolated r;
     r.raw = raw;
     const std::size_t last = raw.size() - 1;
     // Extrapolation ending at level `end` with the order observed on end-2 .. end.
+    // Differences that do not shrink leave nothing to extrapolate: the last value,
+    // order 0, and (below) its last change as the error.
     auto at = [&](std::size_t end, double& order) {
         const double d1 = raw[end - 1] - raw[end - 2], d2 = raw[end] - raw[end - 1];
+        if (!(std::abs(d1) > std::abs(d2)) || d1 * d2 <= 0) {
+            order = 0;
+            return raw[end];
+        }
         order = std::log2(d1 / d2);
         return raw[end] + d2 / (std::exp2(order) - 1);
     };
     r.value = at(last, r.order);
-    if (raw.size() >= 4) {
+    if (r.order == 0) {
+        r.error = std::abs(raw[last] - raw[last - 1]);
+    } else if (raw.size() >= 4) {
         double coarser_order = 0;
         r.error = std::abs(r.value - at(last - 1, coarser_order));
     } else {
