@@ -218,3 +218,45 @@ TEST_CASE("target derivatives: the dipole model's gradient against finite differ
         }
     }
 }
+
+TEST_CASE("target derivatives: complex conductivities (a lossy dielectric target)") {
+    // The complex instantiation: with real inputs it equals the real one; with a
+    // target of complex conductivity its gradient matches finite differences.
+    const Scene<double> real_scene = robot_scene(true);
+    Scene<Complex> scene;
+    scene.water_conductivity = real_scene.water_conductivity;
+    scene.plane = real_scene.plane;
+    Surface<Complex> hull;
+    hull.mesh = real_scene.surfaces[0].mesh;
+    hull.kind = InterfaceKind::sealed;
+    hull.panel_electrode = real_scene.surfaces[0].panel_electrode;
+    scene.surfaces.push_back(hull);
+    for (const Electrode<double>& e : real_scene.electrodes) scene.electrodes.push_back({e.name, e.drive, e.value});
+    const FixedPart<Complex> fixed(scene, kQuad);
+    const FixedPart<double> fixed_real(real_scene, kQuad);
+    const Eigen::MatrixXd readout = readout_of(fixed_real);
+    const LeadFields<Complex> lead(fixed, readout.cast<Complex>());
+    const LeadFields<double> lead_real(fixed_real, readout);
+    const Eigen::Vector3d axes(0.003, 0.003, 0.003);
+    const Vec3 x(0.01, 0.045, 0.005);
+    const Matrix3<Complex> m_real_valued =
+        ellipsoid_polarization<Complex>(axes, Eigen::Matrix3d::Identity(), Complex(0.5), Complex(0.05));
+    const TargetResponse<Complex> c = target_response(lead, one_point(x), m_real_valued);
+    const TargetResponse<double> r = target_response(
+        lead_real, one_point(x), ellipsoid_polarization<double>(axes, Eigen::Matrix3d::Identity(), 0.5, 0.05));
+    for (int j = 0; j < 3; ++j)
+        CHECK((c.gradient[std::size_t(j)] - r.gradient[std::size_t(j)].cast<Complex>()).norm() <
+              1e-10 * r.gradient[std::size_t(j)].norm());
+
+    const Matrix3<Complex> m = ellipsoid_polarization<Complex>(axes, Eigen::Matrix3d::Identity(), Complex(0.02, 0.04),
+                                                               Complex(0.05));
+    const TargetResponse<Complex> g = target_response(lead, one_point(x), m);
+    const double h = 1e-6;
+    for (int j = 0; j < 3; ++j) {
+        const Eigen::MatrixXcd fd = (target_response(lead, one_point(x + h * Vec3::Unit(j)), m).change -
+                                     target_response(lead, one_point(x - h * Vec3::Unit(j)), m).change) /
+                                    Complex(2 * h);
+        CHECK(g.gradient[std::size_t(j)].imag().norm() > 0);
+        CHECK((fd - g.gradient[std::size_t(j)]).norm() < 1e-6 * g.gradient[std::size_t(j)].norm());
+    }
+}
