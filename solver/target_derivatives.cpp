@@ -65,8 +65,6 @@ LayerPoints<S> layer_points(const Scene<S>& scene, const Solution<S>& solution, 
 template <class S>
 void layer_derivatives(const LayerPoints<S>& lp, const Vec3& x, Eigen::Matrix<S, 3, 1>& grad,
                        Eigen::Matrix<S, 3, 3>& hess) {
-    // Accumulated as real 3-vectors and 3x3 matrices per density kind would need
-    // S-valued weights anyway; the loop is simple and vectorizes poorly either way.
     grad.setZero();
     hess.setZero();
     for (Eigen::Index i = 0; i < lp.y.cols(); ++i) {
