@@ -45,6 +45,10 @@ public:
     // Change of every reading caused by each dipole (sensors x dipoles).
     MatrixX<S> readings_change(const std::vector<PointDipole<S>>& dipoles) const;
     Eigen::Index sensors() const { return water_.rows(); }
+    const FixedPart<S>& fixed() const { return *fixed_; }
+    // L restricted to the water rows (sensors x fixed.water_row_points() columns):
+    // the reading change of any water-row potential vector phi is water_rows_lead() * phi.
+    const MatrixX<S>& water_rows_lead() const { return water_; }
 
 private:
     const FixedPart<S>* fixed_;

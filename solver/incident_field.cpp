@@ -59,6 +59,30 @@ S IncidentField<S>::normal_derivative(const Vec3& x, const Vec3& n) const {
     return d;
 }
 
+template <class S>
+Eigen::Matrix<S, 3, 3> IncidentField<S>::hessian(const Vec3& x) const {
+    Eigen::Matrix<S, 3, 3> h = Eigen::Matrix<S, 3, 3>::Zero();
+    // d_i d_j (1/r) = (3 r_i r_j - r^2 delta_ij) / r^5
+    for (const Pole& p : poles_) {
+        const Vec3 r = x - p.position;
+        const double len2 = r.squaredNorm(), len = std::sqrt(len2);
+        const Eigen::Matrix3d k = (3.0 * r * r.transpose() - len2 * Eigen::Matrix3d::Identity()) / (len2 * len2 * len);
+        h += p.strength * k.cast<S>();
+    }
+    // d_i d_j (m.r / r^3) = -3 (m_i r_j + m_j r_i + (m.r) delta_ij) / r^5 + 15 (m.r) r_i r_j / r^7
+    for (const Dipole& q : dipoles_) {
+        const Vec3 r = x - q.position;
+        const double len2 = r.squaredNorm(), len5 = len2 * len2 * std::sqrt(len2);
+        const Eigen::Matrix<S, 3, 1> rs = r.cast<S>();
+        const S mr = rs.dot(q.moment);
+        const Eigen::Matrix<S, 3, 3> mrt = q.moment * rs.transpose();
+        h += (S(-3.0) * (mrt + mrt.transpose() + mr * Eigen::Matrix<S, 3, 3>::Identity()) +
+              S(15.0) * mr * (rs * rs.transpose()) / S(len2)) /
+             S(len5);
+    }
+    return h;
+}
+
 template class IncidentField<double>;
 template class IncidentField<Complex>;
 

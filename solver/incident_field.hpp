@@ -19,6 +19,9 @@ public:
     S potential(const Vec3& x) const;
     // Derivative along the unit vector n at x.
     S normal_derivative(const Vec3& x, const Vec3& n) const;
+    // Second derivatives d^2 phi / dx_i dx_j at x (the uniform field adds none);
+    // closed form, used for the gradient of the baseline field (target_derivatives.hpp).
+    Eigen::Matrix<S, 3, 3> hessian(const Vec3& x) const;
 
 private:
     struct Pole { Vec3 position; S strength; };  // potential strength / |x - position|
