@@ -15,10 +15,6 @@ namespace {
 
 constexpr double kPi = 3.14159265358979323846;
 
-// Grid generators (capsule, body, box) space their lines at this fraction of the
-// target edge: a cell of sides s, s split along its diagonal has edges averaging
-// (2 + sqrt 2) / 3 s ~= 1.14 s, so the mean edge stays below the target.
-constexpr double kGridSpacingFactor = 0.85;
 
 std::string num(double v) {
     char buf[32];
@@ -184,32 +180,6 @@ TriangleMesh unit_icosphere(int level) {
     return m;
 }
 
-// Closed surface through elliptic rings: station i at x[i] with semi-axes a[i] (y),
-// b[i] (z); the first and last stations are tips (one vertex each), all others rings
-// of n_theta vertices at the same angles, so quads between rings are well shaped.
-TriangleMesh loft(const std::vector<double>& x, const std::vector<double>& a, const std::vector<double>& b, int n_theta) {
-    TriangleMesh m;
-    const int n = static_cast<int>(x.size());
-    m.vertices.emplace_back(x[0], 0.0, 0.0);
-    for (int i = 1; i + 1 < n; ++i)
-        for (int j = 0; j < n_theta; ++j) {
-            const double th = 2.0 * kPi * j / n_theta;
-            m.vertices.emplace_back(x[i], a[i] * std::cos(th), b[i] * std::sin(th));
-        }
-    m.vertices.emplace_back(x[n - 1], 0.0, 0.0);
-    const int tail = static_cast<int>(m.vertices.size()) - 1;
-    auto ring = [&](int i, int j) { return 1 + (i - 1) * n_theta + (j % n_theta); };
-    for (int j = 0; j < n_theta; ++j) m.triangles.push_back({0, ring(1, j + 1), ring(1, j)});
-    for (int i = 1; i + 2 < n; ++i)
-        for (int j = 0; j < n_theta; ++j) {
-            const int p = ring(i, j), q = ring(i, j + 1), r = ring(i + 1, j + 1), s = ring(i + 1, j);
-            m.triangles.push_back({p, q, r});
-            m.triangles.push_back({p, r, s});
-        }
-    for (int j = 0; j < n_theta; ++j) m.triangles.push_back({tail, ring(n - 2, j), ring(n - 2, j + 1)});
-    return m;
-}
-
 // Ramanujan's approximation of the ellipse perimeter (Ramanujan 1914, "Modular
 // equations and approximations to pi"); only used to choose a vertex count.
 double ellipse_perimeter(double a, double b) {
@@ -333,9 +303,35 @@ TriangleMesh make_capsule(double radius, double cylinder_length, double target_e
         return out.norm() > 0.0 ? Vec3(axis + radius * out.normalized()) : p;
     };
     const double v_true = kPi * radius * radius * cylinder_length + 4.0 / 3.0 * kPi * radius * radius * radius;
-    TriangleMesh m = refine_keeping_volume(loft(x, r, r, n_theta), zones, project,
+    TriangleMesh m = refine_keeping_volume(make_loft(x, r, r, n_theta), zones, project,
                                            [v_true](TriangleMesh& y) { keep_volume_cross_section(y, v_true); });
     finish(m, "capsule");
+    return m;
+}
+
+// Station i at x[i] with semi-axes a[i] (y),
+// b[i] (z); the first and last stations are tips (one vertex each), all others rings
+// of n_theta vertices at the same angles, so quads between rings are well shaped.
+TriangleMesh make_loft(const std::vector<double>& x, const std::vector<double>& a, const std::vector<double>& b, int n_theta) {
+    TriangleMesh m;
+    const int n = static_cast<int>(x.size());
+    m.vertices.emplace_back(x[0], 0.0, 0.0);
+    for (int i = 1; i + 1 < n; ++i)
+        for (int j = 0; j < n_theta; ++j) {
+            const double th = 2.0 * kPi * j / n_theta;
+            m.vertices.emplace_back(x[i], a[i] * std::cos(th), b[i] * std::sin(th));
+        }
+    m.vertices.emplace_back(x[n - 1], 0.0, 0.0);
+    const int tail = static_cast<int>(m.vertices.size()) - 1;
+    auto ring = [&](int i, int j) { return 1 + (i - 1) * n_theta + (j % n_theta); };
+    for (int j = 0; j < n_theta; ++j) m.triangles.push_back({0, ring(1, j + 1), ring(1, j)});
+    for (int i = 1; i + 2 < n; ++i)
+        for (int j = 0; j < n_theta; ++j) {
+            const int p = ring(i, j), q = ring(i, j + 1), r = ring(i + 1, j + 1), s = ring(i + 1, j);
+            m.triangles.push_back({p, q, r});
+            m.triangles.push_back({p, r, s});
+        }
+    for (int j = 0; j < n_theta; ++j) m.triangles.push_back({tail, ring(n - 2, j), ring(n - 2, j + 1)});
     return m;
 }
 
@@ -375,7 +371,7 @@ TriangleMesh make_body(const BodyProfile& p, double target_edge, const std::vect
     b.push_back(0.0);
     const double n_theta_d = std::max(8.0, std::ceil(widest / s));
     require_panel_budget(2.0 * n_theta_d * static_cast<double>(x.size()), "body");
-    TriangleMesh m = refine_keeping_volume(loft(x, a, b, static_cast<int>(n_theta_d)), zones, body_projection(p),
+    TriangleMesh m = refine_keeping_volume(make_loft(x, a, b, static_cast<int>(n_theta_d)), zones, body_projection(p),
                                            [v_true](TriangleMesh& y) { keep_volume_cross_section(y, v_true); });
     finish(m, "body");
     return m;
@@ -390,16 +386,34 @@ TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<Re
     double nd[3];
     for (int d = 0; d < 3; ++d) nd[d] = std::max(1.0, std::ceil(size[d] / s));
     require_panel_budget(4.0 * (nd[0] * nd[1] + nd[1] * nd[2] + nd[2] * nd[0]), "box");
-    const int n[3] = {static_cast<int>(nd[0]), static_cast<int>(nd[1]), static_cast<int>(nd[2])};
+    std::array<std::vector<double>, 3> lines;
+    for (int d = 0; d < 3; ++d) {
+        const int n = static_cast<int>(nd[d]);
+        for (int g = 0; g <= n; ++g) lines[d].push_back(g == n ? 0.5 * size[d] : -0.5 * size[d] + size[d] * g / n);
+    }
+    TriangleMesh m = make_box_on_lines(lines);
+    // Flat faces: an edge's midpoint is already on the surface, and the volume stays exact.
+    refine_in_zones(m, zones, [](const Vec3& p) { return p; });
+    finish(m, "box");
+    return m;
+}
+
+TriangleMesh make_box_on_lines(const std::array<std::vector<double>, 3>& lines) {
+    int n[3];
+    for (int d = 0; d < 3; ++d) {
+        if (lines[d].size() < 2) throw InputError("box grid: need at least two lines along each axis");
+        for (std::size_t g = 1; g < lines[d].size(); ++g)
+            if (!(lines[d][g] > lines[d][g - 1])) throw InputError("box grid: lines must increase strictly");
+        n[d] = static_cast<int>(lines[d].size()) - 1;
+    }
+    require_panel_budget(4.0 * (double(n[0]) * n[1] + double(n[1]) * n[2] + double(n[2]) * n[0]), "box");
     TriangleMesh m;
     std::unordered_map<std::int64_t, int> id;  // boundary grid point -> vertex, shared by faces
     auto vertex = [&](const int g[3]) {
         const std::int64_t key = (static_cast<std::int64_t>(g[0]) * (n[1] + 1) + g[1]) * (n[2] + 1) + g[2];
         auto it = id.find(key);
         if (it != id.end()) return it->second;
-        Vec3 p;
-        for (int d = 0; d < 3; ++d) p[d] = g[d] == n[d] ? 0.5 * size[d] : -0.5 * size[d] + size[d] * g[d] / n[d];
-        m.vertices.push_back(p);
+        m.vertices.emplace_back(lines[0][g[0]], lines[1][g[1]], lines[2][g[2]]);
         const int v = static_cast<int>(m.vertices.size()) - 1;
         id.emplace(key, v);
         return v;
@@ -426,8 +440,6 @@ TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<Re
                     }
                 }
     }
-    // Flat faces: an edge's midpoint is already on the surface, and the volume stays exact.
-    refine_in_zones(m, zones, [](const Vec3& p) { return p; });
     finish(m, "box");
     return m;
 }

@@ -19,12 +19,19 @@
 #include "geometry/mesh.hpp"
 #include "geometry/zone_refinement.hpp"
 
+#include <array>
 #include <vector>
 
 namespace murk {
 
 // Largest mesh any generator will build; beyond it the caller surely mistyped a unit.
 constexpr std::size_t kMaxGeneratedPanels = 2000000;
+
+// Grid generators (capsule, body, box, electrode_hulls.hpp) space their lines at
+// this fraction of the target edge: a cell of sides s, s split along its diagonal
+// has edges averaging (2 + sqrt 2) / 3 s ~= 1.14 s, so the mean edge stays below
+// the target.
+constexpr double kGridSpacingFactor = 0.85;
 
 // Sphere of `radius` (m) as a refined icosahedron: the lowest subdivision level whose
 // mean edge length is <= target_edge (m). Volume kept: vertices scaled uniformly by
@@ -53,6 +60,13 @@ TriangleMesh make_capsule(double radius, double cylinder_length, double target_e
 // triangles. Flat faces: the volume is exact without correction.
 TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<RefinementZone>& zones = {});
 
+// Box whose faces are the grid of the given lines (coordinates in m, at least two
+// per axis, strictly increasing; the first and last are the faces), each cell
+// split in two triangles. make_box uses evenly spaced lines; a hull carrying ring
+// electrodes puts lines on the electrode edges (electrode_hulls.hpp). InputError
+// for bad lines.
+TriangleMesh make_box_on_lines(const std::array<std::vector<double>, 3>& lines);
+
 // Elongated body with elliptic cross-sections, e.g. a fish. Stations along x
 // (strictly increasing, m), with the semi-axes of the cross-section along y
 // (half_width) and z (half_height). The first and last stations are the tips and must
@@ -70,6 +84,15 @@ struct BodyProfile {
 // volume of the piecewise-linear elliptic body (body_profile_volume). Invalid profiles
 // throw InputError naming the offending station.
 TriangleMesh make_body(const BodyProfile& profile, double target_edge, const std::vector<RefinementZone>& zones = {});
+
+// Closed surface through elliptic rings, the way make_capsule and make_body mesh:
+// station i at x[i] (strictly increasing) with semi-axes a[i] along y and b[i]
+// along z; the first and last stations are tips (one vertex each, a and b
+// ignored), every other a ring of n_theta >= 3 vertices at the angles 2 pi j /
+// n_theta, quads between rings split in two. Closed, 2-manifold, outward; tags 0.
+// No volume rule: the vertices are where the caller put them.
+TriangleMesh make_loft(const std::vector<double>& x, const std::vector<double>& a, const std::vector<double>& b,
+                       int n_theta);
 
 // Exact volume (m^3) of the solid described by `profile`: the integral of
 // pi a(x) b(x) dx with a, b linear on each segment, i.e. per segment

@@ -383,6 +383,11 @@ TEST_CASE("case reader: values out of range") {
     check_error(kFish + "[mesh]\nnear_ratio = 5\nfar_ratio = 4\n", "far_ratio", "mesh.far_ratio",
                 "must not be smaller than near_ratio");
     check_error(kFish + "[mesh]\npanel_size = \"inf mm\"\n", "panel_size", "mesh.panel_size", "not a finite number");
+    check_error(kFish + "[mesh]\nelectrode_edge = \"-1 mm\"\n", "electrode_edge", "mesh.electrode_edge",
+                "must be positive");
+    check_error(kFish + "[mesh]\nelectrode_edge = \"2 V\"\n", "electrode_edge", "mesh.electrode_edge", "length");
+    check_error(kFish + "[mesh]\npanel_size = \"5 mm\"\nelectrode_edge = \"6 mm\"\n", "electrode_edge",
+                "mesh.electrode_edge", "must not be larger than panel_size");
     check_error(fish_with("[fish.organ]", "from = 0.6\nto = 0.4"), "to = 0.4", "fish.organ.to",
                 "above from (0.6)");
     check_error(fish_with("[fish.organ]", "from = -0.1"), "from", "fish.organ.from", "in [0, 1)");

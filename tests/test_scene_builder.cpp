@@ -320,6 +320,55 @@ TEST_CASE("scene builder: electrodes that overlap or cover nothing are refused")
                   0) == 0);
 }
 
+TEST_CASE("scene builder: ring electrodes on a capsule hull have their true areas, patches their panel area") {
+    const CaseSpec spec = spec_of(kRobotHead + kElectrodes);
+    const Scene<double> scene = build_scene<double>(spec, true);
+    const std::vector<ElectrodeArea> areas = electrode_areas(spec, scene);
+    REQUIRE(areas.size() == 4);
+    // rings 3 cm wide on a capsule of radius 2 cm: 2 pi r w (Archimedes' hat-box
+    // theorem on the caps, the cylinder's lateral area on the cylinder)
+    const double ring = 2.0 * M_PI * 0.02 * 0.03;
+    for (int k : {0, 1}) {
+        CHECK(areas[k].exact_m2 == doctest::Approx(ring).epsilon(1e-12));
+        CHECK(std::abs(areas[k].mesh_m2 / ring - 1.0) < 1e-3);
+    }
+    // patches: their panels' area, with no exact value
+    for (int k : {2, 3}) {
+        CHECK(std::isnan(areas[k].exact_m2));
+        double sum = 0.0;
+        for (std::size_t t = 0; t < scene.surfaces[0].mesh.size(); ++t)
+            if (scene.surfaces[0].panel_electrode[t] == k) sum += scene.surfaces[0].mesh.area(t);
+        CHECK(areas[k].mesh_m2 == doctest::Approx(sum));
+    }
+}
+
+TEST_CASE("scene builder: mesh.electrode_edge makes the panels at ring edges smaller") {
+    const std::string head = kRobotHead;
+    std::string fine = head;
+    fine.replace(fine.find("panel_size = \"1 cm\""), std::string("panel_size = \"1 cm\"").size(), "panel_size = \"1 cm\"\nelectrode_edge = \"1 mm\"");
+    const std::size_t coarse_panels = build_scene<double>(spec_of(head + kElectrodes), false).surfaces[0].mesh.size();
+    const Scene<double> scene = build_scene<double>(spec_of(fine + kElectrodes), false);
+    CHECK(scene.surfaces[0].mesh.size() > coarse_panels);
+    // next to the ring edge at hull x = 10 cm (world y = 30 cm) the panels are 1 mm long along the axis
+    double nearest = 1.0;
+    for (const Vec3& v : scene.surfaces[0].mesh.vertices)
+        if (std::abs(v.y() - 0.30) > 1e-9) nearest = std::min(nearest, std::abs(v.y() - 0.30));
+    CHECK(nearest <= 1e-3 * (1 + 1e-9));
+    CHECK(nearest > 0.5e-3);
+}
+
+TEST_CASE("scene builder: a ring electrode off the hull is refused, named") {
+    const std::string text = kRobotHead + kElectrodes +
+                             "[[robot.electrode]]\nname = \"tail\"\nform = \"ring\"\nfrom = \"14 cm\"\nto = \"16 cm\"\n"
+                             "role = \"sensor\"\n";
+    const std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[robot.electrode]]", 5)) + ": robot.electrode[5]",
+                  0) == 0);
+    CHECK(m.find("ring electrode 'tail'") != std::string::npos);
+    CHECK(m.find("falls (partly) off the hull") != std::string::npos);
+}
+
 TEST_CASE("scene builder: region electrodes of a Gmsh hull") {
     // A 4 cm box written by hand as MSH 2.2: panels on the +x face form the
     // physical group "nose", all others "shell".

@@ -374,9 +374,12 @@ MeshZoneSpec read_mesh_zone(const Section& sec) {
 }
 
 MeshSpec read_mesh(const Section& sec) {
-    check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone"});
+    check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone", "electrode_edge"});
     MeshSpec m;
     m.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
+    m.electrode_edge_m = optional_positive(sec, "electrode_edge", Dimension::length);
+    if (m.electrode_edge_m && m.panel_size_m && *m.electrode_edge_m > *m.panel_size_m)
+        fail(sec.where("electrode_edge"), "must not be larger than panel_size (" + format_number(*m.panel_size_m) + " m)");
     m.near_ratio = optional_positive(sec, "near_ratio", Dimension::dimensionless).value_or(m.near_ratio);
     m.far_ratio = optional_positive(sec, "far_ratio", Dimension::dimensionless).value_or(m.far_ratio);
     if (m.far_ratio < m.near_ratio)

@@ -71,6 +71,9 @@ struct MeshSpec {
     double near_ratio = 3.0;   // 1; closed-form integrals below this distance/panel ratio
     double far_ratio = 10.0;   // 1; one-point rule above this ratio
     std::vector<MeshZoneSpec> zones;  // finer panels on the sensing body, in case order
+    // Panel length (m) across the edges of a robot's ring electrodes; unset: the
+    // grading rule of geometry/electrode_hulls.hpp (a fraction of panel_size).
+    std::optional<double> electrode_edge_m;
 };
 
 // Solid shapes shared by objects and the robot hull. Local frame: centred at the

@@ -3,6 +3,7 @@
 #include "cases/scene/scene_rules.hpp"
 
 #include "geometry/clearance.hpp"
+#include "geometry/electrode_hulls.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/message_text.hpp"
 #include "geometry/mesh_io.hpp"
@@ -108,6 +109,66 @@ TriangleMesh make_shape_mesh(const ShapeSpec& s, double target_edge, const std::
         case ShapeKind::mesh: assert(zones.empty()); return read_mesh(s.mesh_file, s.file_unit_m);
     }
     return {};
+}
+
+// The robot's ring electrodes as bands along the hull axis, in case order.
+std::vector<AxialBand> ring_bands(const RobotSpec& robot) {
+    std::vector<AxialBand> rings;
+    for (const ElectrodeSpec& e : robot.electrodes)
+        if (e.form == ElectrodeForm::ring) rings.push_back({e.from_m, e.to_m});
+    return rings;
+}
+
+// True when the hull is meshed on its rings' edges (geometry/electrode_hulls.hpp):
+// a generated capsule, sphere or box carrying ring electrodes.
+bool hull_conforms_to_rings(const RobotSpec& robot) {
+    const ShapeKind k = robot.hull.kind;
+    return !ring_bands(robot).empty() && (k == ShapeKind::capsule || k == ShapeKind::sphere || k == ShapeKind::box);
+}
+
+// Extent [lo, hi] (m) of the hull along its own x axis.
+std::pair<double, double> hull_x_extent(const ShapeSpec& s, const TriangleMesh& hull) {
+    switch (s.kind) {
+        case ShapeKind::sphere: return {-s.radius_m, s.radius_m};
+        case ShapeKind::spheroid:
+        case ShapeKind::ellipsoid: return {-s.semi_axes_m[0], s.semi_axes_m[0]};
+        case ShapeKind::capsule: return {-0.5 * s.overall_length_m, 0.5 * s.overall_length_m};
+        case ShapeKind::box: return {-0.5 * s.size_m[0], 0.5 * s.size_m[0]};
+        case ShapeKind::mesh: break;
+    }
+    double lo = std::numeric_limits<double>::infinity(), hi = -lo;
+    for (const Vec3& v : hull.vertices) lo = std::min(lo, v.x()), hi = std::max(hi, v.x());
+    return {lo, hi};
+}
+
+// Refuses a ring electrode that reaches beyond the hull along its axis, naming it.
+void require_rings_on_hull(const RobotSpec& robot, const TriangleMesh& hull) {
+    const auto [lo, hi] = hull_x_extent(robot.hull, hull);
+    for (const ElectrodeSpec& e : robot.electrodes) {
+        const double tol = 1e-9 * (hi - lo);
+        if (e.form == ElectrodeForm::ring && (e.from_m < lo - tol || e.to_m > hi + tol))
+            throw InputError(e.source.where() + ": ring electrode " + in_quotes(e.name) + " from " +
+                             format_length(e.from_m) + " to " + format_length(e.to_m) +
+                             " falls (partly) off the hull, which spans " + format_length(lo) + " to " +
+                             format_length(hi) + " along its axis");
+    }
+}
+
+// The generated robot hull in its own frame. With rings on a capsule, sphere or
+// box, its panel edges lie on the ring edges, graded toward them; zones then
+// refine its flat panels where they are (identity projection), which keeps every
+// electrode's area exact.
+TriangleMesh robot_hull_mesh(const CaseSpec& spec, double panel, const std::vector<RefinementZone>& zones) {
+    const RobotSpec& robot = *spec.robot;
+    const ShapeSpec& s = robot.hull;
+    if (!hull_conforms_to_rings(robot)) return make_shape_mesh(s, panel, zones);
+    TriangleMesh m =
+        s.kind == ShapeKind::box
+            ? make_box_with_rings(to_vec(s.size_m), panel, ring_bands(robot), spec.mesh.electrode_edge_m)
+            : make_capsule_with_rings(s.radius_m, s.kind == ShapeKind::capsule ? s.overall_length_m - 2.0 * s.radius_m : 0.0,
+                                      panel, ring_bands(robot), spec.mesh.electrode_edge_m);
+    refine_in_zones(m, zones, [](const Vec3& p) { return p; });
+    return m;
 }
 
 double default_panel_size(const CaseSpec& spec, const TriangleMesh* hull_mesh) {
@@ -246,6 +307,7 @@ std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
             throw InputError(e.source.where() + ".region: region " + in_quotes(e.region) + " of the hull mesh has no panel");
         electrode_of_tag[tag] = static_cast<int>(k);
     }
+    require_rings_on_hull(robot, hull);
     for (std::size_t k = 0; k < robot.electrodes.size(); ++k) {
         const ElectrodeSpec& e = robot.electrodes[k];
         if (e.form == ElectrodeForm::region) continue;
@@ -610,6 +672,29 @@ double object_panel_size(const CaseSpec& spec, const ObjectSpec& o) {
     return body;
 }
 
+template <class S>
+std::vector<ElectrodeArea> electrode_areas(const CaseSpec& spec, const Scene<S>& scene) {
+    std::vector<ElectrodeArea> areas(scene.electrodes.size());
+    for (const Surface<S>& surface : scene.surfaces)
+        for (std::size_t t = 0; t < surface.panel_electrode.size(); ++t)
+            if (const int e = surface.panel_electrode[t]; e >= 0) areas.at(e).mesh_m2 += surface.mesh.area(t);
+    if (!spec.robot || !hull_conforms_to_rings(*spec.robot)) return areas;
+    const ShapeSpec& s = spec.robot->hull;
+    for (std::size_t k = 0; k < spec.robot->electrodes.size() && k < areas.size(); ++k) {
+        const ElectrodeSpec& e = spec.robot->electrodes[k];
+        if (e.form != ElectrodeForm::ring) continue;
+        const AxialBand band{e.from_m, e.to_m};
+        areas[k].exact_m2 = s.kind == ShapeKind::box ? box_band_area(to_vec(s.size_m), band)
+                            : s.kind == ShapeKind::capsule
+                                ? capsule_band_area(s.radius_m, s.overall_length_m - 2.0 * s.radius_m, band)
+                                : capsule_band_area(s.radius_m, 0.0, band);
+    }
+    return areas;
+}
+
+template std::vector<ElectrodeArea> electrode_areas(const CaseSpec&, const Scene<double>&);
+template std::vector<ElectrodeArea> electrode_areas(const CaseSpec&, const Scene<Complex>&);
+
 QuadratureOptions quadrature_options(const CaseSpec& spec) {
     QuadratureOptions q;
     q.near_ratio = spec.mesh.near_ratio;
@@ -648,13 +733,15 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
                              to_vec(spec.robot->position_m));
         TriangleMesh hull;
         double panel = 0.0;
+        // Generated hulls: rings are checked before the hull is meshed on them.
+        if (spec.robot->hull.kind != ShapeKind::mesh) require_rings_on_hull(*spec.robot, hull);
         with_place(spec.robot->source.where(), [&] {
             if (spec.robot->hull.kind == ShapeKind::mesh) {
                 hull = make_shape_mesh(spec.robot->hull, 0.0);
                 panel = default_panel_size(spec, &hull);
             } else {
                 panel = default_panel_size(spec, nullptr);
-                hull = make_shape_mesh(spec.robot->hull, panel, zones);
+                hull = robot_hull_mesh(spec, panel, zones);
             }
             return 0;
         });

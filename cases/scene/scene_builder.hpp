@@ -8,6 +8,7 @@
 #include "solver/quadrature_options.hpp"
 #include "solver/scene.hpp"
 
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -89,6 +90,21 @@ double body_panel_size(const CaseSpec& spec);
 // edge; the body's for a mesh, or, with neither body nor mesh.panel_size, the
 // typical edge of the file's own panels).
 double object_panel_size(const CaseSpec& spec, const ObjectSpec& object);
+
+// Area of an electrode of a scene: mesh_m2 the summed area of its panels,
+// exact_m2 the area of the true surface where murk knows it (ring electrodes on
+// a capsule, sphere or box hull, which are meshed on their edges: see
+// geometry/electrode_hulls.hpp), else NaN.
+struct ElectrodeArea {
+    double mesh_m2 = 0.0;
+    double exact_m2 = std::numeric_limits<double>::quiet_NaN();
+};
+
+// The areas of scene.electrodes, in that order, for a scene build_scene made from `spec`.
+template <class S>
+std::vector<ElectrodeArea> electrode_areas(const CaseSpec& spec, const Scene<S>& scene);
+extern template std::vector<ElectrodeArea> electrode_areas(const CaseSpec&, const Scene<double>&);
+extern template std::vector<ElectrodeArea> electrode_areas(const CaseSpec&, const Scene<Complex>&);
 
 // The accuracy switches of the panel integrals from [mesh].
 QuadratureOptions quadrature_options(const CaseSpec& spec);

@@ -14,7 +14,7 @@ namespace {
 // (also kept as the attribute electrode_names, comma-separated).
 template <class S>
 void write_electrodes(const H5Group& parent, const std::vector<Electrode<S>>& electrodes, const std::vector<S>& potential,
-                      const std::vector<S>& current) {
+                      const std::vector<S>& current, const std::vector<ElectrodeArea>* areas = nullptr) {
     using namespace layout;
     if (electrodes.empty()) return;
     const H5Group group = parent.group(kElectrodes);
@@ -31,6 +31,15 @@ void write_electrodes(const H5Group& parent, const std::vector<Electrode<S>>& el
     group.write(kCurrent, current, "A", "current from the electrode into the water")
         .label_dimensions({kElectrode})
         .set_attribute(kElectrodeNames, names);
+    if (!areas) return;
+    std::vector<double> mesh_area, exact_area;
+    for (std::size_t i = 0; i < electrodes.size(); ++i) {
+        mesh_area.push_back(areas->at(i).mesh_m2);
+        exact_area.push_back(areas->at(i).exact_m2);
+    }
+    group.write("area", mesh_area, "m2", "summed area of the electrode's panels").label_dimensions({kElectrode});
+    group.write("exact_area", exact_area, "m2", "area of the electrode on the true surface, NaN where not known")
+        .label_dimensions({kElectrode});
 }
 
 }  // namespace
@@ -59,11 +68,11 @@ void write_solve_result(H5Group root, const SolvedCase<S>& solved) {
         write_surface_values(difference.group(name), surface, change);
     }
     write_electrodes(perturbed, solved.perturbed.electrodes, solved.perturbed_solution.electrode_potential,
-                     solved.perturbed_solution.electrode_current);
+                     solved.perturbed_solution.electrode_current, &solved.electrode_areas);
     // Baseline electrodes are the robot's; conductor objects add theirs after them.
     const std::size_t shared = solved.baseline.electrodes.size();
     write_electrodes(baseline, solved.baseline.electrodes, solved.baseline_solution.electrode_potential,
-                     solved.baseline_solution.electrode_current);
+                     solved.baseline_solution.electrode_current, &solved.electrode_areas);
     std::vector<S> dp(shared), dc(shared);
     for (std::size_t e = 0; e < shared; ++e) {
         dp[e] = solved.perturbed_solution.electrode_potential[e] - solved.baseline_solution.electrode_potential[e];

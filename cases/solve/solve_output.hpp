@@ -7,9 +7,11 @@
 //   /perturbed/<surface>/...          every surface, objects included
 //   /difference/<surface>/...         perturbed - baseline, surfaces present in both
 //   /{baseline,perturbed,difference}/electrodes/{potential, current}  (names as an attribute)
+//   /{baseline,perturbed}/electrodes/{area, exact_area}  panel area, true area (NaN: unknown)
 // inner_potential only for two-sided surfaces; transdermal_voltage (inner - outer)
 // only for membranes (the skin).
 #include "cases/output/hdf5_file.hpp"
+#include "cases/scene/scene_builder.hpp"
 #include "solver/scene.hpp"
 
 namespace murk {
@@ -18,6 +20,9 @@ template <class S>
 struct SolvedCase {
     Scene<S> baseline, perturbed;
     Solution<S> baseline_solution, perturbed_solution;
+    // Per electrode of `perturbed` (the baseline's are its first ones): panel area
+    // and true area (electrode_areas in cases/scene/scene_builder.hpp).
+    std::vector<ElectrodeArea> electrode_areas;
 };
 
 template <class S>

@@ -69,6 +69,17 @@ const char* kind_name(InterfaceKind k) {
     return "";
 }
 
+// "area 6.2832 cm2 (exact 6.2832 cm2, +0.0001 %)", or without the exact part where it is not known.
+std::string area_text(const ElectrodeArea& a) {
+    char buf[128];
+    if (std::isnan(a.exact_m2))
+        std::snprintf(buf, sizeof buf, "area %.5g cm2", a.mesh_m2 * 1e4);
+    else
+        std::snprintf(buf, sizeof buf, "area %.5g cm2 (exact %.5g cm2, %+.3g %%)", a.mesh_m2 * 1e4, a.exact_m2 * 1e4,
+                      100.0 * (a.mesh_m2 / a.exact_m2 - 1.0));
+    return buf;
+}
+
 template <class S>
 void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const StageTimes& base, const StageTimes& pert,
                    std::size_t unknowns) {
@@ -103,9 +114,9 @@ void print_summary(const CaseSpec& spec, const SolvedCase<S>& solved, const Stag
         const S v = solved.baseline_solution.electrode_potential[e], i = solved.baseline_solution.electrode_current[e];
         const S dv = solved.perturbed_solution.electrode_potential[e] - v;
         const S di = solved.perturbed_solution.electrode_current[e] - i;
-        std::printf("electrode %-12s baseline %s, %s; change %s, %s\n", solved.baseline.electrodes[e].name.c_str(),
+        std::printf("electrode %-12s baseline %s, %s; change %s, %s; %s\n", solved.baseline.electrodes[e].name.c_str(),
                     value_text(v, "V", "%.6g").c_str(), value_text(i, "A", "%.6g").c_str(), value_text(dv, "V").c_str(),
-                    value_text(di, "A").c_str());
+                    value_text(di, "A").c_str(), area_text(solved.electrode_areas.at(e)).c_str());
     }
 }
 
@@ -179,6 +190,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     SolvedCase<S> solved;
     solved.baseline = build_scene<S>(spec, false);
     solved.perturbed = build_scene<S>(spec, true);
+    solved.electrode_areas = electrode_areas(spec, solved.perturbed);
     require_memory_for(solved.perturbed, options.memory_limit_bytes, spec.path);
     if (!options.quiet)
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",

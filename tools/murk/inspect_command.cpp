@@ -296,10 +296,27 @@ void print_electrodes(const H5Group& root) {
     if (!names.empty() && names.size() != dv.size())
         malformed(potential, "names " + std::to_string(names.size()) + " electrodes in electrode_names but holds " +
                                  std::to_string(dv.size()) + " values");
+    // Areas are written for the baseline's electrodes, which the difference shares.
+    const std::string area_path = std::string("baseline/") + kElectrodes + "/area";
+    const std::string exact_path = std::string("baseline/") + kElectrodes + "/exact_area";
+    std::vector<double> area, exact;
+    if (root.exists(area_path) && root.exists(exact_path)) {
+        area = root.dataset(area_path).read<double>().values;
+        exact = root.dataset(exact_path).read<double>().values;
+        if (area.size() != dv.size() || exact.size() != dv.size())
+            malformed(root.dataset(area_path), "does not hold one area per electrode of the difference");
+    }
     std::printf("electrodes, change caused by the objects:\n");
-    Table table({"electrode", "potential", "current"});
-    for (std::size_t e = 0; e < dv.size(); ++e)
-        table.add({names.empty() ? std::to_string(e) : names[e], dv[e], di[e]});
+    Table table(area.empty() ? std::vector<std::string>{"electrode", "potential", "current"}
+                             : std::vector<std::string>{"electrode", "potential", "current", "area", "exact area"});
+    for (std::size_t e = 0; e < dv.size(); ++e) {
+        std::vector<std::string> row{names.empty() ? std::to_string(e) : names[e], dv[e], di[e]};
+        if (!area.empty()) {
+            row.push_back(format("%.5g cm2", area[e] * 1e4));
+            row.push_back(std::isnan(exact[e]) ? "-" : format("%.5g cm2", exact[e] * 1e4));
+        }
+        table.add(row);
+    }
     table.print("  ");
 }
 
