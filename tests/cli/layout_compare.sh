@@ -154,5 +154,20 @@ bad wrong_noise '/^noise = /d' "give the layout its own noise"
 "$murk" layout "$example" -o "$dir/layouts.h5" --quiet 2> "$dir/err.txt"
 [ $? -eq 2 ] && grep -q "exists" "$dir/err.txt" && echo "ok   an existing result is kept without --force" || fail "existing result: $(cat "$dir/err.txt")"
 
+# Stopped while it computes (SIGTERM after a second, during the first layout's
+# factorization): exit status 128 + 15, and neither the result nor its partial file is left.
+"$murk" layout "$example" -o "$dir/stopped.h5" --quiet --threads 1 2> "$dir/err.txt" &
+pid=$!
+sleep 1
+kill -TERM "$pid"
+wait "$pid"; status=$?
+if [ "$status" -eq 143 ] && [ ! -e "$dir/stopped.h5" ] && [ ! -e "$dir/stopped.h5.partial" ]; then
+  echo "ok   a stopped run leaves no file"
+elif [ "$status" -eq 0 ] && [ -e "$dir/stopped.h5" ] && [ ! -e "$dir/stopped.h5.partial" ]; then
+  echo "ok   the run finished before the stop arrived, and its file is whole"  # a very fast machine
+else
+  fail "stopped run: status $status, files: $(ls "$dir" | grep stopped | tr '\n' ' ') $(cat "$dir/err.txt")"
+fi
+
 [ "$failures" -eq 0 ] || { echo "$failures checks failed"; exit 1; }
 echo "murk layout: ok"

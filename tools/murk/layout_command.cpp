@@ -2,6 +2,7 @@
 // targets (cases/layout/layout_run.hpp).
 #include "cases/input/case_reader.hpp"
 #include "cases/layout/layout_run.hpp"
+#include "cases/output/hdf5_file.hpp"
 #include "cases/output/stop_request.hpp"
 #include "tools/murk/commands.hpp"
 
@@ -16,7 +17,9 @@ int layout_command(const LayoutArgs& args, const std::string& command_line) {
     options.command_line = command_line;
     options.force = args.force;
     options.quiet = args.quiet;
-    on_stop(OnStop::exit_at_once);  // nothing to keep until the result is written whole
+    // Nothing to keep until the result is written whole: a stop ends the run at once and
+    // takes the unfinished OUT.h5.partial with it (OUT.h5 appears only complete, by rename).
+    on_stop(OnStop::exit_at_once, H5Output::partial_path(args.output_path));
     run_layouts(read_case_file(args.case_path), options);
     return 0;
 }
