@@ -1,9 +1,9 @@
 #include "cases/layout/layout_evaluation.hpp"
 
 #include "cases/input/layout_case.hpp"
+#include "cases/layout/layout_noise.hpp"
 #include "cases/layout/sensitivity_map.hpp"
 #include "cases/scene/scene_builder.hpp"
-#include "geometry/input_error.hpp"
 #include "solver/dipole_path.hpp"
 
 #include <chrono>
@@ -18,44 +18,6 @@ CaseSpec layout_fixed_case(const CaseSpec& spec, std::size_t layout, const Targe
         if (o.name != grid.object) still.push_back(o);
     c.objects = still;
     return c;
-}
-
-TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid) {
-    // Every site on the hull at once (all floating): the scene builder checks on the mesh
-    // that no two sites share a panel and that each covers one, whichever layouts use them.
-    CaseSpec sites = spec;
-    sites.layouts.clear();
-    std::vector<ObjectSpec> still;
-    for (const ObjectSpec& o : spec.objects)
-        if (o.name != grid.object) still.push_back(o);
-    sites.objects = still;
-    const Scene<double> scene = build_scene<double>(sites, true);
-    TargetPlacement p;
-    p.clearance_m = clearance_of_points(grid, scene);
-    for (double size : grid.size_m) p.blocked.push_back(blocked_points(grid, scene, size));
-    return p;
-}
-
-NoiseModel layout_noise(const CaseSpec& spec, const LayoutSpec& layout) {
-    const std::string where = spec.path + ":" + std::to_string(layout.line) + ": " + layout.key;
-    if (!spec.detection) throw InputError(spec.path + ": detection: murk layout needs a [detection] noise model");
-    const DetectionSpec& d = *spec.detection;
-    if (d.noise == DetectionSpec::Noise::receptors)
-        throw InputError(spec.path + ":" + std::to_string(d.line) +
-                         ": detection: a robot's layouts need an amplifier noise, not receptor_noise");
-    const bool current = layout.reading == LayoutReading::current;
-    NoiseModel m;
-    m.kind = current ? NoiseKind::current_amplifier : NoiseKind::voltage_amplifier;
-    m.noise_bandwidth_Hz = noise_bandwidth_of_average(d.integration_time_s);
-    const bool matches = current == (d.noise == DetectionSpec::Noise::current_amplifier);
-    const double density = layout.noise_density > 0 ? layout.noise_density : matches ? d.noise_density : -1;
-    if (density < 0)
-        throw InputError(where + ": this layout reads " + (current ? "currents" : "voltages") +
-                         " but [detection] gives a " + (current ? "voltage" : "current") +
-                         " noise; give the layout its own noise = \"...\" (" +
-                         (current ? "A/sqrt(Hz)" : "V/sqrt(Hz)") + ")");
-    (current ? m.current_noise_density_A_per_rtHz : m.voltage_noise_density_V_per_rtHz) = density;
-    return m;
 }
 
 Eigen::VectorXd change_for_dipole(const Eigen::MatrixXd& sensitivity, Eigen::Index j, const Eigen::Vector3d& p) {

@@ -7,27 +7,14 @@
 #include "cases/input/case_spec.hpp"
 #include "cases/layout/layout_quantities.hpp"
 #include "cases/layout/target_grid.hpp"
+#include "cases/layout/target_placement.hpp"
 #include "solver/quadrature_options.hpp"
 
 namespace murk {
 
-// The targets' blocked flags and clearances, per size: from the hull alone, the same
-// for every layout (layouts differ in electrodes, not in surfaces).
-struct TargetPlacement {
-    std::vector<std::vector<std::uint8_t>> blocked;  // per size, per point
-    std::vector<double> clearance_m;                 // per point: distance to the nearest surface
-};
-
 // The scene every layout shares except for its electrodes: the case of the layout
 // without the target object.
 CaseSpec layout_fixed_case(const CaseSpec& spec, std::size_t layout, const TargetGrid& grid);
-
-// Also checks every site of the hull on its mesh (scene builder: no shared panel, one each).
-TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid);
-
-// The noise of one reading of the layout: [detection]'s amplifier noise, or the layout's
-// own `noise` density, matched to what the layout reads (InputError otherwise).
-NoiseModel layout_noise(const CaseSpec& spec, const LayoutSpec& layout);
 
 LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t layout, const TargetGrid& grid,
                                  const TargetPlacement& placement, const QuadratureOptions& quad);

@@ -1,6 +1,7 @@
 #include "cases/layout/layout_run.hpp"
 
 #include "cases/layout/layout_evaluation.hpp"
+#include "cases/layout/layout_noise.hpp"
 #include "cases/layout/layout_output.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "cases/output/result_metadata.hpp"

@@ -1,8 +1,6 @@
 #include "cases/layout/target_grid.hpp"
 
 #include "cases/scene/scene_builder.hpp"
-#include "cases/scene/scene_rules.hpp"
-#include "geometry/clearance.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/message_text.hpp"
 #include "solver/polarization.hpp"
@@ -78,38 +76,6 @@ TargetGrid target_grid(const CaseSpec& spec) {
                 a, axes, o.material == Material::insulator ? 0.0 : o.conductivity_S_per_m, water));
     }
     return g;
-}
-
-std::vector<double> clearance_of_points(const TargetGrid& grid, const Scene<double>& scene) {
-    std::vector<double> d(grid.size(), INFINITY);
-    for (const Surface<double>& s : scene.surfaces) {
-        const SurfaceIndex index(s.mesh);
-#pragma omp parallel for schedule(dynamic, 256)
-        for (Eigen::Index k = 0; k < grid.points.cols(); ++k) {
-            const Vec3 x = grid.points.col(k);
-            const double dk = index.contains(x) ? 0.0 : index.distance_to(x);
-            d[static_cast<std::size_t>(k)] = std::min(d[static_cast<std::size_t>(k)], dk);
-        }
-    }
-    return d;
-}
-
-std::vector<std::uint8_t> blocked_points(const TargetGrid& grid, const Scene<double>& scene, double reach) {
-    std::vector<std::uint8_t> blocked(grid.size(), 0);
-    for (const Surface<double>& s : scene.surfaces) {
-        const SurfaceIndex index(s.mesh);
-        const double gap = reach + kMinGapInPanels * typical_edge(s.mesh);
-#pragma omp parallel for schedule(dynamic, 256)
-        for (Eigen::Index k = 0; k < grid.points.cols(); ++k) {
-            const Vec3 x = grid.points.col(k);
-            if (index.contains(x) || index.distance_to(x) < gap) blocked[static_cast<std::size_t>(k)] = 1;
-        }
-    }
-    if (scene.plane)
-        for (Eigen::Index k = 0; k < grid.points.cols(); ++k)
-            if (-(grid.points.col(k) - scene.plane->point).dot(scene.plane->normal) < reach)
-                blocked[static_cast<std::size_t>(k)] = 1;
-    return blocked;
 }
 
 }  // namespace murk

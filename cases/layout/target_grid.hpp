@@ -5,7 +5,6 @@
 // so that layouts are compared on the same targets.
 #include "cases/input/case_spec.hpp"
 #include "geometry/eigen_core.hpp"
-#include "solver/scene.hpp"
 
 #include <cstdint>
 #include <vector>
@@ -27,13 +26,5 @@ struct TargetGrid {
 // when the target is not a plain (membrane-free) sphere, spheroid or ellipsoid, whose
 // polarization tensor is known in closed form (solver/polarization.hpp).
 TargetGrid target_grid(const CaseSpec& spec);
-
-// Whether a target of radius `reach` (m) centred at each grid point would touch, enter or
-// enclose a surface of `scene` or reach the insulating plane: closer than reach plus
-// kMinGapInPanels panel sizes of the surface (cases/scene/scene_rules.hpp). 1 = blocked.
-std::vector<std::uint8_t> blocked_points(const TargetGrid& grid, const Scene<double>& scene, double reach);
-
-// Distance (m) from each grid point to the nearest surface of the scene (0 inside one).
-std::vector<double> clearance_of_points(const TargetGrid& grid, const Scene<double>& scene);
 
 }  // namespace murk
