@@ -175,6 +175,17 @@ TEST_CASE("detectable region: area and outline of a synthetic map") {
     CHECK(corners == 6);
 }
 
+// By hand: u = {0, 1, 3} cells 0.5, 1.5, 1; v = {0, 2} cells 1, 1; w = {0, 1, 2} cells 0.5, 1, 0.5.
+// Flagged (u1, v0, w1) = 1.5 x 1 x 1 and (u2, v1, w0) = 1 x 1 x 0.5: 2.0, times det.
+TEST_CASE("detectable region: volume of a synthetic 3-D map") {
+    const std::vector<double> u = {0, 1, 3}, v = {0, 2}, w = {0, 1, 2};
+    std::vector<std::uint8_t> flags(18, 0);
+    flags[(1 * 2 + 0) * 3 + 1] = 1;
+    flags[(2 * 2 + 1) * 3 + 0] = 1;
+    CHECK(flagged_volume(u, v, w, flags, 1.0) == doctest::Approx(2.0));
+    CHECK(flagged_volume(u, v, w, flags, 0.25) == doctest::Approx(0.5));
+}
+
 TEST_CASE("detectable region: a ring of cells has an outline with a hole") {
     const std::vector<double> u = {0, 1, 2}, v = {0, 1, 2};
     const std::vector<std::uint8_t> flags = {1, 1, 1, 1, 0, 1, 1, 1, 1};

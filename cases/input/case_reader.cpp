@@ -1037,7 +1037,7 @@ SweepSpec read_sweep(const Section& sec) {
         s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
     if (const toml::node* g = sec.find("grid")) {
         const Section grid{as_table(sec, "grid", *g), sec.key_path("grid"), line_of(*g), sec.ctx};
-        check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v"});
+        check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v", "w_direction", "w"});
         SweepGridSpec spec;
         spec.origin_m = read_lengths3(grid, "origin", required(grid, "origin"), false);
         (void)required(grid, "u_direction"), (void)required(grid, "v_direction");
@@ -1050,6 +1050,17 @@ SweepSpec read_sweep(const Section& sec) {
         // Grid coordinates are offsets from the origin: zero and negative allowed.
         spec.u_m = read_axis_values(grid, "u", Dimension::length, false, true);
         spec.v_m = read_axis_values(grid, "v", Dimension::length, false, true);
+        if (grid.find("w") || grid.find("w_direction")) {  // a volume of targets (murk layout)
+            (void)required(grid, "w_direction", "a third direction, out of the u-v plane"), (void)required(grid, "w");
+            spec.w_direction = read_direction(grid, "w_direction");
+            const auto& a = spec.u_direction;
+            const auto& b = spec.v_direction;
+            const auto& c = spec.w_direction;
+            const double volume = a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0]) +
+                                  a[2] * (b[0] * c[1] - b[1] * c[0]);
+            if (std::abs(volume) < 1e-3) fail(grid.where("w_direction"), "lies in the plane of u_direction and v_direction");
+            spec.w_m = read_axis_values(grid, "w", Dimension::length, false, true);
+        }
         s.grid = spec;
     }
     if (s.grid && !s.distance_m.empty())

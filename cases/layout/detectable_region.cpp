@@ -41,6 +41,19 @@ double flagged_area(const std::vector<double>& u, const std::vector<double>& v, 
     return area * sine;
 }
 
+double flagged_volume(const std::vector<double>& u, const std::vector<double>& v, const std::vector<double>& w,
+                      const std::vector<std::uint8_t>& flags, double det) {
+    MURK_CHECK(flags.size() == u.size() * v.size() * w.size(), "one flag per grid point");
+    const CellEdges cu = cell_edges(u), cv = cell_edges(v), cw = cell_edges(w);
+    double volume = 0;
+    for (std::size_t i = 0; i < u.size(); ++i)
+        for (std::size_t j = 0; j < v.size(); ++j)
+            for (std::size_t l = 0; l < w.size(); ++l)
+                if (flags[(i * v.size() + j) * w.size() + l])
+                    volume += (cu.high[i] - cu.low[i]) * (cv.high[j] - cv.low[j]) * (cw.high[l] - cw.low[l]);
+    return volume * det;
+}
+
 namespace {
 
 Polygon2 rectangle(double u0, double u1, double v0, double v1) {

@@ -23,6 +23,11 @@ CellEdges cell_edges(const std::vector<double>& offsets);
 double flagged_area(const std::vector<double>& u, const std::vector<double>& v, const std::vector<std::uint8_t>& flags,
                     double sine);
 
+// Volume (m^3) of the cells whose flag is 1 on a grid of three axes. flags: u.size() x
+// v.size() x w.size(), w fastest. det: |det(u_direction, v_direction, w_direction)|.
+double flagged_volume(const std::vector<double>& u, const std::vector<double>& v, const std::vector<double>& w,
+                      const std::vector<std::uint8_t>& flags, double det);
+
 // One ring of an outline in grid offsets (u, v), closed (last vertex = first).
 struct OutlineRing {
     std::vector<double> u, v;

@@ -66,6 +66,11 @@ SizeQuantities evaluate_size(const LayoutQuantities& q, const TargetGrid& grid, 
                                         ? placement.clearance_m[k]
                                         : std::max(out.detection_range_m, placement.clearance_m[k]);
     }
+    if (!grid.planar()) {
+        const double det = std::abs(grid.u_direction.cross(grid.v_direction).dot(grid.w_direction));
+        out.detectable_area_m2 = flagged_volume(grid.u_m, grid.v_m, grid.w_m, out.detectable, det);
+        return out;  // an outline is drawn for planar grids only
+    }
     const double sine = grid.u_direction.cross(grid.v_direction).norm();
     out.detectable_area_m2 = flagged_area(grid.u_m, grid.v_m, out.detectable, sine);
     // Simplify by a quarter of the finest grid step: drops the cells' staircase, not their shape.

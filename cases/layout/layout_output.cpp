@@ -15,7 +15,31 @@ std::string per_dipole_units(const std::string& units) { return units + " V-1 m-
 void grid_coordinates(const H5Group& g, const TargetGrid& grid) {
     g.write_coordinate("u", grid.u_m, "m", "target offset along u_direction from the grid origin");
     g.write_coordinate("v", grid.v_m, "m", "target offset along v_direction from the grid origin");
+    if (!grid.planar()) g.write_coordinate("w", grid.w_m, "m", "target offset along w_direction from the grid origin");
     g.write_coordinate("size", grid.size_m, "m", "target size (largest half-extent)");
+}
+
+// The grid's dimensions (u, v and, for a volume, w) after `before` and before `after`.
+std::vector<std::string> grid_dims(const TargetGrid& grid, std::vector<std::string> before,
+                                   const std::vector<std::string>& after) {
+    before.insert(before.end(), {"u", "v"});
+    if (!grid.planar()) before.push_back("w");
+    before.insert(before.end(), after.begin(), after.end());
+    return before;
+}
+H5Shape grid_shape(const TargetGrid& grid, H5Shape before, const H5Shape& after) {
+    before.insert(before.end(), {grid.u_m.size(), grid.v_m.size()});
+    if (!grid.planar()) before.push_back(grid.w_m.size());
+    before.insert(before.end(), after.begin(), after.end());
+    return before;
+}
+
+// "detectable_area" (m2) on a plane, "detectable_volume" (m3) in a volume.
+const char* region_name(const TargetGrid& grid) { return grid.planar() ? "detectable_area" : "detectable_volume"; }
+const char* region_units(const TargetGrid& grid) { return grid.planar() ? "m2" : "m3"; }
+const char* region_words(const TargetGrid& grid) {
+    return grid.planar() ? "area of the grid where the target is detectable"
+                         : "volume of the grid where the target is detectable";
 }
 
 void write_outline(const SizeQuantities& s, double size, const TargetGrid& grid,
@@ -40,7 +64,7 @@ void write_outline(const SizeQuantities& s, double size, const TargetGrid& grid,
 
 void write_layout(const H5Group& layouts, const LayoutQuantities& q, const TargetGrid& grid) {
     const H5Group g = layouts.group(q.name);
-    const hsize_t nu = grid.u_m.size(), nv = grid.v_m.size(), ns = grid.size_m.size();
+    const hsize_t ns = grid.size_m.size();
     const hsize_t nr = static_cast<hsize_t>(q.readout.names.size());
     const H5Layout packed = H5Layout::compressed(1);
     g.set_attribute("layout_name", q.name);
@@ -64,13 +88,13 @@ void write_layout(const H5Group& layouts, const LayoutQuantities& q, const Targe
     g.write("baseline_reading", base, {nr}, q.readout.units, "reading without the target").label_dimensions({"reading"});
     g.write("channel_noise", std::vector<double>{q.channel_noise}, H5Shape{}, q.readout.units, "rms noise of one reading");
 
-    // sensitivity (reading, u, v, xyz): the map's columns are 3 j + k, j = i_u * nv + i_v.
-    g.write("sensitivity", q.sensitivity.data(), {nu, nv, 3, nr}, per_dipole_units(q.readout.units),
+    // sensitivity (u, v[, w], xyz, reading): the map's columns are 3 j + k, j the grid point (w fastest).
+    g.write("sensitivity", q.sensitivity.data(), grid_shape(grid, {}, {3, nr}), per_dipole_units(q.readout.units),
             "reading change per unit induced dipole moment at the target position", packed)
-        .label_dimensions({"u", "v", "xyz", "reading"});
-    g.write("baseline_field", q.baseline_field.data(), {nu, nv, 3}, "V m-1", "baseline electric field at the target position",
-            packed)
-        .label_dimensions({"u", "v", "xyz"});
+        .label_dimensions(grid_dims(grid, {}, {"xyz", "reading"}));
+    g.write("baseline_field", q.baseline_field.data(), grid_shape(grid, {}, {3}), "V m-1",
+            "baseline electric field at the target position", packed)
+        .label_dimensions(grid_dims(grid, {}, {"xyz"}));
 
     std::vector<double> change, snr, pd, area, range;
     std::vector<std::uint8_t> blocked;
@@ -88,19 +112,20 @@ void write_layout(const H5Group& layouts, const LayoutQuantities& q, const Targe
         range.push_back(sq.detection_range_m);
         write_outline(sq, grid.size_m[s], grid, ou, ov, oxyz, osize, oring, ohole, next_ring);
     }
-    g.write("reading_change", change, {ns, nu, nv, nr}, q.readout.units, "reading change caused by the target", packed)
-        .label_dimensions({"size", "u", "v", "reading"})
+    g.write("reading_change", change, grid_shape(grid, {ns}, {nr}), q.readout.units, "reading change caused by the target",
+            packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {"reading"}))
         .set_fill_value(double(NAN));
-    g.write("snr", snr, {ns, nu, nv}, "1", "ideal-observer signal-to-noise ratio d'", packed)
-        .label_dimensions({"size", "u", "v"})
+    g.write("snr", snr, grid_shape(grid, {ns}, {}), "1", "ideal-observer signal-to-noise ratio d'", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {}))
         .set_fill_value(double(NAN));
-    g.write("detection_probability", pd, {ns, nu, nv}, "1", "detection probability", packed)
-        .label_dimensions({"size", "u", "v"})
+    g.write("detection_probability", pd, grid_shape(grid, {ns}, {}), "1", "detection probability", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {}))
         .set_fill_value(double(NAN));
-    g.write("target_status", blocked, {ns, nu, nv}, "1", "whether the target fits at the position", packed)
-        .label_dimensions({"size", "u", "v"})
+    g.write("target_status", blocked, grid_shape(grid, {ns}, {}), "1", "whether the target fits at the position", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {}))
         .set_flags(std::vector<std::uint8_t>{0, 1}, kTargetStatusWords);
-    g.write("detectable_area", area, {ns}, "m2", "area of the grid where the target is detectable").label_dimensions({"size"});
+    g.write(region_name(grid), area, {ns}, region_units(grid), region_words(grid)).label_dimensions({"size"});
     g.write("detection_range", range, {ns}, "m", "largest distance from the hull at which the target is detectable")
         .label_dimensions({"size"})
         .set_fill_value(double(NAN));
@@ -149,8 +174,7 @@ void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuanti
     g.write("drive_power", drive_power, {nl}, "W", "power the emitters deliver into the water").label_dimensions({"layout"});
     g.write("channel_noise", noise, {nl}, "1", "rms noise of one reading (V or A, as the layout reads)")
         .label_dimensions({"layout"});
-    g.write("detectable_area", area, {nl, ns}, "m2", "area of the grid where the target is detectable")
-        .label_dimensions({"layout", "size"});
+    g.write(region_name(grid), area, {nl, ns}, region_units(grid), region_words(grid)).label_dimensions({"layout", "size"});
     g.write("detection_range", range, {nl, ns}, "m", "largest distance from the hull at which the target is detectable")
         .label_dimensions({"layout", "size"})
         .set_fill_value(double(NAN));

@@ -21,9 +21,9 @@ struct SizeQuantities {
     std::vector<double> detection_probability;  // P_D per point; NaN where blocked
     std::vector<std::uint8_t> blocked;    // 1: the target would touch the hull (or the plane) there
     std::vector<std::uint8_t> detectable; // 1: P_D >= the probability level
-    double detectable_area_m2 = 0;        // area of the detectable cells (planar grid)
+    double detectable_area_m2 = 0;        // area (planar grid, m^2) or volume (3-D grid, m^3) of the detectable cells
     double detection_range_m = NAN;       // largest clearance to the hull of a detectable point
-    std::vector<OutlineRing> outline;     // the detectable region, in grid offsets
+    std::vector<OutlineRing> outline;     // the detectable region, in grid offsets (planar grids only)
 };
 
 struct LayoutQuantities {

@@ -1,5 +1,6 @@
 #include "cases/layout/target_grid.hpp"
 
+#include "cases/input/case_limits.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/message_text.hpp"
@@ -56,11 +57,24 @@ TargetGrid target_grid(const CaseSpec& spec) {
     g.origin = Eigen::Vector3d(sg.origin_m[0], sg.origin_m[1], sg.origin_m[2]);
     g.u_direction = Eigen::Vector3d(sg.u_direction[0], sg.u_direction[1], sg.u_direction[2]).normalized();
     g.v_direction = Eigen::Vector3d(sg.v_direction[0], sg.v_direction[1], sg.v_direction[2]).normalized();
-    g.points.resize(3, static_cast<Eigen::Index>(g.u_m.size() * g.v_m.size()));
+    g.w_m = sg.w_m;
+    g.w_direction = Eigen::Vector3d(sg.w_direction[0], sg.w_direction[1], sg.w_direction[2]).normalized();
+    // Checked one factor at a time, so that the product cannot overflow.
+    std::size_t count = 1;
+    for (const std::size_t n : {g.u_m.size(), g.v_m.size(), g.nw()}) {
+        if (n > kMaxLayoutTargets / count)
+            throw InputError(sweep_where(spec, "sweep.grid") + ": murk layout takes at most " +
+                             std::to_string(kMaxLayoutTargets) + " target positions; the grid has more");
+        count *= n;
+    }
+    g.points.resize(3, static_cast<Eigen::Index>(count));
+    const std::size_t nv = g.v_m.size(), nw = g.nw();
     for (std::size_t i = 0; i < g.u_m.size(); ++i)
-        for (std::size_t j = 0; j < g.v_m.size(); ++j)
-            g.points.col(static_cast<Eigen::Index>(i * g.v_m.size() + j)) =
-                g.origin + g.u_m[i] * g.u_direction + g.v_m[j] * g.v_direction;
+        for (std::size_t j = 0; j < nv; ++j)
+            for (std::size_t l = 0; l < nw; ++l)
+                g.points.col(static_cast<Eigen::Index>((i * nv + j) * nw + l)) =
+                    g.origin + g.u_m[i] * g.u_direction + g.v_m[j] * g.v_direction +
+                    (g.planar() ? 0.0 : g.w_m[l]) * g.w_direction;
 
     const double own_size = o.shape.kind == ShapeKind::sphere ? o.shape.radius_m
                                                               : std::max({o.shape.semi_axes_m[0], o.shape.semi_axes_m[1],

@@ -154,6 +154,28 @@ bad wrong_noise '/^noise = /d' "give the layout its own noise"
 "$murk" layout "$example" -o "$dir/layouts.h5" --quiet 2> "$dir/err.txt"
 [ $? -eq 2 ] && grep -q "exists" "$dir/err.txt" && echo "ok   an existing result is kept without --force" || fail "existing result: $(cat "$dir/err.txt")"
 
+# A volume of targets: a third grid axis w (murk layout only; murk run refuses it).
+sed -e 's/^v = { from = "4 cm", to = "30 cm", count = 14 }/v = { from = "4 cm", to = "30 cm", count = 6 }\nw_direction = [0, 0, 1]\nw = { from = "-6 cm", to = "6 cm", count = 4 }/' \
+    -e 's/^u = { from = "-30 cm", to = "30 cm", count = 31 }/u = { from = "-30 cm", to = "30 cm", count = 11 }/' \
+    "$example" > "$dir/volume.toml"
+grep -q '^w = ' "$dir/volume.toml" || { echo "could not write the volume case"; exit 1; }
+"$murk" layout "$dir/volume.toml" -o "$dir/volume.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; fail "murk layout on a volume"; }
+"$py" "$src/tests/cli/check_netcdf_readers.py" "$dir/volume.h5" || fail "netCDF readers, volume"
+"$py" "$src/tests/cli/check_layout_documented.py" "$src/cases/RESULT_LAYOUT.md" "$dir/volume.h5" || fail "RESULT_LAYOUT.md, volume"
+"$py" - "$dir/volume.h5" <<'PY' || fail "contents of the volume result"
+import sys, h5py, numpy as np
+g = h5py.File(sys.argv[1], "r")["layouts/ends_reference"]
+assert g["detection_probability"].shape == (2, 11, 6, 4)
+box = 0.6 * 0.26 * 0.12
+vol = g["detectable_volume"][...]
+assert (vol >= 0).all() and (vol <= box + 1e-12).all() and vol[-1] > 0, vol
+assert "outline_u" not in g and "detectable_area" not in g
+print("ok   a volume of targets: detectable_volume, no outline")
+PY
+"$murk" inspect "$dir/volume.h5" | grep -q "volume, " && echo "ok   murk inspect shows volumes" || fail "murk inspect on a volume"
+"$murk" run "$dir/volume.toml" -o "$dir/volume_run.h5" --quiet 2> "$dir/err.txt"
+[ $? -eq 2 ] && grep -q "sweep.grid.w" "$dir/err.txt" && echo "ok   murk run refuses a third grid axis" || fail "murk run with w: $(cat "$dir/err.txt")"
+
 # Stopped while it computes (SIGTERM after a second, during the first layout's
 # factorization): exit status 128 + 15, and neither the result nor its partial file is left.
 "$murk" layout "$example" -o "$dir/stopped.h5" --quiet --threads 1 2> "$dir/err.txt" &
