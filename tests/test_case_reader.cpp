@@ -849,8 +849,15 @@ TEST_CASE("case reader: [sweep] errors") {
     check_error(base + "[sweep]\ndistance = { from = \"1 mm\", to = \"2 mm\", count = 2, step = \"1 mm\" }\n",
                 "distance =", "sweep.distance.step", "unknown key; allowed here: from, to, count, spacing");
     check_error(base + "[sweep]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\nu_direction = [1, 0, 0]\n"
+                       "v_direction = [0, 0, 1]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\ntilt = [\"1 cm\"]\n",
+                "tilt = ", "sweep.grid.tilt", "unknown key; allowed here: origin, u_direction, v_direction, u, v, w_direction, w");
+    // a third grid axis (murk layout's volumes) needs its direction, out of the plane
+    check_error(base + "[sweep]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\nu_direction = [1, 0, 0]\n"
                        "v_direction = [0, 0, 1]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\nw = [\"1 cm\"]\n",
-                "w = ", "sweep.grid.w", "unknown key; allowed here: origin, u_direction, v_direction, u, v");
+                "[sweep.grid]", "sweep.grid.w_direction", "missing required key");
+    check_error(base + "[sweep]\n[sweep.grid]\norigin = [\"0 cm\", \"2 cm\", \"0 cm\"]\nu_direction = [1, 0, 0]\n"
+                       "v_direction = [0, 0, 1]\nu = [\"1 cm\"]\nv = [\"1 cm\"]\nw = [\"1 cm\"]\nw_direction = [1, 0, 1]\n",
+                "w_direction", "sweep.grid.w_direction", "lies in the plane of u_direction and v_direction");
     // no axis
     check_error(base + "[sweep]\nobject = \"prey\"\n", "[sweep]", "sweep", "no axis to sweep");
     // values must increase strictly: repeated, decreasing, insulator not first, conductor not last

@@ -109,7 +109,8 @@ TEST_CASE("scene builder: every example case reads and builds") {
         CHECK(spec.text.rfind("# ", 0) == 0);
         const std::string name = entry.path().filename().string();
         CHECK((spec.text.find("build/murk solve cases/examples/" + name) != std::string::npos ||
-               spec.text.find("build/murk run cases/examples/" + name) != std::string::npos));
+               spec.text.find("build/murk run cases/examples/" + name) != std::string::npos ||
+               spec.text.find("build/murk layout cases/examples/" + name) != std::string::npos));
     }
     CHECK(count >= 4);
 }

@@ -54,8 +54,10 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # Also left out: the tests that run murk many times over as other programs drive it (thirty
 # kills and resumes, two runs racing for one output, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
 # ParaView on the demo); the journal, placement, shares and merge code they drive is unit-tested
-# under the sanitizers, and build/ runs them all.
-slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples'
+# under the sanitizers, and build/ runs them all. cli_layout_compare (murk layout on the
+# three-layout example, murk solve beside it, xarray) is left out for the same reason: the
+# reader, the readout, the sensitivity map and the region it drives are unit-tested sanitized.
+slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare'
 slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*)$"

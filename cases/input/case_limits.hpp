@@ -18,6 +18,9 @@ constexpr std::size_t kMaxReceptorZones = 1000;    // [detection] receptor_zones
 constexpr std::size_t kMaxMeshZones = 1000;        // [[mesh.zone]] tables
 constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (array or range); their product,
                                                    // the sweep's points, murk run checks against memory
+constexpr std::size_t kMaxLayoutTargets = 2000000;  // murk layout's target positions (grid points in all)
+constexpr std::size_t kMaxLayouts = 1000;          // [[layout]] tables
+constexpr std::size_t kMaxLayoutElectrodes = 1000; // entries of a layout's emitters, sensors or pairs
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
 
 // Every quantity with a unit, except an object's conductivity, is zero or lies

@@ -1,6 +1,7 @@
 #include "cases/input/case_reader.hpp"
 
 #include "cases/input/case_limits.hpp"
+#include "cases/input/electrode_sites.hpp"
 #include "cases/input/toml_precheck.hpp"
 #include "cases/input/units.hpp"
 #include "geometry/file_bytes.hpp"
@@ -10,6 +11,7 @@
 #include <toml++/toml.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -538,9 +540,16 @@ FishSpec read_fish(const Section& sec) {
     return f;
 }
 
-ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::string& hull_file) {
+// `site`: the case has [[layout]] tables, which say what each electrode does; the
+// electrode is then only a place on the hull (floating until a layout drives or reads it).
+ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::string& hull_file, bool site) {
     const std::vector<std::string> forms = {"ring", "patch", "region"};
     const std::string form = read_choice(sec, "form", required(sec, "form", "ring, patch or region"), forms);
+    if (site)
+        for (const char* key : {"role", "current", "voltage", "potential"})
+            if (sec.find(key))
+                fail(sec.where(key), "in a case with [[layout]] tables an electrode is a site on the hull; each "
+                                     "layout says which sites emit or sense and how (remove this key)");
     const std::vector<std::string> common = {"name", "form", "role", "current", "voltage", "potential"};
     ElectrodeSpec e;
     e.source = source_line(sec);
@@ -569,6 +578,7 @@ ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::stri
         fail(sec.where("name"), "names starting with '" + kObjectElectrodePrefix +
                                     "' are kept for conducting objects, got " + in_quotes(e.name));
 
+    if (site) return e;  // floating
     const std::string role = read_choice(sec, "role", required(sec, "role", "emitter or sensor"), {"emitter", "sensor"});
     const toml::node* current = sec.find("current");
     const toml::node* voltage = sec.find("voltage");
@@ -591,7 +601,7 @@ ElectrodeSpec read_electrode(const Section& sec, ShapeKind hull, const std::stri
     return e;
 }
 
-RobotSpec read_robot(const Section& sec) {
+RobotSpec read_robot(const Section& sec, bool sites) {
     const ShapeKind kind = read_shape_kind(sec);
     check_keys(sec, concat({"shape", "position", "heading", "pitch", "roll", "electrode"}, shape_keys(kind)));
     RobotSpec r;
@@ -608,13 +618,133 @@ RobotSpec read_robot(const Section& sec) {
     for (std::size_t i = 0; i < arr->size(); ++i) {
         const toml::node& n = *arr->get(i);
         const Section es{*n.as_table(), sec.key_path("electrode[" + std::to_string(i + 1) + "]"), line_of(n), sec.ctx};
-        ElectrodeSpec e = read_electrode(es, kind, r.hull.mesh_file);
+        ElectrodeSpec e = read_electrode(es, kind, r.hull.mesh_file, sites);
         if (!names.insert(e.name).second) fail(es.where("name"), "another electrode is already named " + in_quotes(e.name));
         emitter = emitter || e.drive == ElectrodeDrive::current || e.drive == ElectrodeDrive::voltage;
         r.electrodes.push_back(std::move(e));
     }
-    if (!emitter) fail(sec.where("electrode"), "the robot needs at least one electrode with role = \"emitter\"");
+    if (!emitter && !sites) fail(sec.where("electrode"), "the robot needs at least one electrode with role = \"emitter\"");
+    if (sites) check_electrode_sites(r);
     return r;
+}
+
+// ---- layouts ---------------------------------------------------------------
+
+// A name of a [[robot.electrode]] site, given as text at `key` (or inside its array).
+std::string read_site_name(const Section& sec, const std::string& key, const toml::node& n, const RobotSpec& robot) {
+    const std::string name = read_name(sec, key, n);
+    for (const ElectrodeSpec& e : robot.electrodes)
+        if (e.name == name) return name;
+    fail(at(sec.ctx, line_of(n), sec.key_path(key)), "no [[robot.electrode]] is named " + in_quotes(name));
+}
+
+const toml::array& read_list(const Section& sec, const std::string& key, const std::string& hint) {
+    const toml::node& n = required(sec, key, hint);
+    const toml::array* arr = n.as_array();
+    if (!arr || arr->empty()) fail(sec.where(key), "expected a non-empty array (" + hint + "), got " + describe(n));
+    if (arr->size() > kMaxLayoutElectrodes)
+        fail(sec.where(key), "expected at most " + std::to_string(kMaxLayoutElectrodes) + " entries, got " +
+                                 std::to_string(arr->size()));
+    return *arr;
+}
+
+LayoutSpec read_layout(const Section& sec, const RobotSpec& robot) {
+    check_keys(sec, {"name", "emitters", "sensors", "read", "reference", "pairs", "potential", "noise"});
+    LayoutSpec l;
+    l.line = sec.line;
+    l.key = sec.path;
+    l.name = read_name(sec, "name", required(sec, "name", "it names the layout's results"));
+    for (const char c : l.name)
+        if (!std::isalnum(static_cast<unsigned char>(c)) && c != '_' && c != '-')
+            fail(sec.where("name"), "a layout name names a result group: letters, digits, '_' and '-' only, got " +
+                                        in_quotes(l.name));
+    std::set<std::string> used;  // every electrode plays one part in a layout
+    const auto use = [&](const std::string& key, const toml::node& n, const std::string& name) {
+        if (!used.insert(name).second)
+            fail(at(sec.ctx, line_of(n), sec.key_path(key)),
+                 "electrode " + in_quotes(name) + " already has a part in this layout (an electrode emits, senses or "
+                 "is the reference, once)");
+    };
+
+    const toml::array& emitters = read_list(sec, "emitters", "tables { electrode = \"...\", current = \"...\" }");
+    for (std::size_t i = 0; i < emitters.size(); ++i) {
+        const toml::node& n = *emitters.get(i);
+        const std::string key = "emitters[" + std::to_string(i + 1) + "]";
+        if (!n.is_table()) fail(at(sec.ctx, line_of(n), sec.key_path(key)), "expected a table { electrode, current or voltage }");
+        const Section es{*n.as_table(), sec.key_path(key), line_of(n), sec.ctx};
+        check_keys(es, {"electrode", "current", "voltage"});
+        LayoutEmitter em;
+        const toml::node& en = required(es, "electrode", "a [[robot.electrode]] name");
+        em.electrode = read_site_name(es, "electrode", en, robot);
+        use(key + ".electrode", en, em.electrode);
+        const toml::node* current = es.find("current");
+        const toml::node* voltage = es.find("voltage");
+        if (current && voltage) fail(es.where("voltage"), "give the emitter's current or its voltage, not both");
+        if (!current && !voltage) fail(es.where_self(), "an emitter needs current = \"...\" or voltage = \"...\"");
+        em.drive = current ? ElectrodeDrive::current : ElectrodeDrive::voltage;
+        em.value = current ? read_quantity(es, "current", *current, Dimension::current)
+                           : read_quantity(es, "voltage", *voltage, Dimension::voltage);
+        l.emitters.push_back(em);
+    }
+
+    const std::string read = read_choice(sec, "read", required(sec, "read", "reference, pairs or current"),
+                                         {"reference", "pairs", "current"});
+    l.reading = read == "reference" ? LayoutReading::reference
+                : read == "pairs"   ? LayoutReading::pairs
+                                    : LayoutReading::current;
+    const auto refuse_unless = [&](const char* key, bool allowed, const std::string& why) {
+        if (sec.find(key) && !allowed) fail(sec.where(key), why);
+    };
+    refuse_unless("reference", l.reading == LayoutReading::reference, "only with read = \"reference\"");
+    refuse_unless("pairs", l.reading == LayoutReading::pairs, "only with read = \"pairs\"");
+    refuse_unless("potential", l.reading == LayoutReading::current, "only with read = \"current\"");
+    refuse_unless("sensors", l.reading != LayoutReading::pairs,
+                  "with read = \"pairs\" the pairs name the sensors; remove sensors");
+
+    if (l.reading == LayoutReading::pairs) {
+        const toml::array& pairs = read_list(sec, "pairs", "pairs of electrode names such as [\"s2\", \"s1\"]");
+        std::set<std::string> pair_names;
+        for (std::size_t i = 0; i < pairs.size(); ++i) {
+            const toml::node& n = *pairs.get(i);
+            const std::string key = "pairs[" + std::to_string(i + 1) + "]";
+            const toml::array* two = n.as_array();
+            if (!two || two->size() != 2)
+                fail(at(sec.ctx, line_of(n), sec.key_path(key)), "expected two electrode names, [\"first\", \"second\"] "
+                                                                 "(the channel reads first minus second)");
+            const std::string a = read_site_name(sec, key + "[1]", *two->get(0), robot);
+            const std::string b = read_site_name(sec, key + "[2]", *two->get(1), robot);
+            if (a == b) fail(at(sec.ctx, line_of(n), sec.key_path(key)), "a pair needs two different electrodes");
+            if (!pair_names.insert(a + "\n" + b).second)
+                fail(at(sec.ctx, line_of(n), sec.key_path(key)), "this pair is already read");
+            // A sensor may be in several pairs; it must not emit.
+            for (const LayoutEmitter& em : l.emitters)
+                if (em.electrode == a || em.electrode == b)
+                    fail(at(sec.ctx, line_of(n), sec.key_path(key)),
+                         "electrode " + in_quotes(em.electrode) + " emits in this layout; it cannot also sense");
+            l.pairs.emplace_back(a, b);
+        }
+    } else {
+        const toml::array& sensors = read_list(sec, "sensors", "electrode names such as [\"s1\", \"s2\"]");
+        for (std::size_t i = 0; i < sensors.size(); ++i) {
+            const toml::node& n = *sensors.get(i);
+            const std::string key = "sensors[" + std::to_string(i + 1) + "]";
+            const std::string name = read_site_name(sec, key, n, robot);
+            use(key, n, name);
+            l.sensors.push_back(name);
+        }
+    }
+    if (l.reading == LayoutReading::reference) {
+        const toml::node& n = required(sec, "reference", "the floating electrode the sensors are read against");
+        l.reference = read_site_name(sec, "reference", n, robot);
+        use("reference", n, l.reference);
+    }
+    if (l.reading == LayoutReading::current)
+        if (const toml::node* p = sec.find("potential")) l.sensor_potential_V = read_quantity(sec, "potential", *p, Dimension::voltage);
+    if (const toml::node* n = sec.find("noise"))
+        l.noise_density = positive_quantity(sec, "noise", *n,
+                                            l.reading == LayoutReading::current ? Dimension::current_noise_density
+                                                                                : Dimension::voltage_noise_density);
+    return l;
 }
 
 ObjectSpec read_object(const Section& sec, std::size_t index) {
@@ -910,7 +1040,7 @@ SweepSpec read_sweep(const Section& sec) {
         s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
     if (const toml::node* g = sec.find("grid")) {
         const Section grid{as_table(sec, "grid", *g), sec.key_path("grid"), line_of(*g), sec.ctx};
-        check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v"});
+        check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v", "w_direction", "w"});
         SweepGridSpec spec;
         spec.origin_m = read_lengths3(grid, "origin", required(grid, "origin"), false);
         (void)required(grid, "u_direction"), (void)required(grid, "v_direction");
@@ -923,6 +1053,17 @@ SweepSpec read_sweep(const Section& sec) {
         // Grid coordinates are offsets from the origin: zero and negative allowed.
         spec.u_m = read_axis_values(grid, "u", Dimension::length, false, true);
         spec.v_m = read_axis_values(grid, "v", Dimension::length, false, true);
+        if (grid.find("w") || grid.find("w_direction")) {  // a volume of targets (murk layout)
+            (void)required(grid, "w_direction", "a third direction, out of the u-v plane"), (void)required(grid, "w");
+            spec.w_direction = read_direction(grid, "w_direction");
+            const auto& a = spec.u_direction;
+            const auto& b = spec.v_direction;
+            const auto& c = spec.w_direction;
+            const double volume = a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0]) +
+                                  a[2] * (b[0] * c[1] - b[1] * c[0]);
+            if (std::abs(volume) < 1e-3) fail(grid.where("w_direction"), "lies in the plane of u_direction and v_direction");
+            spec.w_m = read_axis_values(grid, "w", Dimension::length, false, true);
+        }
         s.grid = spec;
     }
     if (s.grid && !s.distance_m.empty())
@@ -1000,7 +1141,7 @@ DetectionSpec read_detection(const Section& sec) {
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
-                     "probe", "sweep", "detection"});
+                     "probe", "sweep", "detection", "layout"});
     CaseSpec spec;
     spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
     if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
@@ -1024,7 +1165,17 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const toml::node* robot = sec.find("robot");
     if (fish && robot) fail(sec.where("robot"), "a case has one sensing body: [fish] or [robot], not both");
     if (fish) spec.fish = read_fish(Section{as_table(sec, "fish", *fish), "fish", line_of(*fish), ctx});
-    if (robot) spec.robot = read_robot(Section{as_table(sec, "robot", *robot), "robot", line_of(*robot), ctx});
+    const bool layouts = sec.find("layout") != nullptr;
+    if (robot) spec.robot = read_robot(Section{as_table(sec, "robot", *robot), "robot", line_of(*robot), ctx}, layouts);
+    if (layouts && !robot) fail(sec.where("layout"), "layouts place electrodes on a robot's hull; the case has no [robot]");
+    std::set<std::string> layout_names;
+    read_tables(sec, "layout", [&](const Section& ls, std::size_t) {
+        if (spec.layouts.size() >= kMaxLayouts)
+            fail(ls.where_self(), "a case has at most " + std::to_string(kMaxLayouts) + " layouts");
+        LayoutSpec l = read_layout(ls, *spec.robot);
+        if (!layout_names.insert(l.name).second) fail(ls.where("name"), "another layout is already named " + in_quotes(l.name));
+        spec.layouts.push_back(std::move(l));
+    });
 
     std::set<std::string> object_names;
     read_tables(sec, "object", [&](const Section& os, std::size_t i) {
@@ -1058,6 +1209,8 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.sweep && spec.sweep->electrode_pairs && !spec.layouts.empty())
+        fail(at(ctx, spec.sweep->line, "sweep.readings"), "each [[layout]] says how its sensors are read; remove readings");
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.robot)
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "pairs of sensor electrodes need a [robot]");
     if (!spec.mesh.zones.empty() && !fish && !robot)

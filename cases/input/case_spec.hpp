@@ -9,6 +9,7 @@
 #include <array>
 #include <optional>
 
+#include "cases/input/layout_spec.hpp"
 #include "cases/input/sweep_spec.hpp"
 #include <string>
 #include <vector>
@@ -252,6 +253,10 @@ struct CaseSpec {
     std::vector<ProbePoint> probe_points;  // every probe's points, probe after probe
     std::optional<SweepSpec> sweep;          // [sweep]: what murk run varies
     std::optional<DetectionSpec> detection;  // [detection]: noise model and detection criteria
+    // [[layout]]: candidate layouts of the robot's electrodes (murk layout). When there are
+    // any, robot->electrodes are the hull's sites, all floating; layout_case() makes the
+    // case of one layout.
+    std::vector<LayoutSpec> layouts;
 };
 
 // Electrodes made for perfectly conducting objects are named "object:<name>", so

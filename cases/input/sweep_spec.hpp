@@ -10,12 +10,16 @@
 
 namespace murk {
 
-// A planar grid of object centre positions: origin + u * u_direction + v * v_direction.
+// A planar grid of object centre positions: origin + u * u_direction + v * v_direction
+// (+ w * w_direction for murk layout's volume grids).
 struct SweepGridSpec {
     std::array<double, 3> origin_m{};
     std::array<double, 3> u_direction{1, 0, 0};  // unit vectors, not parallel
     std::array<double, 3> v_direction{0, 1, 0};
     std::vector<double> u_m, v_m;
+    // A third axis, for murk layout only (a volume of target positions); empty: planar.
+    std::array<double, 3> w_direction{0, 0, 1};  // unit vector, out of the u-v plane
+    std::vector<double> w_m;
 };
 
 // Conductivity axis values: 0 means "insulator", +infinity means "conductor".

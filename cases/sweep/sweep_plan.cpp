@@ -34,6 +34,9 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
     plan.sweep = *spec.sweep;
     plan.where = spec.path + ":" + std::to_string(plan.sweep.line) + ": sweep";
     if (spec.objects.empty()) throw InputError(plan.where + ": the case has no [[object]] to sweep");
+    if (plan.sweep.grid && !plan.sweep.grid->w_m.empty())
+        throw InputError(plan.where + ".grid.w: a third grid axis places murk layout's targets in a volume; murk run "
+                                      "sweeps a planar grid (remove w and w_direction)");
     if (!plan.sweep.distance_m.empty() && plan.sweep.grid)
         throw InputError(plan.where + ": a sweep moves the object either by distance or on a grid, not both");
     plan.axes = sweep_axes(plan.sweep);

@@ -25,9 +25,9 @@ def documented(name):
 
 for path in sys.argv[2:]:
     with h5py.File(path, "r") as f:
-        # Groups below /mesh, /baseline, /perturbed, /difference and /probes are named by the case.
+        # Groups below /mesh, /baseline, /perturbed, /difference, /probes and /layouts are named by the case.
         case_named = set()
-        for parent in ("mesh", "baseline", "perturbed", "difference", "probes"):
+        for parent in ("mesh", "baseline", "perturbed", "difference", "probes", "layouts"):
             if parent in f:
                 case_named |= {k for k in f[parent] if k != "electrodes"}
 

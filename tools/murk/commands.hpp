@@ -24,6 +24,15 @@ struct SolveArgs {
 };
 int solve_command(const SolveArgs& args, const std::string& command_line);
 
+struct LayoutArgs {
+    std::string case_path;
+    std::string output_path;
+    bool force = false;
+    bool quiet = false;
+    int threads = 0;  // 0: OpenMP's default
+};
+int layout_command(const LayoutArgs& args, const std::string& command_line);
+
 struct MeshArgs {
     std::string input;       // a mesh file (STL, MSH) or a case file (TOML)
     std::string convert_to;  // optional output mesh (STL or VTK), empty for none

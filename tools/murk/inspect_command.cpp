@@ -694,6 +694,43 @@ void print_journal(const std::string& path) {
                                           : "finish it with: murk run CASE.toml -o OUT.h5 --resume");
 }
 
+// A result of murk layout: one row per layout of /layout_comparison.
+void print_layouts(const H5Group& root) {
+    const H5Group cmp = root.open_group("layout_comparison");
+    const std::vector<std::string> names = split_commas(cmp.string_attribute("layout_names"));
+    const std::vector<double> sizes = numbers(cmp.dataset("size"));
+    const std::vector<double> power = numbers(cmp.dataset("drive_power"));
+    const bool volume = cmp.exists("detectable_volume");  // a 3-D grid of targets
+    const std::vector<double> area = numbers(cmp.dataset(volume ? "detectable_volume" : "detectable_area"));
+    const std::vector<double> range = numbers(cmp.dataset("detection_range"));
+    const std::vector<double> noise = numbers(cmp.dataset("channel_noise"));
+    const H5Array<std::int32_t> readings = cmp.dataset("readings").read<std::int32_t>();
+    if (power.size() != names.size() || area.size() != names.size() * sizes.size() || range.size() != area.size() ||
+        readings.values.size() != names.size() || noise.size() != names.size())
+        malformed(cmp.dataset("detection_range"), "does not hold one value per layout and size");
+    std::printf("layouts compared on the same targets (%zu layouts, %zu target sizes):\n", names.size(), sizes.size());
+    std::vector<std::string> head = {"layout", "readings", "noise", "drive power"};
+    for (double s : sizes) {
+        head.push_back((volume ? "volume, " : "area, ") + millimetres(s));
+        head.push_back("range, " + millimetres(s));
+    }
+    Table table(head);
+    for (std::size_t l = 0; l < names.size(); ++l) {
+        const std::string units =
+            root.open_group("layouts/" + names[l]).string_attribute("reading_units");
+        std::vector<std::string> row = {names[l], std::to_string(readings.values[l]), with_prefix(noise[l], units),
+                                        with_prefix(power[l], "W")};
+        for (std::size_t k = 0; k < sizes.size(); ++k) {
+            const double a = area[l * sizes.size() + k];
+            row.push_back(volume ? format("%.4g cm3", a * 1e6) : format("%.4g cm2", a * 1e4));
+            const double r = range[l * sizes.size() + k];
+            row.push_back(std::isfinite(r) ? millimetres(r) : "not detectable");
+        }
+        table.add(row);
+    }
+    table.print("  ");
+}
+
 int inspect_command(const InspectArgs& args) {
     if (PointJournal::is_journal(args.path)) {
         print_journal(args.path);
@@ -702,7 +739,9 @@ int inspect_command(const InspectArgs& args) {
     const H5File file = H5File::open_readonly(args.path);
     const H5Group root = file.root();
     print_header(file, root);
-    if (root.exists(layout::kSweep))
+    if (root.exists("layout_comparison"))
+        print_layouts(root);
+    else if (root.exists(layout::kSweep))
         print_run(root);
     else
         print_solve(root);

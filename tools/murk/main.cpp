@@ -70,6 +70,14 @@ int main(int argc, char** argv) {
     solve_cmd->add_option("--memory-limit", solve.memory_limit,
                           "refuse a case whose system needs more memory, e.g. \"8 GiB\" (default: 80 % of physical memory)");
 
+    murk::cli::LayoutArgs layout;
+    auto* layout_cmd = app.add_subcommand("layout", "compare the case's electrode layouts on the same targets and noise");
+    layout_cmd->add_option("case", layout.case_path, "case file (TOML) with [[layout]] tables and a [sweep.grid]")->required();
+    layout_cmd->add_option("-o,--output", layout.output_path, "result file (HDF5)")->required();
+    layout_cmd->add_flag("--force", layout.force, "replace an existing result file");
+    layout_cmd->add_flag("--quiet", layout.quiet, "print nothing but errors");
+    layout_cmd->add_option("--threads", layout.threads, "worker threads (default: all cores)")->check(CLI::PositiveNumber);
+
     murk::cli::MeshArgs mesh;
     auto* mesh_cmd = app.add_subcommand("mesh", "mesh statistics and quality report; conversion to STL or VTK");
     mesh_cmd->add_option("input", mesh.input, "mesh file (.stl, .msh) or case file (.toml)")->required();
@@ -107,6 +115,7 @@ int main(int argc, char** argv) {
         else if (*merge_cmd) status = murk::cli::merge_command(merge, joined(argc, argv));
         else if (*verify_cmd) status = murk::cli::verify_command(verify);
         else if (*solve_cmd) status = murk::cli::solve_command(solve, joined(argc, argv));
+        else if (*layout_cmd) status = murk::cli::layout_command(layout, joined(argc, argv));
         else if (*mesh_cmd) status = murk::cli::mesh_command(mesh);
     } catch (const murk::InputError& e) {
         return fail(2, e.what());

@@ -1,5 +1,6 @@
 // `murk run CASE -o OUT.h5`: the case's sweep, written as detection maps.
 #include "cases/input/case_reader.hpp"
+#include "cases/input/layout_case.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/sweep/sweep_merge.hpp"
 #include "cases/sweep/sweep_runner.hpp"
@@ -100,7 +101,7 @@ int run_on_ranks(const CaseSpec& spec, RunOptions options, const RunArgs& args) 
 
 int run_command(const RunArgs& args, const std::string& command_line) {
     if (args.threads > 0) omp_set_num_threads(args.threads);
-    const CaseSpec spec = read_case_file(args.case_path);
+    const CaseSpec spec = case_to_solve(read_case_file(args.case_path));
     RunOptions options;
     options.output_path = args.output_path;
     options.command_line = command_line;

@@ -1,5 +1,6 @@
 // `murk solve CASE -o OUT.h5`: one configuration of a case (cases/solve/solve_run.hpp).
 #include "cases/input/case_reader.hpp"
+#include "cases/input/layout_case.hpp"
 #include "cases/output/stop_request.hpp"
 #include "cases/solve/solve_run.hpp"
 #include "tools/murk/commands.hpp"
@@ -19,7 +20,7 @@ int solve_command(const SolveArgs& args, const std::string& command_line) {
     options.quiet = args.quiet;
     if (!args.memory_limit.empty()) options.memory_limit_bytes = parse_memory_size(args.memory_limit, "--memory-limit");
     on_stop(OnStop::exit_at_once);  // nothing to keep until the result is written
-    run_solve(read_case_file(args.case_path), options);
+    run_solve(case_to_solve(read_case_file(args.case_path)), options);
     if (stop_requested()) {  // arrived while the finished result was written: it is complete
         std::fprintf(stderr, "murk: stopped by a signal; the result %s was complete and is kept\n",
                      args.output_path.c_str());

@@ -1,0 +1,22 @@
+#pragma once
+// The result file of `murk layout` (cases/RESULT_LAYOUT.md, "murk layout"): one group
+// per layout, /layouts/<name>, with the readings' baseline, the drives, the
+// sensitivity map, the baseline field and per target size the reading change, d',
+// P_D, the detectable area, range and outline; and /layout_comparison, one row per
+// layout, which `murk inspect` prints.
+#include "cases/layout/layout_quantities.hpp"
+#include "cases/layout/target_grid.hpp"
+#include "cases/output/hdf5_file.hpp"
+
+#include <vector>
+
+namespace murk {
+
+void write_layout(const H5Group& layouts, const LayoutQuantities& q, const TargetGrid& grid);
+void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuantities>& all, const TargetGrid& grid);
+
+// The words of the ElectrodePart codes, in code order (CF flag_meanings).
+inline constexpr const char* kElectrodePartWords = "emitter_current emitter_voltage sensor held_sensor reference";
+inline constexpr const char* kTargetStatusWords = "free blocked";
+
+}  // namespace murk

@@ -1,0 +1,60 @@
+#include "cases/layout/layout_run.hpp"
+
+#include "cases/layout/layout_evaluation.hpp"
+#include "cases/layout/layout_noise.hpp"
+#include "cases/layout/layout_output.hpp"
+#include "cases/output/hdf5_file.hpp"
+#include "cases/output/result_metadata.hpp"
+#include "cases/scene/scene_builder.hpp"
+#include "geometry/input_error.hpp"
+
+#include <cstdio>
+
+namespace murk {
+
+namespace {
+
+QuadratureOptions quadrature_of(const CaseSpec& spec) {
+    QuadratureOptions q;
+    q.near_ratio = spec.mesh.near_ratio;
+    q.far_ratio = spec.mesh.far_ratio;
+    return q;
+}
+
+}  // namespace
+
+LayoutRun evaluate_layouts(const CaseSpec& spec, const QuadratureOptions& quad, bool quiet) {
+    if (spec.layouts.empty())
+        throw InputError(spec.path + ": layout: murk layout compares [[layout]] tables; the case has none");
+    if (case_needs_complex(spec))
+        throw InputError(spec.path + ": murk layout computes in real arithmetic; this case has a permittivity or "
+                                     "capacitance at a frequency (leave them out to compare layouts)");
+    for (const LayoutSpec& l : spec.layouts) layout_noise(spec, l);  // every refusal before any solve
+    LayoutRun run;
+    run.grid = target_grid(spec);                                // 1. targets
+    const TargetPlacement placement = place_targets(spec, run.grid);  // 2. placed against the hull
+    for (std::size_t k = 0; k < spec.layouts.size(); ++k) {      // 3. layouts
+        run.layouts.push_back(evaluate_layout(spec, k, run.grid, placement, quad));
+        const LayoutQuantities& q = run.layouts.back();
+        if (!quiet)
+            std::printf("layout %s: %zu readings, factored in %.2f s, maps of %zu points in %.2f s\n", q.name.c_str(),
+                        q.readout.names.size(), q.factor_seconds, run.grid.size(), q.map_seconds);
+    }
+    return run;
+}
+
+LayoutRun run_layouts(const CaseSpec& spec, const LayoutOptions& options) {
+    const QuadratureOptions quad = quadrature_of(spec);
+    H5Output out(options.output_path, options.force, "pass --force to replace it");  // refused before any work
+    LayoutRun run = evaluate_layouts(spec, quad, options.quiet);
+    H5Group root = out.root();
+    write_result_metadata(root, spec, options.command_line, "induced dipole (reciprocity)", quad);
+    const H5Group layouts = root.group("layouts");
+    for (const LayoutQuantities& q : run.layouts) write_layout(layouts, q, run.grid);
+    write_layout_comparison(root, run.layouts, run.grid);
+    out.commit();  // 4. written under OUT.h5.partial, renamed onto OUT.h5
+    if (!options.quiet) std::printf("wrote %s\n", options.output_path.c_str());
+    return run;
+}
+
+}  // namespace murk
