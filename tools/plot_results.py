@@ -979,15 +979,123 @@ def draw_body(result, vertices, triangles, values, units, where, centre, radius,
     return save(fig, path)
 
 
+
+# ------------------------------------------------------------------ layouts (murk layout)
+
+PART_COLOURS = {"emitter_current": "tab:red", "emitter_voltage": "tab:red", "sensor": "tab:blue",
+                "held_sensor": "tab:blue", "reference": "tab:green"}
+
+
+def layout_sites(path):
+    """The ring sites of the case kept in the file (name -> (from, to) in m along the hull), or {}
+    when the case has none that can be drawn on the unrolled hull (patches, regions)."""
+    import h5py
+    import tomllib
+    with h5py.File(path, "r") as f:
+        text = f.attrs.get("case", "")
+    text = text.decode() if isinstance(text, bytes) else str(text)
+    try:
+        case = tomllib.loads(text)
+    except tomllib.TOMLDecodeError:
+        return {}
+    sites = {}
+    for e in case.get("robot", {}).get("electrode", []):
+        if e.get("form") != "ring":
+            continue
+        try:
+            sites[e["name"]] = (length_m(e["from"]), length_m(e["to"]))
+        except (KeyError, ValueError):
+            continue
+    return sites
+
+
+def length_m(text):
+    """A length of the case file ("15 cm"); only the units the examples use."""
+    number, _, unit = str(text).strip().partition(" ")
+    scale = {"m": 1.0, "cm": 1e-2, "mm": 1e-3}.get(unit.strip() or "m")
+    if scale is None:
+        raise ValueError(text)
+    return float(number) * scale
+
+
+def layout_maps(path, out_dir, stem):
+    """One column per layout: its electrodes on the unrolled hull (rings as bands along the axis,
+    coloured by their part), and below it the detection probability of the largest target over
+    the grid with the detectable region's outline."""
+    import h5py
+    import matplotlib.pyplot as plt
+    import numpy as np
+    with h5py.File(path, "r") as f:
+        if "layouts" not in f:
+            raise Skip("not a murk layout file")
+        names = sorted(f["layouts"].keys())
+        sites = layout_sites(path)
+        fig, axes = plt.subplots(2, len(names), figsize=(4.2 * len(names), 5.4), dpi=DPI, squeeze=False,
+                                 gridspec_kw={"height_ratios": [1, 3]}, layout="constrained")
+        fig.suptitle("Electrode layouts on the unrolled hull (red emitter, blue sensor, green reference, grey unused) "
+                     "and the detection probability of the largest target")
+        for col, name in enumerate(names):
+            g = f["layouts"][name]
+            top, ax = axes[0][col], axes[1][col]
+            parts = dict(zip([n.decode() if isinstance(n, bytes) else n for n in g["electrode"][:]],
+                             g["electrode_part"][:]))
+            meanings = g["electrode_part"].attrs["flag_meanings"]
+            meanings = (meanings.decode() if isinstance(meanings, bytes) else meanings).split()
+            for site, (lo, hi) in sites.items():
+                part = meanings[parts[site]] if site in parts else None
+                top.axvspan(lo * 100, hi * 100, color=PART_COLOURS.get(part, "lightgrey"),
+                            alpha=1.0 if part else 0.5)
+                top.text((lo + hi) * 50, 180, site, ha="center", va="center", fontsize=7, rotation=90)
+            top.set_ylim(0, 360)
+            top.set_yticks([0, 180, 360])
+            top.set_xlabel("along the hull (cm)")
+            top.set_ylabel("around (deg)")
+            top.set_title(name)
+            u, v = g["u"][:] * 100, g["v"][:] * 100
+            sizes = g["size"][:]
+            k = int(np.argmax(sizes))
+            pd = g["detection_probability"][k]
+            image = ax.pcolormesh(u, v, pd.T, vmin=0, vmax=1, cmap="viridis", shading="nearest")
+            ring, hole = g["outline_ring"][:], g["outline_hole"][:]
+            ou, ov, osz = g["outline_u"][:] * 100, g["outline_v"][:] * 100, g["outline_size"][:]
+            for r in np.unique(ring[osz == sizes[k]]):
+                pick = (ring == r) & (osz == sizes[k])
+                ax.plot(np.append(ou[pick], ou[pick][0]), np.append(ov[pick], ov[pick][0]),
+                        color="white", linestyle="--" if hole[pick][0] else "-", linewidth=1.2)
+            ax.set_aspect("equal")
+            ax.set_xlabel("u (cm)")
+            ax.set_ylabel("v (cm)")
+            ax.set_title(f"size {sizes[k] * 1000:g} mm, area {g['detectable_area'][k] * 1e4:.0f} cm²", fontsize=9)
+        fig.colorbar(image, ax=axes[1, :].tolist(), location="bottom", shrink=0.5, label="detection probability")
+    return [save(fig, os.path.join(out_dir, f"{stem}_layouts.png"))]
+
+
 # ------------------------------------------------------------------ driver
 
 def note(text):
     print(text)
 
 
+def is_layout_file(path):
+    import h5py
+    try:
+        with h5py.File(path, "r") as f:
+            return "layouts" in f
+    except OSError:
+        return False  # Result() says what is wrong with it
+
+
 def make_figures(args):
     import matplotlib
     matplotlib.use("Agg")
+    out_dir_early = args.output_dir or os.path.dirname(os.path.abspath(args.result))
+    if is_layout_file(args.result):
+        if not os.path.isdir(out_dir_early):
+            raise BadInput(f"{out_dir_early}: no such folder")
+        stem = os.path.splitext(os.path.basename(args.result))[0]
+        for path in layout_maps(args.result, out_dir_early, stem):
+            print(path)
+        return
     result = Result(args.result)
     out_dir = args.output_dir or os.path.dirname(os.path.abspath(args.result))
     if not os.path.isdir(out_dir):
