@@ -17,19 +17,9 @@ namespace {
 
 constexpr double kPi = 3.14159265358979323846;
 
-std::string num(double v) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.6g", v);
-    return buf;
-}
-
-void require_positive(double v, const std::string& what) {
-    if (!(std::isfinite(v) && v > 0.0)) throw InputError(what + " must be a positive length, got " + num(v));
-}
-
 // The edge size in force: the caller's, or the rule's; never above the spacing.
 double edge_size_for(double target_edge, std::optional<double> edge_size, double spacing) {
-    if (edge_size) require_positive(*edge_size, "electrode edge size");
+    if (edge_size) require_positive_length(*edge_size, "electrode edge size");
     return std::min(edge_size ? *edge_size : kElectrodeEdgeFraction * target_edge, spacing);
 }
 
@@ -37,10 +27,10 @@ double edge_size_for(double target_edge, std::optional<double> edge_size, double
 void require_rings_on(const std::vector<AxialBand>& rings, double lo, double hi) {
     for (std::size_t k = 0; k < rings.size(); ++k) {
         const AxialBand& b = rings[k];
-        const std::string what = "ring " + std::to_string(k + 1) + " (from " + num(b.from) + " m to " + num(b.to) + " m)";
+        const std::string what = "ring " + std::to_string(k + 1) + " (from " + shape_number(b.from) + " m to " + shape_number(b.to) + " m)";
         if (!(std::isfinite(b.from) && std::isfinite(b.to) && b.from < b.to)) throw InputError(what + " is empty");
         if (b.from < lo || b.to > hi)
-            throw InputError(what + " reaches beyond the hull, which spans " + num(lo) + " m to " + num(hi) + " m along x");
+            throw InputError(what + " reaches beyond the hull, which spans " + shape_number(lo) + " m to " + shape_number(hi) + " m along x");
     }
 }
 
@@ -134,10 +124,10 @@ double box_band_area(const Vec3& size, const AxialBand& band) {
 
 TriangleMesh make_capsule_with_rings(double radius, double cylinder_length, double target_edge,
                                      const std::vector<AxialBand>& rings, std::optional<double> edge_size) {
-    require_positive(radius, "capsule radius");
-    require_positive(target_edge, "capsule target edge");
+    require_positive_length(radius, "capsule radius");
+    require_positive_length(target_edge, "capsule target edge");
     if (!(std::isfinite(cylinder_length) && cylinder_length >= 0.0))
-        throw InputError("capsule cylinder length must be zero or a positive length, got " + num(cylinder_length));
+        throw InputError("capsule cylinder length must be zero or a positive length, got " + shape_number(cylinder_length));
     const double r = radius, h = 0.5 * cylinder_length, quarter = 0.5 * kPi * r;
     require_rings_on(rings, -h - r, h + r);
     // Meridian arc length s from the left tip: the stations are graded in s, so
@@ -169,7 +159,7 @@ TriangleMesh make_capsule_with_rings(double radius, double cylinder_length, doub
     const double n_theta_d = std::max(8.0, std::ceil(2.0 * kPi * r / spacing));
     const double panels = 2.0 * n_theta_d * static_cast<double>(stations_s.size());
     if (!(panels <= static_cast<double>(kMaxGeneratedPanels)))
-        throw InputError("capsule: target edge too small, the mesh would need about " + num(panels) + " panels");
+        throw InputError("capsule: target edge too small, the mesh would need about " + shape_number(panels) + " panels");
     const int n = static_cast<int>(n_theta_d);
     const std::size_t m = stations_s.size() - 1;  // stations 0 and m are the tips
     std::vector<double> x(m + 1), rho(m + 1, 0.0), rho_true(m + 1, 0.0);
@@ -236,8 +226,8 @@ TriangleMesh make_capsule_with_rings(double radius, double cylinder_length, doub
 
 TriangleMesh make_box_with_rings(const Vec3& size, double target_edge, const std::vector<AxialBand>& rings,
                                  std::optional<double> edge_size) {
-    for (int d = 0; d < 3; ++d) require_positive(size[d], std::string("box size ") + "xyz"[d]);
-    require_positive(target_edge, "box target edge");
+    for (int d = 0; d < 3; ++d) require_positive_length(size[d], std::string("box size ") + "xyz"[d]);
+    require_positive_length(target_edge, "box target edge");
     const double half = 0.5 * size.x();
     require_rings_on(rings, -half, half);
     const double spacing = kGridSpacingFactor * target_edge;

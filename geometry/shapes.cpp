@@ -11,25 +11,27 @@
 #include <unordered_map>
 
 namespace murk {
-namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-
-
-std::string num(double v) {
+std::string shape_number(double v) {
     char buf[32];
     std::snprintf(buf, sizeof buf, "%.6g", v);
     return buf;
 }
 
-void require_positive(double v, const std::string& what) {
-    if (!(std::isfinite(v) && v > 0.0))
-        throw InputError(what + " must be a positive length, got " + num(v));
+void require_positive_length(double v, const std::string& what) {
+    if (!(std::isfinite(v) && v > 0.0)) throw InputError(what + " must be a positive length, got " + shape_number(v));
 }
+
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+
+
+
 
 void require_panel_budget(double panels, const std::string& what) {
     if (!(panels <= static_cast<double>(kMaxGeneratedPanels)))
-        throw InputError(what + ": target edge too small, the mesh would need about " + num(panels) +
+        throw InputError(what + ": target edge too small, the mesh would need about " + shape_number(panels) +
                          " panels (limit " + std::to_string(kMaxGeneratedPanels) + ")");
 }
 
@@ -215,14 +217,14 @@ void validate_profile(const BodyProfile& p) {
         if (!std::isfinite(p.x[i]) || !std::isfinite(p.half_width[i]) || !std::isfinite(p.half_height[i]))
             throw InputError(at + "values must be finite");
         if (i > 0 && !(p.x[i] > p.x[i - 1]))
-            throw InputError(at + "x must increase strictly, but x = " + num(p.x[i]) + " follows x = " + num(p.x[i - 1]));
+            throw InputError(at + "x must increase strictly, but x = " + shape_number(p.x[i]) + " follows x = " + shape_number(p.x[i - 1]));
         if (p.half_width[i] < 0.0 || p.half_height[i] < 0.0)
-            throw InputError(at + "radii must not be negative, got half_width " + num(p.half_width[i]) + ", half_height " +
-                             num(p.half_height[i]));
+            throw InputError(at + "radii must not be negative, got half_width " + shape_number(p.half_width[i]) + ", half_height " +
+                             shape_number(p.half_height[i]));
         const bool tip = i == 0 || i + 1 == n;
         if (tip && (p.half_width[i] != 0.0 || p.half_height[i] != 0.0))
             throw InputError(at + "the first and last stations are the tips and must have zero radii, got half_width " +
-                             num(p.half_width[i]) + ", half_height " + num(p.half_height[i]));
+                             shape_number(p.half_width[i]) + ", half_height " + shape_number(p.half_height[i]));
         if (!tip && (p.half_width[i] == 0.0 || p.half_height[i] == 0.0))
             throw InputError(at + "interior stations must have positive radii (only the tips may be zero)");
     }
@@ -231,7 +233,7 @@ void validate_profile(const BodyProfile& p) {
 }  // namespace
 
 TriangleMesh make_icosphere(double radius, int subdivisions) {
-    require_positive(radius, "sphere radius");
+    require_positive_length(radius, "sphere radius");
     TriangleMesh m = unit_icosphere(check_level(subdivisions, "sphere"));
     scale_all(m, Vec3::Constant(radius));
     keep_volume_uniform(m, 4.0 / 3.0 * kPi * radius * radius * radius);
@@ -240,8 +242,8 @@ TriangleMesh make_icosphere(double radius, int subdivisions) {
 }
 
 TriangleMesh make_sphere(double radius, double target_edge, const std::vector<RefinementZone>& zones) {
-    require_positive(radius, "sphere radius");
-    require_positive(target_edge, "sphere target edge");
+    require_positive_length(radius, "sphere radius");
+    require_positive_length(target_edge, "sphere target edge");
     if (zones.empty()) return make_icosphere(radius, sphere_level_for(radius, target_edge, "sphere"));
     TriangleMesh m = unit_icosphere(sphere_level_for(radius, target_edge, "sphere"));
     scale_all(m, Vec3::Constant(radius));
@@ -253,10 +255,10 @@ TriangleMesh make_sphere(double radius, double target_edge, const std::vector<Re
 }
 
 TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge, const std::vector<RefinementZone>& zones) {
-    require_positive(semi_axes.x(), "ellipsoid semi-axis x");
-    require_positive(semi_axes.y(), "ellipsoid semi-axis y");
-    require_positive(semi_axes.z(), "ellipsoid semi-axis z");
-    require_positive(target_edge, "ellipsoid target edge");
+    require_positive_length(semi_axes.x(), "ellipsoid semi-axis x");
+    require_positive_length(semi_axes.y(), "ellipsoid semi-axis y");
+    require_positive_length(semi_axes.z(), "ellipsoid semi-axis z");
+    require_positive_length(target_edge, "ellipsoid target edge");
     TriangleMesh m = unit_icosphere(sphere_level_for(semi_axes.maxCoeff(), target_edge, "ellipsoid"));
     scale_all(m, semi_axes);
     // Onto the ellipsoid along the ray from its centre.
@@ -269,10 +271,10 @@ TriangleMesh make_ellipsoid(const Vec3& semi_axes, double target_edge, const std
 
 TriangleMesh make_capsule(double radius, double cylinder_length, double target_edge,
                           const std::vector<RefinementZone>& zones) {
-    require_positive(radius, "capsule radius");
-    require_positive(target_edge, "capsule target edge");
+    require_positive_length(radius, "capsule radius");
+    require_positive_length(target_edge, "capsule target edge");
     if (!(std::isfinite(cylinder_length) && cylinder_length >= 0.0))
-        throw InputError("capsule cylinder length must be zero or a positive length, got " + num(cylinder_length));
+        throw InputError("capsule cylinder length must be zero or a positive length, got " + shape_number(cylinder_length));
     const double s = kGridSpacingFactor * target_edge;
     const double n_lat_d = std::max(2.0, std::ceil(0.5 * kPi * radius / s));
     const double n_cyl_d = std::ceil(cylinder_length / s);
@@ -347,7 +349,7 @@ double body_profile_volume(const BodyProfile& p) {
 }
 
 TriangleMesh make_body(const BodyProfile& p, double target_edge, const std::vector<RefinementZone>& zones) {
-    require_positive(target_edge, "body target edge");
+    require_positive_length(target_edge, "body target edge");
     const double v_true = body_profile_volume(p);
     const double s = kGridSpacingFactor * target_edge;
     std::vector<double> x, a, b;
@@ -378,10 +380,10 @@ TriangleMesh make_body(const BodyProfile& p, double target_edge, const std::vect
 }
 
 TriangleMesh make_box(const Vec3& size, double target_edge, const std::vector<RefinementZone>& zones) {
-    require_positive(size.x(), "box size x");
-    require_positive(size.y(), "box size y");
-    require_positive(size.z(), "box size z");
-    require_positive(target_edge, "box target edge");
+    require_positive_length(size.x(), "box size x");
+    require_positive_length(size.y(), "box size y");
+    require_positive_length(size.z(), "box size z");
+    require_positive_length(target_edge, "box target edge");
     const double s = kGridSpacingFactor * target_edge;
     double nd[3];
     for (int d = 0; d < 3; ++d) nd[d] = std::max(1.0, std::ceil(size[d] / s));

@@ -20,9 +20,16 @@
 #include "geometry/zone_refinement.hpp"
 
 #include <array>
+#include <string>
 #include <vector>
 
 namespace murk {
+
+// A number for the generators' messages ("%.6g"), and the check every generator
+// makes of its sizes: InputError "<what> must be a positive length, got <v>" unless
+// v is finite and positive.
+std::string shape_number(double v);
+void require_positive_length(double v, const std::string& what);
 
 // Largest mesh any generator will build; beyond it the caller surely mistyped a unit.
 constexpr std::size_t kMaxGeneratedPanels = 2000000;
