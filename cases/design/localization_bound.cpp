@@ -7,6 +7,7 @@
 
 #include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>
+#include <Eigen/SVD>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -83,9 +84,20 @@ LocalizationBound localization_bound(const Eigen::MatrixXd& information, const B
     out.covariance = s.asDiagonal() * scaled_inverse * s.asDiagonal();
     out.covariance = 0.5 * (out.covariance + out.covariance.transpose());
     out.standard_deviation = out.covariance.diagonal().cwiseMax(0.0).cwiseSqrt();
-    const Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> pos(out.covariance.topLeftCorner(np, np));
-    out.semi_axes = pos.eigenvalues().reverse().cwiseMax(0.0).cwiseSqrt();
-    out.axes = pos.eigenvectors().rowwise().reverse();
+    // The position block is B B^T with B = (S V Lambda^-1/2) restricted to its first np rows,
+    // so the semi-axes are B's singular values and the axes its left singular vectors. Not
+    // from an eigen-decomposition of the block itself: when one direction is far less
+    // informed than the others and lies along a coordinate axis (which the diagonal scaling
+    // hides from the condition number), that block spans dozens of orders of magnitude and
+    // its small eigenvalues drown in rounding (they came out 0). B is a well-conditioned
+    // matrix with scaled rows, whose singular values two-sided Jacobi with a pivoted QR
+    // computes to high relative accuracy (Demmel & Veselic 1992, "Jacobi's method is more
+    // accurate than QR", SIAM J. Matrix Anal. Appl. 13:1204-1245).
+    const Eigen::MatrixXd b =
+        (s.asDiagonal() * v * eig.eigenvalues().cwiseSqrt().cwiseInverse().asDiagonal()).topRows(np);
+    const Eigen::JacobiSVD<Eigen::MatrixXd, Eigen::FullPivHouseholderQRPreconditioner> svd(b, Eigen::ComputeFullU);
+    out.semi_axes = svd.singularValues();  // descending
+    out.axes = svd.matrixU();
     return out;
 }
 

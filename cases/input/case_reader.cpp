@@ -1077,7 +1077,7 @@ SweepSpec read_sweep(const Section& sec) {
 
 DetectionSpec read_detection(const Section& sec) {
     check_keys(sec, {"receptor_noise", "receptor_density", "receptor_zones", "amplifier_noise", "amplifier_current_noise",
-                     "integration_time", "false_alarm_probability", "probability_level"});
+                     "integration_time", "false_alarm_probability", "probability_level", "localization_accuracy"});
     DetectionSpec d;
     d.line = sec.line;
     const bool receptors = sec.find("receptor_noise") != nullptr;
@@ -1135,6 +1135,12 @@ DetectionSpec read_detection(const Section& sec) {
     };
     d.false_alarm_probability = probability("false_alarm_probability", 1e-3);
     d.probability_level = probability("probability_level", 0.5);
+    if (const toml::node* n = sec.find("localization_accuracy")) {
+        const double a = read_quantity(sec, "localization_accuracy", *n, Dimension::length);
+        if (!(a > 0.0 && std::isfinite(a)))
+            fail(sec.where("localization_accuracy"), "a positive length, got " + describe(*n));
+        d.localization_accuracy_m = a;
+    }
     return d;
 }
 

@@ -70,6 +70,7 @@ struct DetectionSpec {
     double integration_time_s = 0.0;          // robot: lock-in averaging time
     double false_alarm_probability = 1e-3;
     double probability_level = 0.5;           // detection range: where P_D crosses this
+    double localization_accuracy_m = 0.0;     // murk layout: the position error wanted (0: no bound computed)
     int line = 0;
 };
 

@@ -1,6 +1,7 @@
 #include "cases/layout/layout_evaluation.hpp"
 
 #include "cases/input/layout_case.hpp"
+#include "cases/layout/layout_localization.hpp"
 #include "cases/layout/layout_noise.hpp"
 #include "cases/layout/sensitivity_map.hpp"
 #include "cases/scene/scene_builder.hpp"
@@ -41,6 +42,14 @@ ElectrodePart part_of(const Electrode<double>& e, const LayoutSpec& layout) {
                                                                                      : ElectrodePart::sensor;
 }
 
+// Area (planar grid, m^2) or volume (3-D grid, m^3) of the flagged cells.
+double flagged_region(const TargetGrid& grid, const std::vector<std::uint8_t>& flags) {
+    if (!grid.planar())
+        return flagged_volume(grid.u_m, grid.v_m, grid.w_m, flags,
+                              std::abs(grid.u_direction.cross(grid.v_direction).dot(grid.w_direction)));
+    return flagged_area(grid.u_m, grid.v_m, flags, grid.u_direction.cross(grid.v_direction).norm());
+}
+
 // Per size: the reading change of the induced dipole, d', P_D, and the region.
 SizeQuantities evaluate_size(const LayoutQuantities& q, const TargetGrid& grid, const TargetPlacement& placement,
                              std::size_t s) {
@@ -66,13 +75,8 @@ SizeQuantities evaluate_size(const LayoutQuantities& q, const TargetGrid& grid, 
                                         ? placement.clearance_m[k]
                                         : std::max(out.detection_range_m, placement.clearance_m[k]);
     }
-    if (!grid.planar()) {
-        const double det = std::abs(grid.u_direction.cross(grid.v_direction).dot(grid.w_direction));
-        out.detectable_area_m2 = flagged_volume(grid.u_m, grid.v_m, grid.w_m, out.detectable, det);
-        return out;  // an outline is drawn for planar grids only
-    }
-    const double sine = grid.u_direction.cross(grid.v_direction).norm();
-    out.detectable_area_m2 = flagged_area(grid.u_m, grid.v_m, out.detectable, sine);
+    out.detectable_area_m2 = flagged_region(grid, out.detectable);
+    if (!grid.planar()) return out;  // an outline is drawn for planar grids only
     // Simplify by a quarter of the finest grid step: drops the cells' staircase, not their shape.
     double step = INFINITY;
     for (const std::vector<double>* axis : {&grid.u_m, &grid.v_m})
@@ -114,6 +118,15 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
     q.row_points = map.row_points();
     q.baseline_field = baseline_field(fixed, grid.points, quad);
     for (std::size_t s = 0; s < grid.size_m.size(); ++s) q.sizes.push_back(evaluate_size(q, grid, placement, s));
+    q.localization_accuracy_m = spec.detection->localization_accuracy_m;
+    if (q.localization_accuracy_m > 0) {
+        const LeadFields<double> lead(fixed, q.readout.rows);
+        for (std::size_t s = 0; s < grid.size_m.size(); ++s) {
+            SizeQuantities& sq = q.sizes[s];
+            localize_targets(sq, lead, grid.points, grid.polarization[s], q.channel_noise, q.localization_accuracy_m);
+            sq.localizable_area_m2 = flagged_region(grid, sq.within_accuracy);
+        }
+    }
     q.map_seconds = seconds_since(t0);
     return q;
 }

@@ -3,7 +3,8 @@
 // lead fields (one transposed solve each), then for every target position and size
 // only field evaluations: the sensitivity map, the baseline field, the dipole
 // p = M E_b(c), the reading change L b(p), and from it d', P_D, the detectable area,
-// range and outline.
+// range and outline; when [detection] gives localization_accuracy, the bound on the
+// target's position (layout_localization.hpp).
 #include "cases/input/case_spec.hpp"
 #include "cases/layout/layout_quantities.hpp"
 #include "cases/layout/target_grid.hpp"

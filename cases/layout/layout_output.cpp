@@ -42,6 +42,47 @@ const char* region_words(const TargetGrid& grid) {
                          : "volume of the grid where the target is detectable";
 }
 
+// "localizable_area" (m2) on a plane, "localizable_volume" (m3) in a volume.
+const char* localized_name(const TargetGrid& grid) { return grid.planar() ? "localizable_area" : "localizable_volume"; }
+const char* localized_words(const TargetGrid& grid) {
+    return grid.planar() ? "area of the grid where the position bound meets the accuracy"
+                         : "volume of the grid where the position bound meets the accuracy";
+}
+
+// The Cramer-Rao bound on the target's position per size (layout_localization.hpp).
+void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& grid) {
+    const hsize_t ns = grid.size_m.size();
+    const H5Layout packed = H5Layout::compressed(1);
+    std::vector<double> sd, axes, area;
+    std::vector<std::uint8_t> status, within;
+    for (const SizeQuantities& s : q.sizes) {
+        sd.insert(sd.end(), s.position_sd.data(), s.position_sd.data() + s.position_sd.size());
+        axes.insert(axes.end(), s.semi_axes.data(), s.semi_axes.data() + s.semi_axes.size());
+        status.insert(status.end(), s.bound_status.begin(), s.bound_status.end());
+        within.insert(within.end(), s.within_accuracy.begin(), s.within_accuracy.end());
+        area.push_back(s.localizable_area_m2);
+    }
+    index_coordinate(g, "semi_axis", 3, "semi-axis of the error ellipsoid, longest first");
+    g.write("localization_accuracy", std::vector<double>{q.localization_accuracy_m}, H5Shape{}, "m",
+            "position error asked for (largest semi-axis of the error ellipsoid)");
+    g.write("localization_status", status, grid_shape(grid, {ns}, {}), "1", "state of the position bound", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {}))
+        .set_flags(std::vector<std::uint8_t>{0, 1, 2, 3}, kLocalizationStatusWords);
+    g.write("position_sd", sd, grid_shape(grid, {ns}, {3}), "m",
+            "Cramer-Rao bound: standard deviation of the target position along x, y, z", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {"xyz"}))
+        .set_fill_value(double(NAN));
+    g.write("error_semi_axes", axes, grid_shape(grid, {ns}, {3}), "m",
+            "Cramer-Rao bound: semi-axes of the 1-standard-deviation error ellipsoid of the position", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {"semi_axis"}))
+        .set_fill_value(double(NAN));
+    g.write("within_accuracy", within, grid_shape(grid, {ns}, {}), "1",
+            "whether the largest semi-axis is at most localization_accuracy", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {}))
+        .set_flags(std::vector<std::uint8_t>{0, 1}, kWithinAccuracyWords);
+    g.write(localized_name(grid), area, {ns}, region_units(grid), localized_words(grid)).label_dimensions({"size"});
+}
+
 void write_outline(const SizeQuantities& s, double size, const TargetGrid& grid,
                    std::vector<double>& u, std::vector<double>& v, std::vector<double>& xyz,
                    std::vector<double>& sizes, std::vector<std::int32_t>& ring, std::vector<std::uint8_t>& hole,
@@ -130,6 +171,8 @@ void write_layout(const H5Group& layouts, const LayoutQuantities& q, const Targe
         .label_dimensions({"size"})
         .set_fill_value(double(NAN));
 
+    if (q.localization_accuracy_m > 0) write_bound(g, q, grid);
+
     if (ou.empty()) return;  // detectable nowhere: no outline (and no dimension of length 0)
     index_coordinate(g, "outline_vertex", ou.size(), "vertex of the detectable region's outline");
     g.write("outline_u", ou, {ou.size()}, "m", "outline vertex: offset along u_direction").label_dimensions({"outline_vertex"});
@@ -148,7 +191,7 @@ void write_layout(const H5Group& layouts, const LayoutQuantities& q, const Targe
 void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuantities>& all, const TargetGrid& grid) {
     const H5Group g = root.group("layout_comparison");
     std::vector<std::string> names;
-    std::vector<double> area, range, drive_power, noise;
+    std::vector<double> area, range, drive_power, noise, localized;
     std::vector<std::int32_t> readings;
     for (const LayoutQuantities& q : all) {
         names.push_back(q.name);
@@ -162,6 +205,7 @@ void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuanti
         for (const SizeQuantities& s : q.sizes) {
             area.push_back(s.detectable_area_m2);
             range.push_back(s.detection_range_m);
+            localized.push_back(s.localizable_area_m2);
         }
     }
     g.write_label_coordinate("layout", names, "layout name");
@@ -178,6 +222,9 @@ void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuanti
     g.write("detection_range", range, {nl, ns}, "m", "largest distance from the hull at which the target is detectable")
         .label_dimensions({"layout", "size"})
         .set_fill_value(double(NAN));
+    if (!all.empty() && all.front().localization_accuracy_m > 0)
+        g.write(localized_name(grid), localized, {nl, ns}, region_units(grid), localized_words(grid))
+            .label_dimensions({"layout", "size"});
 }
 
 }  // namespace murk

@@ -2,7 +2,8 @@
 // The result file of `murk layout` (cases/RESULT_LAYOUT.md, "murk layout"): one group
 // per layout, /layouts/<name>, with the readings' baseline, the drives, the
 // sensitivity map, the baseline field and per target size the reading change, d',
-// P_D, the detectable area, range and outline; and /layout_comparison, one row per
+// P_D, the detectable area, range and outline (and, when asked for, the bound on the
+// target's position); and /layout_comparison, one row per
 // layout, which `murk inspect` prints.
 #include "cases/layout/layout_quantities.hpp"
 #include "cases/layout/target_grid.hpp"
@@ -18,5 +19,7 @@ void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuanti
 // The words of the ElectrodePart codes, in code order (CF flag_meanings).
 inline constexpr const char* kElectrodePartWords = "emitter_current emitter_voltage sensor held_sensor reference";
 inline constexpr const char* kTargetStatusWords = "free blocked";
+inline constexpr const char* kLocalizationStatusWords = "ok ill_conditioned singular not_computed";
+inline constexpr const char* kWithinAccuracyWords = "outside within";
 
 }  // namespace murk

@@ -24,6 +24,22 @@ struct SizeQuantities {
     double detectable_area_m2 = 0;        // area (planar grid, m^2) or volume (3-D grid, m^3) of the detectable cells
     double detection_range_m = NAN;       // largest clearance to the hull of a detectable point
     std::vector<OutlineRing> outline;     // the detectable region, in grid offsets (planar grids only)
+    // Cramer-Rao bound on the target's position (layout_localization.hpp); empty unless
+    // [detection] gives localization_accuracy.
+    std::vector<std::uint8_t> bound_status;   // LocalizationStatus code per point
+    Eigen::Matrix3Xd position_sd;             // m: standard deviation along x, y, z; NaN where not computed
+    Eigen::Matrix3Xd semi_axes;               // m: error-ellipsoid semi-axes, descending; NaN where not computed
+    std::vector<std::uint8_t> within_accuracy;  // 1: the largest semi-axis is at most the accuracy
+    double localizable_area_m2 = 0;           // area (m^2) or volume (m^3) of the cells within the accuracy
+};
+
+// /layouts/<name>/localization_status: the first three codes are those of BoundStatus
+// (cases/design/localization_bound.hpp).
+enum class LocalizationStatus : std::uint8_t {
+    ok = 0,
+    ill_conditioned = 1,
+    singular = 2,
+    not_computed = 3,  // the target does not fit, or lies closer than kMinBoundClearance panel diameters
 };
 
 struct LayoutQuantities {
@@ -40,6 +56,7 @@ struct LayoutQuantities {
     NoiseModel noise;
     double channel_noise = 0;                 // rms noise of one reading (V or A)
     double false_alarm_probability = 0, probability_level = 0;
+    double localization_accuracy_m = 0;       // 0: no localization bound asked for
     std::vector<SizeQuantities> sizes;        // one per target size
     double factor_seconds = 0, map_seconds = 0;
 };

@@ -2,7 +2,8 @@
 # murk layout on the shipped three-layout example (cases/examples/robot_layouts.toml, coarse
 # panels: seconds): the result opens in xarray with both engines and every name in it is in
 # cases/RESULT_LAYOUT.md; murk inspect prints the comparison table; the baseline readings of a
-# one-layout case equal what murk solve computes for the same electrodes; bad input is one
+# one-layout case equal what murk solve computes for the same electrodes; the bound on the
+# target's position is finite where computed and shrinks tenfold with ten times less noise; bad input is one
 # line with exit status 2 and leaves no file behind.
 # Usage: layout_compare.sh MURK SOURCE_DIR
 set -uo pipefail
@@ -58,6 +59,71 @@ for name in names:
 print("ok   contents of the layout result")
 PY
 
+# The bound on the target's position ([detection] localization_accuracy in the example): finite
+# where the status is ok, NaN where not computed, within_accuracy as the longest semi-axis says.
+"$py" - "$dir/layouts.h5" <<'PY' || fail "position bound"
+import sys, h5py, numpy as np
+f = h5py.File(sys.argv[1], "r")
+cmp = f["layout_comparison"]
+for name in cmp.attrs["layout_names"].split(","):
+    g = f["layouts"][name]
+    ns, nu, nv = len(g["size"]), len(g["u"]), len(g["v"])
+    st = g["localization_status"]
+    words = st.attrs["flag_meanings"].split()
+    code = dict(zip(words, st.attrs["flag_values"]))
+    st = st[...]
+    sd, ax = g["position_sd"][...], g["error_semi_axes"][...]
+    assert sd.shape == (ns, nu, nv, 3) and ax.shape == (ns, nu, nv, 3), (sd.shape, ax.shape)
+    ok = st == code["ok"]
+    computed = st != code["not_computed"]
+    if len(g["reading"]) < 3:
+        # Fewer readings than the three coordinates: J = G^T C^-1 G has rank below 3 (common practice).
+        assert (st[computed] == code["singular"]).all() and np.isinf(sd[computed]).any(), name
+    else:
+        assert ok.sum() > 0, name
+    assert np.isfinite(sd[ok]).all() and (sd[ok] > 0).all() and np.isfinite(ax[ok]).all()
+    assert (np.diff(ax[ok], axis=-1) <= 0).all(), "semi-axes longest first"
+    # The ellipsoid's longest semi-axis bounds every coordinate's standard deviation.
+    assert (sd[ok].max(axis=-1) <= ax[ok][:, 0] * (1 + 1e-9)).all()
+    off = st == code["not_computed"]
+    assert np.isnan(sd[off]).all() and off[g["target_status"][...] == 1].all()
+    acc = g["localization_accuracy"][()]
+    within = g["within_accuracy"][...] == 1
+    assert (within == (ok | (st == code["ill_conditioned"])) & (ax[..., 0] <= acc)).all()
+    area = g["localizable_area"][...]
+    assert np.array_equal(area, cmp["localizable_area"][list(cmp.attrs["layout_names"].split(",")).index(name)])
+    assert ((area > 0) == within.any(axis=(1, 2))).all(), (name, area)
+print("ok   position bound: finite where ok, NaN where not computed, within the accuracy as its axes say")
+PY
+
+# Fisher information scales as 1/sigma^2 (Kay 1993, "Fundamentals of Statistical Signal
+# Processing, Vol. I", ch. 3; from memory), so ten times less noise bounds the position ten
+# times tighter: the example again with every noise density divided by 10.
+sed -e 's|^amplifier_noise = "30 nV/sqrt(Hz)"|amplifier_noise = "3 nV/sqrt(Hz)"|' \
+    -e 's|^noise = "2 pA/sqrt(Hz)"|noise = "0.2 pA/sqrt(Hz)"|' "$example" > "$dir/quiet.toml"
+[ "$(grep -c 'nV/sqrt(Hz)"\|pA/sqrt(Hz)"' "$dir/quiet.toml")" -eq 2 ] && grep -q '"3 nV' "$dir/quiet.toml" && grep -q '"0.2 pA' "$dir/quiet.toml" \
+  || { echo "could not write the quieter case"; exit 1; }
+"$murk" layout "$dir/quiet.toml" -o "$dir/quiet.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; fail "murk layout, less noise"; }
+"$py" - "$dir/layouts.h5" "$dir/quiet.h5" <<'PY' || fail "bound against noise"
+import sys, h5py, numpy as np
+a, b = h5py.File(sys.argv[1], "r"), h5py.File(sys.argv[2], "r")
+for name in a["layout_comparison"].attrs["layout_names"].split(","):
+    ga, gb = a["layouts"][name], b["layouts"][name]
+    assert np.isclose(ga["channel_noise"][()], 10 * gb["channel_noise"][()], rtol=1e-12)
+    st = ga["localization_status"][...]
+    assert np.array_equal(st, gb["localization_status"][...]), "the status does not depend on the noise level"
+    # Where the longest semi-axis exceeds 1 m (more than the grid) the least informed direction
+    # rests on information at rounding level (rings alone barely tell the azimuth about the
+    # hull axis), which does not scale with the noise: checked where the bound is meaningful.
+    ok = (st == 0) & (ga["error_semi_axes"][...][..., 0] < 1.0)
+    assert ok.any() or name != "ends_reference", name
+    for key in ("position_sd", "error_semi_axes"):
+        ratio = ga[key][...][ok] / gb[key][...][ok]
+        assert np.allclose(ratio, 10, rtol=1e-7), (name, key, ratio.min(), ratio.max())
+    assert (gb["localizable_area"][...] >= ga["localizable_area"][...]).all()
+print("ok   ten times less noise: standard deviations and semi-axes ten times smaller")
+PY
+
 # xarray, both engines: a value found by its coordinates equals the one h5py reads by index.
 "$py" - "$dir/layouts.h5" <<'PY' || fail "xarray selection by coordinates"
 import sys, warnings, h5py, numpy as np, xarray as xr
@@ -77,6 +143,14 @@ for engine in ("h5netcdf", "netcdf4"):
     c = xr.open_dataset(path, group="layout_comparison", engine=engine)
     assert list(c.layout.values) == ["ends_reference", "ends_pairs", "middle_held"], c.layout.values
     assert c.detectable_area.dims == ("layout", "size")
+    assert c.localizable_area.dims == ("layout", "size")
+    for name in ("ends_reference", "ends_pairs", "middle_held"):
+        ds = xr.open_dataset(path, group=f"layouts/{name}", engine=engine)
+        assert ds.position_sd.dims == ("size", "u", "v", "xyz"), ds.position_sd.dims
+        assert ds.error_semi_axes.dims == ("size", "u", "v", "semi_axis"), ds.error_semi_axes.dims
+        ok = (ds.localization_status == 0).values
+        assert (ok.any() or name == "ends_pairs") and np.isfinite(ds.position_sd.values[ok]).all(), (engine, name)
+        assert np.isfinite(ds.error_semi_axes.values[ok]).all() and ds.within_accuracy.dims == ("size", "u", "v")
 print("ok   xarray (h5netcdf, netcdf4) selects layout values by coordinates")
 PY
 
@@ -85,6 +159,7 @@ for name in ends_reference ends_pairs middle_held; do
   grep -q "^  $name " "$dir/inspect.txt" || fail "murk inspect shows no row for $name"
 done
 grep -q "layouts compared" "$dir/inspect.txt" && echo "ok   murk inspect prints the comparison table" || fail "murk inspect: no table"
+grep -q "localized, 10.0 mm" "$dir/inspect.txt" && echo "ok   murk inspect shows the localizable area" || fail "murk inspect: no localized column"
 
 # The plotting script draws the layouts side by side: one PNG of three columns
 # (4.2 x 5.4 inches per column at its 100 dots per inch, as plot_results.py sets).
@@ -160,10 +235,12 @@ bad() {  # bad NAME SED_EXPRESSION WORDS
     fail "$1: status $status, message: $(cat "$dir/err.txt")"
   fi
 }
-bad unknown_sensor 's/sensors = \["r1", "r2", "r3", "r4"\]/sensors = ["r1", "r9"]/' "no \[\[robot.electrode\]\] is named 'r9'"
+bad unknown_sensor 's/sensors = \["r1", "r2", "r3", "r4", "top", "side"\]/sensors = ["r1", "r9"]/' "no \[\[robot.electrode\]\] is named 'r9'"
 bad overlap 's/from = "-6 cm"/from = "-10 cm"/' "overlaps electrode 'r1'"
 bad no_grid '/^\[sweep.grid\]/,/^v = /d' "sweep.grid"
 bad wrong_noise '/^noise = /d' "give the layout its own noise"
+bad negative_accuracy 's/^localization_accuracy = .*/localization_accuracy = "-2 mm"/' "localization_accuracy: a positive length"
+bad time_accuracy 's/^localization_accuracy = .*/localization_accuracy = "3 s"/' "localization_accuracy"
 "$murk" layout "$example" -o "$dir/layouts.h5" --quiet 2> "$dir/err.txt"
 [ $? -eq 2 ] && grep -q "exists" "$dir/err.txt" && echo "ok   an existing result is kept without --force" || fail "existing result: $(cat "$dir/err.txt")"
 

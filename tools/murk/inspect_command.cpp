@@ -705,6 +705,12 @@ void print_layouts(const H5Group& root) {
     const std::vector<double> range = numbers(cmp.dataset("detection_range"));
     const std::vector<double> noise = numbers(cmp.dataset("channel_noise"));
     const H5Array<std::int32_t> readings = cmp.dataset("readings").read<std::int32_t>();
+    // Present when the case gave [detection] localization_accuracy.
+    const char* localized_name = volume ? "localizable_volume" : "localizable_area";
+    const bool localized = cmp.exists(localized_name);
+    const std::vector<double> within = localized ? numbers(cmp.dataset(localized_name)) : std::vector<double>{};
+    if (localized && within.size() != names.size() * sizes.size())
+        malformed(cmp.dataset(localized_name), "does not hold one value per layout and size");
     if (power.size() != names.size() || area.size() != names.size() * sizes.size() || range.size() != area.size() ||
         readings.values.size() != names.size() || noise.size() != names.size())
         malformed(cmp.dataset("detection_range"), "does not hold one value per layout and size");
@@ -713,6 +719,7 @@ void print_layouts(const H5Group& root) {
     for (double s : sizes) {
         head.push_back((volume ? "volume, " : "area, ") + millimetres(s));
         head.push_back("range, " + millimetres(s));
+        if (localized) head.push_back("localized, " + millimetres(s));
     }
     Table table(head);
     for (std::size_t l = 0; l < names.size(); ++l) {
@@ -725,6 +732,8 @@ void print_layouts(const H5Group& root) {
             row.push_back(volume ? format("%.4g cm3", a * 1e6) : format("%.4g cm2", a * 1e4));
             const double r = range[l * sizes.size() + k];
             row.push_back(std::isfinite(r) ? millimetres(r) : "not detectable");
+            const auto in_units = [&](double a) { return volume ? format("%.4g cm3", a * 1e6) : format("%.4g cm2", a * 1e4); };
+            if (localized) row.push_back(in_units(within[l * sizes.size() + k]));
         }
         table.add(row);
     }

@@ -1,0 +1,167 @@
+// murk layout's bound on the target's position: what the result file holds at one grid point
+// against the Cramér-Rao bound worked out here from a finite-difference gradient of the
+// dipole model's reading changes, and the masking of points the bound does not trust.
+#include "cases/design/localization_bound.hpp"
+#include "cases/input/case_reader.hpp"
+#include "cases/layout/layout_evaluation.hpp"
+#include "cases/layout/layout_localization.hpp"
+#include "cases/layout/layout_readout.hpp"
+#include "cases/layout/layout_run.hpp"
+#include "cases/layout/target_grid.hpp"
+#include "cases/output/hdf5_file.hpp"
+#include "cases/scene/scene_builder.hpp"
+#include "solver/target_derivatives.hpp"
+
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <filesystem>
+#include <string>
+
+using namespace murk;
+namespace fs = std::filesystem;
+
+namespace {
+
+// A 40 cm capsule at a coarse 3 cm panel size, read by two rings and two patches (rings
+// alone, being axially symmetric, cannot tell where around the axis the target is: their
+// bound is singular); the grid lies 16-20 cm from its axis, more
+// than kMinBoundClearance panel diameters from every panel, except one row close to the hull.
+const std::string kCase = R"toml(title = "t"
+[water]
+conductivity = "200 uS/cm"
+[mesh]
+panel_size = "3 cm"
+[robot]
+shape = "capsule"
+radius = "2.5 cm"
+overall_length = "40 cm"
+[[robot.electrode]]
+name = "nose"
+form = "ring"
+from = "14 cm"
+to = "18 cm"
+[[robot.electrode]]
+name = "tail"
+form = "ring"
+from = "-18 cm"
+to = "-14 cm"
+[[robot.electrode]]
+name = "a"
+form = "ring"
+from = "-10 cm"
+to = "-7 cm"
+[[robot.electrode]]
+name = "b"
+form = "ring"
+from = "7 cm"
+to = "10 cm"
+[[robot.electrode]]
+name = "top"
+form = "patch"
+at = ["4.25 cm", "0 cm", "2.5 cm"]
+radius = "1.5 cm"
+[[robot.electrode]]
+name = "side"
+form = "patch"
+at = ["-4.25 cm", "2.5 cm", "0 cm"]
+radius = "1.5 cm"
+[[robot.electrode]]
+name = "mid"
+form = "ring"
+from = "-1.5 cm"
+to = "1.5 cm"
+[[layout]]
+name = "ref"
+emitters = [{ electrode = "nose", current = "50 uA" }, { electrode = "tail", current = "-50 uA" }]
+read = "reference"
+sensors = ["a", "b", "top", "side"]
+reference = "mid"
+[[object]]
+name = "target"
+shape = "sphere"
+radius = "1 cm"
+position = ["0 cm", "8 cm", "0 cm"]
+conductivity = "conductor"
+[sweep]
+object = "target"
+[sweep.grid]
+origin = ["0 cm", "0 cm", "1 cm"]
+u_direction = [1, 0, 0]
+v_direction = [0, 1, 0]
+u = { from = "-6 cm", to = "6 cm", count = 2 }
+v = { from = "5 cm", to = "20 cm", count = 2 }
+[detection]
+amplifier_noise = "30 nV/sqrt(Hz)"
+integration_time = "2 ms"
+localization_accuracy = "5 mm"
+)toml";
+
+}  // namespace
+
+// The bound is the Cramér-Rao bound J^-1, J = G^T C^-1 G (Kay 1993, "Fundamentals of
+// Statistical Signal Processing, Vol. I: Estimation Theory", ch. 3). Here G is formed by
+// central differences of the dipole model's reading changes (common practice; step 0.1 mm
+// against a 16 cm distance: truncation ~(h/r)^2 ~ 1e-7), not by target_response's gradient.
+TEST_CASE("layout localization: the written bound equals the bound from a finite-difference gradient") {
+    const fs::path dir = fs::temp_directory_path() / "murk_test_layout_localization";
+    fs::create_directories(dir);
+    const std::string path = (dir / "bound.h5").string();
+    fs::remove(path);
+    const CaseSpec spec = read_case_text(kCase, "case.toml");
+    LayoutOptions options;
+    options.output_path = path;
+    options.quiet = true;
+    run_layouts(spec, options);
+
+    const H5File file = H5File::open_readonly(path);
+    const H5Group g = file.root().open_group("layouts/ref");
+    const H5Array<double> sd = g.read<double>("position_sd");
+    const H5Array<double> axes = g.read<double>("error_semi_axes");
+    const H5Array<std::uint8_t> status = g.read<std::uint8_t>("localization_status");
+    const double rms = g.read<double>("channel_noise").values.at(0);
+    REQUIRE(sd.shape == H5Shape{1, 2, 2, 3});
+    REQUIRE(status.values.size() == 4);
+
+    // Grid point (u = 6 cm, v = 20 cm): flat index 1 * 2 + 1.
+    const std::size_t j = 3;
+    REQUIRE(status.values[j] == static_cast<std::uint8_t>(LocalizationStatus::ok));
+    const TargetGrid grid = target_grid(spec);
+    const Eigen::Vector3d x = grid.points.col(static_cast<Eigen::Index>(j));
+    CHECK(x.isApprox(Eigen::Vector3d(0.06, 0.20, 0.01)));
+
+    const FixedPart<double> fixed(build_scene<double>(layout_fixed_case(spec, 0, grid), true), QuadratureOptions{});
+    const LayoutReadout readout = layout_readout(spec.layouts[0], fixed);
+    const LeadFields<double> lead(fixed, readout.rows);
+    const double h = 1e-4;
+    Eigen::MatrixXd G(readout.rows.rows(), 3);
+    for (int k = 0; k < 3; ++k) {
+        Eigen::Matrix3Xd pm(3, 2);
+        pm.col(0) = x + h * Eigen::Vector3d::Unit(k);
+        pm.col(1) = x - h * Eigen::Vector3d::Unit(k);
+        const TargetResponse<double> r = target_response(lead, pm, Eigen::Matrix3d(grid.polarization[0]));
+        G.col(k) = (r.change.col(0) - r.change.col(1)) / (2 * h);
+    }
+    const Eigen::VectorXd noise = Eigen::VectorXd::Constant(G.rows(), rms);
+    BoundOptions bo;
+    bo.position_parameters = 3;
+    const LocalizationBound want = localization_bound(fisher_information_independent(G, noise), bo);
+    REQUIRE(want.status == BoundStatus::ok);
+    for (int k = 0; k < 3; ++k) {
+        CAPTURE(k);
+        const double got_sd = sd.values[3 * j + static_cast<std::size_t>(k)];
+        const double got_axis = axes.values[3 * j + static_cast<std::size_t>(k)];
+        CHECK(std::isfinite(got_sd));
+        CHECK(std::abs(got_sd - want.standard_deviation(k)) <= 1e-4 * want.standard_deviation(k));
+        CHECK(std::abs(got_axis - want.semi_axes(k)) <= 1e-4 * want.semi_axes(k));
+    }
+
+    // The row 5 cm from the axis (2.5 cm from the hull) is closer than kMinBoundClearance
+    // panel diameters: not computed, NaN (the fill value) in the maps.
+    for (std::size_t near : {std::size_t(0), std::size_t(2)}) {
+        CAPTURE(near);
+        CHECK(status.values[near] == static_cast<std::uint8_t>(LocalizationStatus::not_computed));
+        CHECK(std::isnan(sd.values[3 * near]));
+    }
+    fs::remove(path);
+}
