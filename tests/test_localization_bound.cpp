@@ -182,6 +182,22 @@ TEST_CASE("localization bound: singular and ill-conditioned information are flag
         CHECK(std::isfinite(b.standard_deviation(0)));
         CHECK(b.standard_deviation(0) > 1e3 * 1e-3);  // barely informed: far beyond the noise scale
     }
+    SUBCASE("a direction along a coordinate axis informed far less than the others") {
+        // The diagonal scaling makes this J's scaled condition number 1, yet z is informed
+        // 1e30 times less than x and y, all three in metres: not a bound worth a number.
+        const Eigen::Vector3d d(1e6, 1e6, 1e-24);
+        const LocalizationBound flat = localization_bound(Eigen::MatrixXd(d.asDiagonal()));
+        CHECK(flat.status == BoundStatus::singular);
+        CHECK(std::isinf(flat.semi_axes(0)));
+        CHECK_FALSE(has_nan(flat.axes));
+        // 1e10 less: finite, but flagged; the semi-axes are the exact 1/sqrt(J_ii).
+        const Eigen::Vector3d e(1e6, 1e6, 1e-4);
+        const LocalizationBound weak = localization_bound(Eigen::MatrixXd(e.asDiagonal()));
+        CHECK(weak.status == BoundStatus::ill_conditioned);
+        CHECK(weak.condition == doctest::Approx(1e10));
+        CHECK(weak.semi_axes(0) == doctest::Approx(100.0));
+        CHECK(weak.semi_axes(2) == doctest::Approx(1e-3));
+    }
     SUBCASE("bad input is an InputError") {
         Eigen::MatrixXd g = Eigen::MatrixXd::Identity(3, 3);
         CHECK_THROWS_AS(fisher_information_independent(g, Eigen::VectorXd::Zero(3)), InputError);

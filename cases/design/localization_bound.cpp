@@ -8,6 +8,7 @@
 #include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>
 #include <Eigen/SVD>
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -96,7 +97,25 @@ LocalizationBound localization_bound(const Eigen::MatrixXd& information, const B
     const Eigen::MatrixXd b =
         (s.asDiagonal() * v * eig.eigenvalues().cwiseSqrt().cwiseInverse().asDiagonal()).topRows(np);
     const Eigen::JacobiSVD<Eigen::MatrixXd, Eigen::FullPivHouseholderQRPreconditioner> svd(b, Eigen::ComputeFullU);
-    out.semi_axes = svd.singularValues();  // descending
+    // Within the position block every parameter is a length, so the block's own spread
+    // means something whatever the scaling above: a direction informed (a_max/a_min)^2
+    // times less than another, when it lies along a coordinate axis, leaves the scaled
+    // condition number near 1 (measured: 1e19 m semi-axes beside millimetres, marked ok).
+    // So the condition is the larger of the two, and a spread beyond rounding is singular.
+    const Eigen::VectorXd a = svd.singularValues();  // descending
+    const double spread = a(np - 1) > 0 ? (a(0) / a(np - 1)) * (a(0) / a(np - 1)) : kInf;
+    if (!(spread * 64 * std::numeric_limits<double>::epsilon() * double(np) < 1)) {
+        LocalizationBound singular;
+        singular.covariance = out.covariance.setConstant(kInf);
+        singular.standard_deviation = out.standard_deviation.setConstant(kInf);
+        singular.semi_axes = Eigen::VectorXd::Constant(np, kInf);
+        singular.axes = out.axes;  // the fallback: the position block of J, least informed last
+        singular.condition = kInf;
+        return singular;
+    }
+    out.condition = std::max(out.condition, spread);
+    out.status = out.condition > options.max_condition ? BoundStatus::ill_conditioned : BoundStatus::ok;
+    out.semi_axes = a;
     out.axes = svd.matrixU();
     return out;
 }
