@@ -117,9 +117,9 @@ cd "$dir" || exit 1
 
 # ---- the case, and the single-process run to compare with (in the background
 # while the daemons start)
-sed -e 's/^panel_size = "8 mm".*/panel_size = "6 mm"/' -e 's/count = 9 }/count = 17 }/' -e 's/count = 5 }/count = 9 }/' \
+sed -e 's/^panel_size = "8 mm".*/panel_size = "6 mm"/' -e 's/count = 9 }/count = 33 }/' -e 's/count = 5 }/count = 9 }/' \
   "$src/cases/examples/fish_map.toml" > case.toml
-grep -q 'count = 17 }' case.toml && grep -q 'count = 9 }' case.toml && grep -q '^panel_size = "6 mm"' case.toml \
+grep -q 'count = 33 }' case.toml && grep -q 'count = 9 }' case.toml && grep -q '^panel_size = "6 mm"' case.toml \
   || cannot_start "the edit of cases/examples/fish_map.toml did not apply (its grid or panel size changed?)"
 "$murk" run case.toml -o whole.h5 --threads 1 --quiet 2> whole.err & whole_pid=$!
 
@@ -249,7 +249,10 @@ grep -q "TimeLimit=$(printf '%02d:%02d:00' $((limit / 60)) $((limit % 60))) " <<
 grep -q "CPUs/Task=1 " <<< "$show" || fail "task 1 does not have 1 CPU: $(grep -o 'CPUs/Task=[^ ]*' <<< "$show")"
 grep -q "Dependency=afterok:${array}_\*" <<< "$(scontrol show job "$merge")" || fail "the merge job does not wait for the array (afterok)"
 
-# ---- interrupt shares 1 and 2 once each has finished a few points
+# ---- interrupt shares 1 and 2 once each has finished a few points. murk commits
+# points in batches (up to 16) and a stopped share still finishes its batch, so
+# each share has about 100 points: several batches are left when it is stopped,
+# and it leaves a journal rather than, by a late stop, its whole part.
 run="$dir/run"
 for _ in $(seq 1 600); do
   a="$(points_in "$run/part-1.h5.partial")"; b="$(points_in "$run/part-2.h5.partial")"
@@ -266,11 +269,18 @@ refusal="$("$submit" --rerun "$run" 2>&1)"; status=$?
 { [ "$status" -eq 2 ] && grep -q "still in the queue" <<< "$refusal"; } \
   || fail "--rerun while the first submission is queued: status $status: $refusal"
 # A requeued job is held for about two minutes before it may start again; let it
-# start now.
-for _ in $(seq 1 120); do
+# start sooner, but only once slurmd has ended the first attempt and a clock
+# second has passed: slurmd revokes the job's credential when it ends the attempt
+# and refuses a launch whose credential is from the same second ("Job credential
+# revoked"), which fails the job. The two-minute hold is what keeps this from
+# happening on a real cluster.
+share1_id="$(scontrol show job "${array}_1" | sed -n 's/^ *JobId=\([0-9]*\).*/\1/p' | head -n 1)"
+released=""
+for _ in $(seq 1 240); do
   show="$(scontrol show job "${array}_1" 2> /dev/null)"
-  if grep -q "JobState=PENDING Reason=BeginTime" <<< "$show"; then
-    scontrol update jobid="${array}_1" StartTime=now 2> /dev/null
+  if [ -z "$released" ] && grep -q "JobState=PENDING Reason=BeginTime" <<< "$show" \
+     && grep -q "\[$share1_id.batch\] done with job" "$dir/log/slurmd.log" 2> /dev/null; then
+    scontrol update jobid="${array}_1" StartTime=now+2 2> /dev/null && released=yes
   elif grep -q "Restarts=[1-9]" <<< "$show" && grep -Eq "JobState=(RUNNING|COMPLETED) " <<< "$show"; then
     break  # restarted (right after the requeue it is still COMPLETING, then PENDING)
   fi
