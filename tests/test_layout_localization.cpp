@@ -118,9 +118,11 @@ TEST_CASE("layout localization: the written bound equals the bound from a finite
     const H5Group g = file.root().open_group("layouts/ref");
     const H5Array<double> sd = g.read<double>("position_sd");
     const H5Array<double> axes = g.read<double>("error_semi_axes");
+    const H5Array<double> directions = g.read<double>("error_axes");
     const H5Array<std::uint8_t> status = g.read<std::uint8_t>("localization_status");
     const double rms = g.read<double>("channel_noise").values.at(0);
     REQUIRE(sd.shape == H5Shape{1, 2, 2, 3});
+    REQUIRE(directions.shape == H5Shape{1, 2, 2, 3, 3});
     REQUIRE(status.values.size() == 4);
 
     // Grid point (u = 6 cm, v = 20 cm): flat index 1 * 2 + 1.
@@ -154,7 +156,15 @@ TEST_CASE("layout localization: the written bound equals the bound from a finite
         CHECK(std::isfinite(got_sd));
         CHECK(std::abs(got_sd - want.standard_deviation(k)) <= 1e-4 * want.standard_deviation(k));
         CHECK(std::abs(got_axis - want.semi_axes(k)) <= 1e-4 * want.semi_axes(k));
+        // The axis direction, up to its sign (an eigenvector's sign is arbitrary). The
+        // semi-axes here differ by far more than 1e-4, so each direction is well defined.
+        Eigen::Vector3d got_direction;
+        for (int i = 0; i < 3; ++i) got_direction(i) = directions.values[9 * j + 3 * static_cast<std::size_t>(k) + static_cast<std::size_t>(i)];
+        CHECK(std::abs(got_direction.norm() - 1) <= 1e-12);
+        CHECK(std::abs(std::abs(got_direction.dot(want.axes.col(k))) - 1) <= 1e-4);
     }
+    if (want.semi_axes(0) < 1.01 * want.semi_axes(1) || want.semi_axes(1) < 1.01 * want.semi_axes(2))
+        FAIL("semi-axes too close for the direction check: ", want.semi_axes.transpose());
 
     // The row 5 cm from the axis (2.5 cm from the hull) is closer than kMinBoundClearance
     // panel diameters: not computed, NaN (the fill value) in the maps.

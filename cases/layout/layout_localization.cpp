@@ -15,6 +15,7 @@ void localize_targets(SizeQuantities& s, const LeadFields<double>& lead, const E
     s.bound_status.assign(static_cast<std::size_t>(n), static_cast<std::uint8_t>(LocalizationStatus::not_computed));
     s.position_sd = Eigen::Matrix3Xd::Constant(3, n, NAN);
     s.semi_axes = Eigen::Matrix3Xd::Constant(3, n, NAN);
+    s.axes = Eigen::MatrixXd::Constant(9, n, NAN);
     s.within_accuracy.assign(static_cast<std::size_t>(n), 0);
 
     // Only where the target fits: elsewhere the point may lie inside the hull.
@@ -45,6 +46,7 @@ void localize_targets(SizeQuantities& s, const LeadFields<double>& lead, const E
         s.bound_status[jj] = static_cast<std::uint8_t>(map.status[k]);
         s.position_sd.col(j) = map.standard_deviation.col(c).head<3>();
         s.semi_axes.col(j) = map.semi_axes.col(c);
+        s.axes.col(j) = map.axes.col(c);  // column-major 3 x 3: semi-axis k's direction in rows 3k .. 3k+2
         s.within_accuracy[jj] = map.within_accuracy[k];
     }
 }

@@ -19,7 +19,7 @@ namespace murk {
 
 inline constexpr double kMinBoundClearance = 3.0;  // panel diameters (solver/target_derivatives.hpp)
 
-// Fills `s`'s bound_status, position_sd, semi_axes and within_accuracy (not the area)
+// Fills `s`'s bound_status, position_sd, semi_axes, axes and within_accuracy (not the area)
 // for a target of polarization M at `points`, `s.blocked` already set.
 void localize_targets(SizeQuantities& s, const LeadFields<double>& lead, const Eigen::Matrix3Xd& points,
                       const Eigen::Matrix3d& polarization, double channel_noise, double accuracy_m);

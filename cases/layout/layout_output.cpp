@@ -53,11 +53,12 @@ const char* localized_words(const TargetGrid& grid) {
 void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& grid) {
     const hsize_t ns = grid.size_m.size();
     const H5Layout packed = H5Layout::compressed(1);
-    std::vector<double> sd, axes, area;
+    std::vector<double> sd, axes, directions, area;
     std::vector<std::uint8_t> status, within;
     for (const SizeQuantities& s : q.sizes) {
         sd.insert(sd.end(), s.position_sd.data(), s.position_sd.data() + s.position_sd.size());
         axes.insert(axes.end(), s.semi_axes.data(), s.semi_axes.data() + s.semi_axes.size());
+        directions.insert(directions.end(), s.axes.data(), s.axes.data() + s.axes.size());
         status.insert(status.end(), s.bound_status.begin(), s.bound_status.end());
         within.insert(within.end(), s.within_accuracy.begin(), s.within_accuracy.end());
         area.push_back(s.localizable_area_m2);
@@ -75,6 +76,11 @@ void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& 
     g.write("error_semi_axes", axes, grid_shape(grid, {ns}, {3}), "m",
             "Cramer-Rao bound: semi-axes of the 1-standard-deviation error ellipsoid of the position", packed)
         .label_dimensions(grid_dims(grid, {"size"}, {"semi_axis"}))
+        .set_fill_value(double(NAN));
+    g.write("error_axes", directions, grid_shape(grid, {ns}, {3, 3}), "1",
+            "Cramer-Rao bound: unit direction (x, y, z) of each semi-axis of the error ellipsoid "
+            "(the sign of a direction is arbitrary)", packed)
+        .label_dimensions(grid_dims(grid, {"size"}, {"semi_axis", "xyz"}))
         .set_fill_value(double(NAN));
     g.write("within_accuracy", within, grid_shape(grid, {ns}, {}), "1",
             "whether the largest semi-axis is at most localization_accuracy", packed)

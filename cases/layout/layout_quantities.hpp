@@ -29,6 +29,8 @@ struct SizeQuantities {
     std::vector<std::uint8_t> bound_status;   // LocalizationStatus code per point
     Eigen::Matrix3Xd position_sd;             // m: standard deviation along x, y, z; NaN where not computed
     Eigen::Matrix3Xd semi_axes;               // m: error-ellipsoid semi-axes, descending; NaN where not computed
+    Eigen::MatrixXd axes;                     // 9 x points: per semi-axis its unit direction (x, y, z), in the
+                                              // order of semi_axes; NaN where not computed
     std::vector<std::uint8_t> within_accuracy;  // 1: the largest semi-axis is at most the accuracy
     double localizable_area_m2 = 0;           // area (m^2) or volume (m^3) of the cells within the accuracy
 };

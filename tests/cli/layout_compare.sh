@@ -90,6 +90,15 @@ for name in cmp.attrs["layout_names"].split(","):
     assert (np.diff(ax[ok], axis=-1) <= 0).all(), "semi-axes longest first"
     # The ellipsoid's longest semi-axis bounds every coordinate's standard deviation.
     assert (sd[ok].max(axis=-1) <= ax[ok][:, 0] * (1 + 1e-9)).all()
+    # The axes are orthonormal, and with the semi-axes they rebuild the covariance, whose
+    # diagonal is position_sd squared (the eigen-decomposition C = sum a^2 d d^T).
+    d = g["error_axes"][...]
+    assert d.shape == (ns, nu, nv, 3, 3), d.shape
+    dk = d[ok]
+    assert np.allclose(np.einsum("nki,nli->nkl", dk, dk), np.eye(3), atol=1e-9), "axes not orthonormal"
+    cov_diag = np.einsum("nk,nki->ni", ax[ok] ** 2, dk ** 2)
+    assert np.allclose(cov_diag, sd[ok] ** 2, rtol=1e-6), "axes and semi-axes do not rebuild position_sd"
+    assert np.isnan(d[st == code["not_computed"]]).all()
     off = st == code["not_computed"]
     assert np.isnan(sd[off]).all() and off[g["target_status"][...] == 1].all()
     acc = g["localization_accuracy"][()]
@@ -150,6 +159,7 @@ for engine in ("h5netcdf", "netcdf4"):
         ds = xr.open_dataset(path, group=f"layouts/{name}", engine=engine)
         assert ds.position_sd.dims == ("size", "u", "v", "xyz"), ds.position_sd.dims
         assert ds.error_semi_axes.dims == ("size", "u", "v", "semi_axis"), ds.error_semi_axes.dims
+        assert ds.error_axes.dims == ("size", "u", "v", "semi_axis", "xyz"), ds.error_axes.dims
         ok = (ds.localization_status == 0).values
         computed = (ds.localization_status != 3).values
         if name == "ends_reference":  # its two patches break the symmetry about the grid plane
