@@ -987,8 +987,11 @@ PART_COLOURS = {"emitter_current": "tab:red", "emitter_voltage": "tab:red", "sen
 
 
 def layout_sites(path):
-    """The ring sites of the case kept in the file (name -> (from, to) in m along the hull), or {}
-    when the case has none that can be drawn on the unrolled hull (patches, regions)."""
+    """The electrode sites of the case kept in the file, to draw on the unrolled hull: name ->
+    ("ring", from, to) in m along the hull, or ("patch", x, angle, radius) with the patch centre's
+    position along the hull (m), its angle around the axis (degrees from +y towards +z, -180 to
+    180) and its
+    radius (m); and the hull radius (m, or None). ({}, None) when the case cannot be read."""
     import h5py
     import tomllib
     with h5py.File(path, "r") as f:
@@ -997,16 +1000,23 @@ def layout_sites(path):
     try:
         case = tomllib.loads(text)
     except tomllib.TOMLDecodeError:
-        return {}
+        return {}, None
+    robot = case.get("robot", {})
+    try:
+        hull_radius = length_m(robot["radius"])
+    except (KeyError, ValueError):
+        hull_radius = None
     sites = {}
-    for e in case.get("robot", {}).get("electrode", []):
-        if e.get("form") != "ring":
-            continue
+    for e in robot.get("electrode", []):
         try:
-            sites[e["name"]] = (length_m(e["from"]), length_m(e["to"]))
-        except (KeyError, ValueError):
+            if e.get("form") == "ring":
+                sites[e["name"]] = ("ring", length_m(e["from"]), length_m(e["to"]))
+            elif e.get("form") == "patch":
+                x, y, z = (length_m(c) for c in e["at"])
+                sites[e["name"]] = ("patch", x, math.degrees(math.atan2(z, y)), length_m(e["radius"]))
+        except (KeyError, ValueError, TypeError):
             continue
-    return sites
+    return sites, hull_radius
 
 
 def length_m(text):
@@ -1020,20 +1030,27 @@ def length_m(text):
 
 def layout_maps(path, out_dir, stem):
     """One column per layout: its electrodes on the unrolled hull (rings as bands along the axis,
-    coloured by their part), and below it the detection probability of the largest target over
-    the grid with the detectable region's outline."""
+    patches as discs, coloured by their part), below it the detection probability of the largest
+    target over the grid with the detectable region's outline, and, when the file has the position
+    bound, the bound's longest semi-axis with the region within the accuracy."""
     import h5py
+    import matplotlib.patches
     import matplotlib.pyplot as plt
     import numpy as np
     with h5py.File(path, "r") as f:
         if "layouts" not in f:
             raise Skip("not a murk layout file")
         names = sorted(f["layouts"].keys())
-        sites = layout_sites(path)
-        fig, axes = plt.subplots(2, len(names), figsize=(4.2 * len(names), 5.4), dpi=DPI, squeeze=False,
-                                 gridspec_kw={"height_ratios": [1, 3]}, layout="constrained")
-        fig.suptitle("Electrode layouts on the unrolled hull (red emitter, blue sensor, green reference, grey unused) "
-                     "and the detection probability of the largest target")
+        sites, hull_radius = layout_sites(path)
+        bounds = all("error_semi_axes" in f["layouts"][n] for n in names)
+        rows = 3 if bounds else 2
+        fig, axes = plt.subplots(rows, len(names), figsize=(4.2 * len(names), 5.4 + 4.0 * (rows - 2)), dpi=DPI,
+                                 squeeze=False, gridspec_kw={"height_ratios": [1, 3, 3][:rows]}, layout="constrained")
+        fig.suptitle("Electrode layouts on the unrolled hull (red emitter, blue sensor, green reference, grey unused), "
+                     "the detection probability of the largest target"
+                     + (",\nand the bound on its position error (longest semi-axis; white: within the accuracy)"
+                        if bounds else ""))
+        bound_image, bound_norm = None, common_bound_norm(f, names) if bounds else None
         for col, name in enumerate(names):
             g = f["layouts"][name]
             top, ax = axes[0][col], axes[1][col]
@@ -1041,13 +1058,21 @@ def layout_maps(path, out_dir, stem):
                              g["electrode_part"][:]))
             meanings = g["electrode_part"].attrs["flag_meanings"]
             meanings = (meanings.decode() if isinstance(meanings, bytes) else meanings).split()
-            for site, (lo, hi) in sites.items():
+            for site, shape in sites.items():
                 part = meanings[parts[site]] if site in parts else None
-                top.axvspan(lo * 100, hi * 100, color=PART_COLOURS.get(part, "lightgrey"),
-                            alpha=1.0 if part else 0.5)
-                top.text((lo + hi) * 50, 180, site, ha="center", va="center", fontsize=7, rotation=90)
-            top.set_ylim(0, 360)
-            top.set_yticks([0, 180, 360])
+                colour, alpha = PART_COLOURS.get(part, "lightgrey"), 1.0 if part else 0.5
+                if shape[0] == "ring":
+                    lo, hi = shape[1], shape[2]
+                    top.axvspan(lo * 100, hi * 100, color=colour, alpha=alpha)
+                    top.text((lo + hi) * 50, 0, site, ha="center", va="center", fontsize=7, rotation=90)
+                else:  # a patch: a disc of its radius along the hull and, around it, of radius/hull radius
+                    _, x, angle, radius = shape
+                    height = math.degrees(2 * radius / hull_radius) if hull_radius else 20
+                    top.add_patch(matplotlib.patches.Ellipse((x * 100, angle), 2 * radius * 100, height,
+                                                             color=colour, alpha=alpha))
+                    top.text(x * 100, angle, site, ha="center", va="center", fontsize=6)
+            top.set_ylim(-180, 180)
+            top.set_yticks([-180, -90, 0, 90, 180])
             top.set_xlabel("along the hull (cm)")
             top.set_ylabel("around (deg)")
             top.set_title(name)
@@ -1066,8 +1091,63 @@ def layout_maps(path, out_dir, stem):
             ax.set_xlabel("u (cm)")
             ax.set_ylabel("v (cm)")
             ax.set_title(f"size {sizes[k] * 1000:g} mm, area {g['detectable_area'][k] * 1e4:.0f} cm²", fontsize=9)
+            if bounds:
+                bound_image = position_bound_map(axes[2][col], g, k, u, v, bound_norm) or bound_image
         fig.colorbar(image, ax=axes[1, :].tolist(), location="bottom", shrink=0.5, label="detection probability")
+        if bound_image is not None:
+            fig.colorbar(bound_image, ax=axes[2, :].tolist(), location="bottom", shrink=0.5, extend="max",
+                         label="longest semi-axis of the position error (mm), log scale")
     return [save(fig, os.path.join(out_dir, f"{stem}_layouts.png"))]
+
+
+def common_bound_norm(f, names):
+    """One log colour scale (mm) for the bound maps of every layout: from the smallest finite
+    longest semi-axis of the largest target to at most 100 times the accuracy (an ill-conditioned
+    point's bound can be metres; beyond the scale it takes the end colour)."""
+    import matplotlib.colors
+    import numpy as np
+    values, accuracy = [], None
+    for name in names:
+        g = f["layouts"][name]
+        k = int(np.argmax(g["size"][:]))
+        longest = g["error_semi_axes"][k][..., 0] * 1e3
+        values.append(longest[np.isfinite(longest) & (longest > 0)])
+        accuracy = float(g["localization_accuracy"][()]) * 1e3
+    values = np.concatenate(values)
+    if values.size == 0:
+        return None
+    lo = values.min()
+    hi = min(values.max(), 100 * accuracy) if accuracy else values.max()
+    return matplotlib.colors.LogNorm(vmin=lo, vmax=max(hi, lo * 1.01))
+
+
+def position_bound_map(ax, g, k, u, v, norm):
+    """The Cramer-Rao bound's longest semi-axis (mm) of size k over the grid on the colour scale
+    `norm`, grey where it is not computed or unbounded, with the cells within the accuracy
+    outlined in white. Returns the image (None when no point has a finite bound)."""
+    import numpy as np
+    longest = g["error_semi_axes"][k][..., 0] * 1e3
+    finite = np.isfinite(longest) & (longest > 0)
+    ax.set_facecolor("0.8")
+    ax.set_aspect("equal")
+    step_u = (u[1] - u[0]) / 2 if len(u) > 1 else 1
+    step_v = (v[1] - v[0]) / 2 if len(v) > 1 else 1
+    ax.set_xlim(u[0] - step_u, u[-1] + step_u)
+    ax.set_ylim(v[0] - step_v, v[-1] + step_v)
+    ax.set_xlabel("u (cm)")
+    ax.set_ylabel("v (cm)")
+    accuracy = float(g["localization_accuracy"][()]) * 1e3
+    area = g["localizable_area"][k] * 1e4 if "localizable_area" in g else float("nan")
+    ax.set_title(f"position bound, accuracy {accuracy:g} mm: {area:.0f} cm² within", fontsize=9)
+    if not finite.any() or norm is None:
+        ax.text(0.5, 0.5, "no finite bound\n(some direction not informed)", transform=ax.transAxes,
+                ha="center", va="center", fontsize=9)
+        return None
+    image = ax.pcolormesh(u, v, np.where(finite, longest, np.nan).T, norm=norm, cmap="magma_r", shading="nearest")
+    within = g["within_accuracy"][k] == 1
+    if within.any() and len(u) > 1 and len(v) > 1:
+        ax.contour(u, v, within.T.astype(float), levels=[0.5], colors="white", linewidths=1.2)
+    return image
 
 
 # ------------------------------------------------------------------ driver

@@ -180,8 +180,9 @@ done
 grep -q "layouts compared" "$dir/inspect.txt" && echo "ok   murk inspect prints the comparison table" || fail "murk inspect: no table"
 grep -q "localized, 10.0 mm" "$dir/inspect.txt" && echo "ok   murk inspect shows the localizable area" || fail "murk inspect: no localized column"
 
-# The plotting script draws the layouts side by side: one PNG of three columns
-# (4.2 x 5.4 inches per column at its 100 dots per inch, as plot_results.py sets).
+# The plotting script draws the layouts side by side: one PNG of three columns and,
+# as the example asks for the position bound, three rows (4.2 inches per column,
+# 5.4 + 4.0 inches high, at its 100 dots per inch, as plot_results.py sets).
 "$py" "$src/tools/plot_results.py" "$dir/layouts.h5" -o "$dir" > "$dir/plot.txt" 2>&1 \
   || { cat "$dir/plot.txt"; fail "plot_results.py on the layout file"; }
 "$py" - "$dir/layouts_layouts.png" <<'PY' || fail "layout figure"
@@ -189,7 +190,7 @@ import struct, sys
 data = open(sys.argv[1], "rb").read(32)
 assert data[:8] == b"\x89PNG\r\n\x1a\n", "not a PNG"
 w, h = struct.unpack(">II", data[16:24])  # IHDR, the first chunk (PNG specification, 11.2.2)
-assert (w, h) == (1260, 540), f"{w} x {h} pixels, expected 1260 x 540"
+assert (w, h) == (1260, 940), f"{w} x {h} pixels, expected 1260 x 940"
 PY
 echo "ok   plot_results.py draws the three layouts side by side"
 
