@@ -31,7 +31,7 @@ LayoutRun evaluate_layouts(const CaseSpec& spec, const QuadratureOptions& quad, 
                                      "capacitance at a frequency (leave them out to compare layouts)");
     for (const LayoutSpec& l : spec.layouts) layout_noise(spec, l);  // every refusal before any solve
     LayoutRun run;
-    run.grid = target_grid(spec);                                // 1. targets
+    run.grid = target_grid(spec, quad);                          // 1. targets
     const TargetPlacement placement = place_targets(spec, run.grid);  // 2. placed against the hull
     for (std::size_t k = 0; k < spec.layouts.size(); ++k) {      // 3. layouts
         run.layouts.push_back(evaluate_layout(spec, k, run.grid, placement, quad));

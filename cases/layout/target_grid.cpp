@@ -1,10 +1,9 @@
 #include "cases/layout/target_grid.hpp"
 
 #include "cases/input/case_limits.hpp"
-#include "cases/scene/scene_builder.hpp"
+#include "cases/sweep/moving_object.hpp"
+#include "cases/sweep/sweep_plan.hpp"
 #include "geometry/input_error.hpp"
-#include "geometry/message_text.hpp"
-#include "solver/polarization.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -18,19 +17,28 @@ std::string sweep_where(const CaseSpec& spec, const std::string& key) {
     return spec.path + (line > 0 ? ":" + std::to_string(line) : std::string()) + ": " + key;
 }
 
-// The semi-axes (hull frame of the object) of a target of the given size.
-Eigen::Vector3d semi_axes_at(const ObjectSpec& o, double size) {
-    Eigen::Vector3d a;
-    switch (o.shape.kind) {
-        case ShapeKind::sphere: a = Eigen::Vector3d::Constant(o.shape.radius_m); break;
-        default: a = Eigen::Vector3d(o.shape.semi_axes_m[0], o.shape.semi_axes_m[1], o.shape.semi_axes_m[2]); break;
+// The target at each size of the grid, as the sweep's dipole path has it: the object
+// meshed once per size in its own frame (turned by its orientation) and its tensor,
+// in closed form or by boundary elements. The sweep without its grid (which the sweep
+// plan would take for point axes) keeps only the size axis.
+void target_forms(const CaseSpec& spec, const QuadratureOptions& quad, TargetGrid& g) {
+    CaseSpec sizes_only = spec;
+    sizes_only.sweep->grid.reset();
+    const SweepPlan plan = plan_sweep(sizes_only);
+    const MovingObjects<double> objects(spec, plan);
+    const int size_axis = plan.axis(AxisKind::size);
+    std::vector<std::size_t> index(plan.axes.size(), 0);
+    for (std::size_t z = 0; z < g.size_m.size(); ++z) {
+        if (size_axis >= 0) index[static_cast<std::size_t>(size_axis)] = z;
+        const MovingObject<double>& form = objects.at(index);
+        g.polarization.push_back(objects.tensor(form, quad));
+        g.reach_m.push_back(form.shape->half_extent);
     }
-    return a * (size / a.maxCoeff());
 }
 
 }  // namespace
 
-TargetGrid target_grid(const CaseSpec& spec) {
+TargetGrid target_grid(const CaseSpec& spec, const QuadratureOptions& quad) {
     if (!spec.sweep || !spec.sweep->grid)
         throw InputError(sweep_where(spec, spec.sweep ? "sweep.grid" : "sweep") +
                          ": murk layout needs a [sweep] with a [sweep.grid] of target positions");
@@ -43,11 +51,6 @@ TargetGrid target_grid(const CaseSpec& spec) {
     const std::string name = s.object.empty() ? spec.objects.front().name : s.object;
     const auto it = std::find_if(spec.objects.begin(), spec.objects.end(), [&](const ObjectSpec& o) { return o.name == name; });
     const ObjectSpec& o = *it;  // the reader checked the name
-    if (o.shape.kind != ShapeKind::sphere && o.shape.kind != ShapeKind::spheroid && o.shape.kind != ShapeKind::ellipsoid)
-        throw InputError(o.source.where() + ".shape: murk layout's target is a sphere, spheroid or ellipsoid (its "
-                                            "polarization is known in closed form)");
-    if (o.membrane)
-        throw InputError(o.source.where() + ".membrane_resistance: murk layout's target has no membrane");
 
     TargetGrid g;
     g.object = name;
@@ -76,19 +79,8 @@ TargetGrid target_grid(const CaseSpec& spec) {
                     g.origin + g.u_m[i] * g.u_direction + g.v_m[j] * g.v_direction +
                     (g.planar() ? 0.0 : g.w_m[l]) * g.w_direction;
 
-    const double own_size = o.shape.kind == ShapeKind::sphere ? o.shape.radius_m
-                                                              : std::max({o.shape.semi_axes_m[0], o.shape.semi_axes_m[1],
-                                                                          o.shape.semi_axes_m[2]});
-    g.size_m = s.size_m.empty() ? std::vector<double>{own_size} : s.size_m;
-    const Eigen::Matrix3d axes = orientation_matrix(o.orientation);
-    const double water = spec.water.conductivity_S_per_m;
-    for (double size : g.size_m) {
-        const Eigen::Vector3d a = semi_axes_at(o, size);
-        if (o.material == Material::conductor) g.polarization.push_back(conducting_ellipsoid_polarization(a, axes));
-        else
-            g.polarization.push_back(ellipsoid_polarization<double>(
-                a, axes, o.material == Material::insulator ? 0.0 : o.conductivity_S_per_m, water));
-    }
+    g.size_m = s.size_m.empty() ? std::vector<double>{shape_size(o.shape)} : s.size_m;
+    target_forms(spec, quad, g);
     return g;
 }
 

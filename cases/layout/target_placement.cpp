@@ -21,7 +21,7 @@ TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid) {
     const Scene<double> scene = build_scene<double>(sites, true);
     TargetPlacement p;
     p.clearance_m = clearance_of_points(grid, scene);
-    for (double size : grid.size_m) p.blocked.push_back(blocked_points(grid, scene, size));
+    for (double reach : grid.reach_m) p.blocked.push_back(blocked_points(grid, scene, reach));
     return p;
 }
 

@@ -21,7 +21,7 @@ struct TargetPlacement {
 // whichever layouts use them; the target object is left out.
 TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid);
 
-// Whether a target of radius `reach` (m) centred at each grid point would touch, enter or
+// Whether a target reaching `reach` (m, TargetGrid::reach_m) from its centre, centred at each grid point would touch, enter or
 // enclose a surface of `scene` or reach the insulating plane: closer than reach plus
 // kMinGapInPanels panel sizes of the surface (cases/scene/scene_rules.hpp). 1 = blocked.
 std::vector<std::uint8_t> blocked_points(const TargetGrid& grid, const Scene<double>& scene, double reach);

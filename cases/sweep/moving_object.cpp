@@ -10,10 +10,7 @@
 
 namespace murk {
 
-namespace {
-
-// Largest half-extent of a shape: the length the size axis sets.
-double size_of(const ShapeSpec& s) {
+double shape_size(const ShapeSpec& s) {
     switch (s.kind) {
         case ShapeKind::sphere: return s.radius_m;
         case ShapeKind::spheroid:
@@ -29,6 +26,8 @@ double size_of(const ShapeSpec& s) {
     }
     return 0.0;
 }
+
+namespace {
 
 void scale_shape(ShapeSpec& s, double factor) {
     s.radius_m *= factor;
@@ -92,7 +91,7 @@ MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : p
                          std::to_string(kMaxForms) + "; split it into several runs");
     for (std::size_t m : plan.moving) {
         const ObjectSpec& original = spec.objects[m];
-        const double original_size = size_axis >= 0 ? size_of(original.shape) : 0.0;
+        const double original_size = size_axis >= 0 ? shape_size(original.shape) : 0.0;
         for (std::size_t z = 0; z < sizes_; ++z) {
             auto shape = std::make_unique<ObjectShape>();
             shape->spec = original;

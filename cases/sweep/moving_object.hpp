@@ -18,6 +18,10 @@
 
 namespace murk {
 
+// Largest half-extent of a shape: the length the size axis sets (cases/README.md,
+// [sweep] size). An imported mesh is read for its bounding box.
+double shape_size(const ShapeSpec& shape);
+
 // One shape and size of a moving object, meshed once.
 struct ObjectShape {
     ObjectSpec spec;   // resized, its reference point at the origin, material as the case gives it
