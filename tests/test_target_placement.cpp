@@ -127,9 +127,9 @@ TEST_CASE("target grid: any shape of target, its tensor by boundary elements (a 
     const TargetGrid g = target_grid(read_case_text(text, "case.toml"));
     REQUIRE(g.polarization.size() == 1);
     // The normalized polarizability of a perfectly conducting cube, alpha / volume = 3.6442
-    // in the units where a sphere's is 3 (p = alpha E, our M; Mansfield, Douglas & Garboczi
-    // 2001, "Intrinsic viscosity and the electrical polarizability of arbitrarily shaped
-    // objects", Phys. Rev. E 64, 061401; the digits from memory). A flat-panel mesh of the
+    // in the units where a sphere's is 3 (p = alpha E, our M; Sihvola, Yla-Oijala, Jarvenpaa &
+    // Avelin 2004, "Polarizabilities of Platonic solids", IEEE Trans. Antennas Propag. 52:2226,
+    // the limit of infinite permittivity; the digits from memory). A flat-panel mesh of the
     // cube has the exact shape; 8 x 8 squares a face leave the edge singularities coarse.
     const double volume = 0.02 * 0.02 * 0.02;
     const Eigen::Matrix3d& m = g.polarization[0];
