@@ -97,6 +97,32 @@ integration_time = "2 ms"
 localization_accuracy = "5 mm"
 )toml";
 
+// Central differences (step h = 0.1 mm) of the dipole model's reading changes at x with
+// respect to x, y, z and, given `sizes` (the case with two target sizes a - h_a and a + h_a),
+// the size: reading changes with the closed-form tensors at those two sizes.
+Eigen::MatrixXd finite_difference_gradient(const CaseSpec& spec, const TargetGrid& grid, const Eigen::Vector3d& x,
+                                           const TargetGrid* sizes = nullptr) {
+    const FixedPart<double> fixed(build_scene<double>(layout_fixed_case(spec, 0, grid), true), QuadratureOptions{});
+    const LayoutReadout readout = layout_readout(spec.layouts[0], fixed);
+    const LeadFields<double> lead(fixed, readout.rows);
+    const double h = 1e-4;
+    Eigen::MatrixXd G(readout.rows.rows(), sizes ? 4 : 3);
+    for (int k = 0; k < 3; ++k) {
+        Eigen::Matrix3Xd pm(3, 2);
+        pm.col(0) = x + h * Eigen::Vector3d::Unit(k);
+        pm.col(1) = x - h * Eigen::Vector3d::Unit(k);
+        const TargetResponse<double> r = target_response(lead, pm, Eigen::Matrix3d(grid.polarization[0]));
+        G.col(k) = (r.change.col(0) - r.change.col(1)) / (2 * h);
+    }
+    if (sizes) {
+        const Eigen::Matrix3Xd at = x;
+        const double step = sizes->size_m[1] - sizes->size_m[0];
+        G.col(3) = (target_response(lead, at, Eigen::Matrix3d(sizes->polarization[1])).change.col(0) -
+                    target_response(lead, at, Eigen::Matrix3d(sizes->polarization[0])).change.col(0)) / step;
+    }
+    return G;
+}
+
 }  // namespace
 
 // The bound is the Cramér-Rao bound J^-1, J = G^T C^-1 G (Kay 1993, "Fundamentals of
@@ -132,18 +158,7 @@ TEST_CASE("layout localization: the written bound equals the bound from a finite
     const Eigen::Vector3d x = grid.points.col(static_cast<Eigen::Index>(j));
     CHECK(x.isApprox(Eigen::Vector3d(0.06, 0.20, 0.01)));
 
-    const FixedPart<double> fixed(build_scene<double>(layout_fixed_case(spec, 0, grid), true), QuadratureOptions{});
-    const LayoutReadout readout = layout_readout(spec.layouts[0], fixed);
-    const LeadFields<double> lead(fixed, readout.rows);
-    const double h = 1e-4;
-    Eigen::MatrixXd G(readout.rows.rows(), 3);
-    for (int k = 0; k < 3; ++k) {
-        Eigen::Matrix3Xd pm(3, 2);
-        pm.col(0) = x + h * Eigen::Vector3d::Unit(k);
-        pm.col(1) = x - h * Eigen::Vector3d::Unit(k);
-        const TargetResponse<double> r = target_response(lead, pm, Eigen::Matrix3d(grid.polarization[0]));
-        G.col(k) = (r.change.col(0) - r.change.col(1)) / (2 * h);
-    }
+    const Eigen::MatrixXd G = finite_difference_gradient(spec, grid, x);
     const Eigen::VectorXd noise = Eigen::VectorXd::Constant(G.rows(), rms);
     BoundOptions bo;
     bo.position_parameters = 3;
@@ -173,5 +188,60 @@ TEST_CASE("layout localization: the written bound equals the bound from a finite
         CHECK(status.values[near] == static_cast<std::uint8_t>(LocalizationStatus::not_computed));
         CHECK(std::isnan(sd.values[3 * near]));
     }
+    fs::remove(path);
+}
+
+// With the size unknown, the bound is that of the 4 x 4 information of x, y, z and the size
+// (Kay 1993, ch. 3, as above); the size's column by central differences of the closed-form
+// tensor of a conducting sphere, 4 pi a^3 (Jackson 1999, section 4.4), at a -+ 0.1 mm.
+TEST_CASE("layout localization: an unknown size is a fourth parameter, its bound and the larger position bound") {
+    const fs::path dir = fs::temp_directory_path() / "murk_test_layout_localization";
+    fs::create_directories(dir);
+    const std::string path = (dir / "size.h5").string();
+    fs::remove(path);
+    std::string text = kCase;
+    const auto swap_text = [](std::string& in, const std::string& from, const std::string& to) {
+        REQUIRE(in.find(from) != std::string::npos);
+        in.replace(in.find(from), from.size(), to);
+    };
+    swap_text(text, "localization_accuracy = \"5 mm\"\n", "localization_accuracy = \"5 mm\"\nlocalization_size = \"unknown\"\n");
+    const CaseSpec spec = read_case_text(text, "case.toml");
+    REQUIRE(spec.detection->localization_size_unknown);
+    LayoutOptions options;
+    options.output_path = path;
+    options.quiet = true;
+    run_layouts(spec, options);
+    const H5File file = H5File::open_readonly(path);
+    const H5Group g = file.root().open_group("layouts/ref");
+    const H5Array<double> sd = g.read<double>("position_sd");
+    const H5Array<double> size_sd = g.read<double>("size_sd");
+    const H5Array<std::uint8_t> status = g.read<std::uint8_t>("localization_status");
+    const double rms = g.read<double>("channel_noise").values.at(0);
+    REQUIRE(size_sd.shape == H5Shape{1, 2, 2});
+
+    const std::size_t j = 3;  // u = 6 cm, v = 20 cm, as above
+    REQUIRE(status.values[j] == static_cast<std::uint8_t>(LocalizationStatus::ok));
+    const TargetGrid grid = target_grid(spec);
+    std::string two_sizes = text;
+    swap_text(two_sizes, "object = \"target\"\n", "object = \"target\"\nsize = [\"9.9 mm\", \"10.1 mm\"]\n");
+    const TargetGrid sizes = target_grid(read_case_text(two_sizes, "case.toml"));
+    const Eigen::MatrixXd G = finite_difference_gradient(spec, grid, grid.points.col(static_cast<Eigen::Index>(j)), &sizes);
+    const Eigen::VectorXd noise = Eigen::VectorXd::Constant(G.rows(), rms);
+    BoundOptions bo;
+    bo.position_parameters = 3;
+    const LocalizationBound unknown = localization_bound(fisher_information_independent(G, noise), bo);
+    const LocalizationBound known = localization_bound(fisher_information_independent(G.leftCols(3), noise), bo);
+    REQUIRE(unknown.status == BoundStatus::ok);
+    CHECK(std::abs(size_sd.values[j] - unknown.standard_deviation(3)) <= 1e-4 * unknown.standard_deviation(3));
+    for (int k = 0; k < 3; ++k) {
+        CAPTURE(k);
+        const double got = sd.values[3 * j + static_cast<std::size_t>(k)];
+        CHECK(std::abs(got - unknown.standard_deviation(k)) <= 1e-4 * unknown.standard_deviation(k));
+        CHECK(got >= known.standard_deviation(k) * (1 - 1e-9));
+    }
+    // The size trades against the distance from the hull (a nearer small target reads like a
+    // farther large one): the bound along the line to the hull (y here) grows markedly.
+    CHECK(sd.values[3 * j + 1] > 1.2 * known.standard_deviation(1));
+    CHECK(std::isnan(size_sd.values[0]));  // not computed next to the hull
     fs::remove(path);
 }

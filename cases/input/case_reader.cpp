@@ -1077,7 +1077,8 @@ SweepSpec read_sweep(const Section& sec) {
 
 DetectionSpec read_detection(const Section& sec) {
     check_keys(sec, {"receptor_noise", "receptor_density", "receptor_zones", "amplifier_noise", "amplifier_current_noise",
-                     "integration_time", "false_alarm_probability", "probability_level", "localization_accuracy"});
+                     "integration_time", "false_alarm_probability", "probability_level", "localization_accuracy",
+                     "localization_size"});
     DetectionSpec d;
     d.line = sec.line;
     const bool receptors = sec.find("receptor_noise") != nullptr;
@@ -1140,6 +1141,12 @@ DetectionSpec read_detection(const Section& sec) {
         if (!(a > 0.0 && std::isfinite(a)))
             fail(sec.where("localization_accuracy"), "a positive length, got " + describe(*n));
         d.localization_accuracy_m = a;
+    }
+    if (const toml::node* n = sec.find("localization_size")) {
+        if (d.localization_accuracy_m == 0.0)
+            fail(sec.where("localization_size"), "says how the position bound treats the target's size; give "
+                                                 "localization_accuracy too, or leave it out");
+        d.localization_size_unknown = read_choice(sec, "localization_size", *n, {"known", "unknown"}) == "unknown";
     }
     return d;
 }

@@ -71,6 +71,7 @@ struct DetectionSpec {
     double false_alarm_probability = 1e-3;
     double probability_level = 0.5;           // detection range: where P_D crosses this
     double localization_accuracy_m = 0.0;     // murk layout: the position error wanted (0: no bound computed)
+    bool localization_size_unknown = false;   // murk layout: the target's size is estimated with its position
     int line = 0;
 };
 

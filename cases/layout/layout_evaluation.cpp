@@ -119,11 +119,15 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
     q.baseline_field = baseline_field(fixed, grid.points, quad);
     for (std::size_t s = 0; s < grid.size_m.size(); ++s) q.sizes.push_back(evaluate_size(q, grid, placement, s));
     q.localization_accuracy_m = spec.detection->localization_accuracy_m;
+    q.localization_size_unknown = spec.detection->localization_size_unknown;
     if (q.localization_accuracy_m > 0) {
         const LeadFields<double> lead(fixed, q.readout.rows);
         for (std::size_t s = 0; s < grid.size_m.size(); ++s) {
             SizeQuantities& sq = q.sizes[s];
-            localize_targets(sq, lead, grid.points, grid.polarization[s], q.channel_noise, q.localization_accuracy_m);
+            const std::optional<double> unknown_size =
+                q.localization_size_unknown ? std::optional<double>(grid.size_m[s]) : std::nullopt;
+            localize_targets(sq, lead, grid.points, grid.polarization[s], unknown_size, q.channel_noise,
+                             q.localization_accuracy_m);
             sq.localizable_area_m2 = flagged_region(grid, sq.within_accuracy);
         }
     }

@@ -53,7 +53,7 @@ const char* localized_words(const TargetGrid& grid) {
 void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& grid) {
     const hsize_t ns = grid.size_m.size();
     const H5Layout packed = H5Layout::compressed(1);
-    std::vector<double> sd, axes, directions, area;
+    std::vector<double> sd, axes, directions, area, size_sd;
     std::vector<std::uint8_t> status, within;
     for (const SizeQuantities& s : q.sizes) {
         sd.insert(sd.end(), s.position_sd.data(), s.position_sd.data() + s.position_sd.size());
@@ -62,6 +62,7 @@ void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& 
         status.insert(status.end(), s.bound_status.begin(), s.bound_status.end());
         within.insert(within.end(), s.within_accuracy.begin(), s.within_accuracy.end());
         area.push_back(s.localizable_area_m2);
+        size_sd.insert(size_sd.end(), s.size_sd.begin(), s.size_sd.end());
     }
     index_coordinate(g, "semi_axis", 3, "semi-axis of the error ellipsoid, longest first");
     g.write("localization_accuracy", std::vector<double>{q.localization_accuracy_m}, H5Shape{}, "m",
@@ -82,6 +83,11 @@ void write_bound(const H5Group& g, const LayoutQuantities& q, const TargetGrid& 
             "(the sign of a direction is arbitrary)", packed)
         .label_dimensions(grid_dims(grid, {"size"}, {"semi_axis", "xyz"}))
         .set_fill_value(double(NAN));
+    if (q.localization_size_unknown)
+        g.write("size_sd", size_sd, grid_shape(grid, {ns}, {}), "m",
+                "Cramer-Rao bound: standard deviation of the target's size, estimated with its position", packed)
+            .label_dimensions(grid_dims(grid, {"size"}, {}))
+            .set_fill_value(double(NAN));
     g.write("within_accuracy", within, grid_shape(grid, {ns}, {}), "1",
             "whether the largest semi-axis is at most localization_accuracy", packed)
         .label_dimensions(grid_dims(grid, {"size"}, {}))

@@ -32,6 +32,8 @@ struct SizeQuantities {
     Eigen::MatrixXd axes;                     // 9 x points: per semi-axis its unit direction (x, y, z), in the
                                               // order of semi_axes; NaN where not computed
     std::vector<std::uint8_t> within_accuracy;  // 1: the largest semi-axis is at most the accuracy
+    std::vector<double> size_sd;              // m: bound on the target's size when it is unknown
+                                              // (localization_size = "unknown"); NaN where not computed
     double localizable_area_m2 = 0;           // area (m^2) or volume (m^3) of the cells within the accuracy
 };
 
@@ -59,6 +61,7 @@ struct LayoutQuantities {
     double channel_noise = 0;                 // rms noise of one reading (V or A)
     double false_alarm_probability = 0, probability_level = 0;
     double localization_accuracy_m = 0;       // 0: no localization bound asked for
+    bool localization_size_unknown = false;   // the size is a fourth parameter of the bound
     std::vector<SizeQuantities> sizes;        // one per target size
     double factor_seconds = 0, map_seconds = 0;
 };

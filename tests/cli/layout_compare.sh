@@ -261,6 +261,8 @@ bad no_grid '/^\[sweep.grid\]/,/^v = /d' "sweep.grid"
 bad wrong_noise '/^noise = /d' "give the layout its own noise"
 bad negative_accuracy 's/^localization_accuracy = .*/localization_accuracy = "-2 mm"/' "localization_accuracy: a positive length"
 bad time_accuracy 's/^localization_accuracy = .*/localization_accuracy = "3 s"/' "localization_accuracy"
+bad size_word 's/^localization_accuracy = .*/&\nlocalization_size = "guessed"/' "localization_size: expected one of"
+bad size_alone 's/^localization_accuracy = .*/localization_size = "unknown"/' "localization_size: says how the position bound"
 "$murk" layout "$example" -o "$dir/layouts.h5" --quiet 2> "$dir/err.txt"
 [ $? -eq 2 ] && grep -q "exists" "$dir/err.txt" && echo "ok   an existing result is kept without --force" || fail "existing result: $(cat "$dir/err.txt")"
 
@@ -285,6 +287,30 @@ PY
 "$murk" inspect "$dir/volume.h5" | grep -q "volume, " && echo "ok   murk inspect shows volumes" || fail "murk inspect on a volume"
 "$murk" run "$dir/volume.toml" -o "$dir/volume_run.h5" --quiet 2> "$dir/err.txt"
 [ $? -eq 2 ] && grep -q "sweep.grid.w" "$dir/err.txt" && echo "ok   murk run refuses a third grid axis" || fail "murk run with w: $(cat "$dir/err.txt")"
+
+# The size unknown ([detection] localization_size = "unknown"): a fourth parameter of the
+# bound, whose own bound size_sd is written; on the same grid, the position bound can only
+# grow when a parameter must be estimated with it (Kay 1993, ch. 3: the inverse of a Schur
+# complement of the information dominates the known-size inverse; from memory).
+sed -e 's/^localization_accuracy = .*/&\nlocalization_size = "unknown"/' "$dir/volume.toml" > "$dir/size.toml"
+"$murk" layout "$dir/size.toml" -o "$dir/size.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; fail "murk layout, size unknown"; }
+"$py" "$src/tests/cli/check_netcdf_readers.py" "$dir/size.h5" || fail "netCDF readers, size unknown"
+"$py" "$src/tests/cli/check_layout_documented.py" "$src/cases/RESULT_LAYOUT.md" "$dir/size.h5" || fail "RESULT_LAYOUT.md, size unknown"
+"$py" - "$dir/volume.h5" "$dir/size.h5" <<'PY' || fail "contents of the size-unknown result"
+import sys, h5py, numpy as np
+known = h5py.File(sys.argv[1], "r")["layouts/ends_reference"]
+unknown = h5py.File(sys.argv[2], "r")["layouts/ends_reference"]
+assert "size_sd" not in known
+ok = (unknown["localization_status"][...] == 0) & (known["localization_status"][...] == 0)
+assert ok.sum() > 10, ok.sum()
+size_sd = unknown["size_sd"][...]
+assert np.isfinite(size_sd[ok]).all() and (size_sd[ok] > 0).all()
+k, u = known["position_sd"][...][ok], unknown["position_sd"][...][ok]
+assert (u >= k * (1 - 1e-9)).all(), np.min(u / k)
+assert (u > 1.01 * k).any()
+print("ok   size unknown: size_sd written, the position bound never smaller (largest ratio %.3g)" % np.max(u / k))
+PY
+"$murk" inspect "$dir/size.h5" | grep -q "size unknown" && echo "ok   murk inspect says the size was unknown" || fail "murk inspect, size unknown"
 
 # Stopped while it computes (SIGTERM after a second, during the first layout's
 # factorization): exit status 128 + 15, and neither the result nor its partial file is left.

@@ -738,6 +738,8 @@ void print_layouts(const H5Group& root) {
         table.add(row);
     }
     table.print("  ");
+    if (localized && !names.empty() && root.open_group("layouts/" + names.front()).exists("size_sd"))
+        std::printf("  localized: the position bound with the target's size unknown, estimated with it\n");
 }
 
 int inspect_command(const InspectArgs& args) {
