@@ -1129,3 +1129,77 @@ voltage = "-1 V"
         CHECK(a.mesh_m2 > 0.0);
     }
 }
+
+TEST_CASE("scene builder: rings and patches on spheroid and sphere hulls have their true areas") {
+    // A prolate spheroid hull, semi-axes a = 10 cm along x and b = 3 cm: a ring
+    // between x1 and x2 has the area of a surface of revolution, 2 pi int y
+    // sqrt(1 + y'^2) dx with y = b sqrt(1 - x^2 / a^2), that is 2 pi b int sqrt(1 -
+    // e^2 x^2 / a^2) dx, e^2 = 1 - b^2 / a^2 (common practice), in closed form
+    // 2 pi b [x sqrt(1 - k^2 x^2) / 2 + asin(k x) / (2 k)], k = e / a.
+    const std::string spheroid = R"(title = "s"
+[water]
+conductivity = "200 uS/cm"
+[mesh]
+panel_size = "1.2 cm"
+electrode_edge = "4 mm"
+[robot]
+shape = "spheroid"
+polar_radius = "10 cm"
+equatorial_radius = "3 cm"
+[[robot.electrode]]
+name = "band"
+form = "ring"
+from = "-6 cm"
+to = "-3 cm"
+role = "emitter"
+current = "1 mA"
+[[robot.electrode]]
+name = "dot"
+form = "patch"
+at = ["2 cm", "0 cm", "2.93939 cm"]
+radius = "1 cm"
+role = "emitter"
+current = "-1 mA"
+)";
+    const double a = 0.1, b = 0.03, k = std::sqrt(1.0 - b * b / (a * a)) / a;
+    auto primitive = [&](double x) { return x * std::sqrt(1.0 - k * k * x * x) / 2.0 + std::asin(k * x) / (2.0 * k); };
+    const double band = 2.0 * M_PI * b * (primitive(-0.03) - primitive(-0.06));
+    const CaseSpec spec = spec_of(spheroid);
+    const Scene<double> scene = build_scene<double>(spec, true);
+    const std::vector<ElectrodeArea> areas = electrode_areas(spec, scene);
+    REQUIRE(areas.size() == 2);
+    CHECK(areas[0].exact_m2 == doctest::Approx(band).epsilon(1e-6));
+    CHECK(std::abs(areas[0].mesh_m2 / band - 1.0) < 1e-3);
+    // the patch, centred on the surface (z = b sqrt(1 - x^2 / a^2) at x = 2 cm): no
+    // closed form; a plausibility bound on its quadrature reference: the flat disc
+    // pi r^2, changed by the curvature by a few (r / R)^2 ~ 10 % at most for the
+    // surface's radii of curvature R >= 3 cm (common practice)
+    CHECK(areas[1].exact_m2 > 0.9 * M_PI * 1e-4);
+    CHECK(areas[1].exact_m2 < 1.1 * M_PI * 1e-4);
+    CHECK(std::abs(areas[1].mesh_m2 / areas[1].exact_m2 - 1.0) < 1e-3);
+
+    // A sphere hull of radius 5 cm with a patch centred on its surface: a cap whose
+    // rim is r from its pole, pi r^2 (Archimedes, "On the Sphere and Cylinder").
+    const std::string sphere = R"(title = "s"
+[water]
+conductivity = "200 uS/cm"
+[mesh]
+panel_size = "1.5 cm"
+[robot]
+shape = "sphere"
+radius = "5 cm"
+[[robot.electrode]]
+name = "cap"
+form = "patch"
+at = ["0 cm", "3 cm", "4 cm"]
+radius = "2 cm"
+role = "emitter"
+current = "1 mA"
+)";
+    const CaseSpec sphere_spec = spec_of(sphere);
+    const Scene<double> sphere_scene = build_scene<double>(sphere_spec, true);
+    const std::vector<ElectrodeArea> cap = electrode_areas(sphere_spec, sphere_scene);
+    REQUIRE(cap.size() == 1);
+    CHECK(cap[0].exact_m2 == doctest::Approx(M_PI * 4e-4).epsilon(1e-12));
+    CHECK(std::abs(cap[0].mesh_m2 / (M_PI * 4e-4) - 1.0) < 1e-3);
+}
