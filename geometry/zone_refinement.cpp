@@ -56,7 +56,8 @@ int longest_side(const TriangleMesh& m, const Triangle& t) {
 // allowed are cut through it, and the cut edges are closed over (a panel with
 // any cut side is cut through its longest side as well) so that every cut edge
 // is split on both sides. Returns false when no panel needed a cut.
-bool bisect_once(TriangleMesh& m, const std::vector<RefinementZone>& zones, const SurfaceProjection& project) {
+bool bisect_once(TriangleMesh& m, const AllowedEdge& allowed, const SurfaceProjection& project, const std::string& what,
+                 const std::string& hint) {
     const std::size_t n = m.size();
     std::vector<int> longest(n);
     std::unordered_map<std::uint64_t, int> cut;  // edge -> its midpoint vertex (-1 until made)
@@ -66,7 +67,7 @@ bool bisect_once(TriangleMesh& m, const std::vector<RefinementZone>& zones, cons
         longest[t] = k;
         const Vec3& a = m.vertices[tri[k]];
         const Vec3& b = m.vertices[tri[(k + 1) % 3]];
-        if ((a - b).norm() > allowed_edge(zones, m.corner(t, 0), m.corner(t, 1), m.corner(t, 2)))
+        if ((a - b).norm() > allowed(m.corner(t, 0), m.corner(t, 1), m.corner(t, 2)))
             cut.emplace(edge_key(tri[k], tri[(k + 1) % 3]), -1);
     }
     if (cut.empty()) return false;
@@ -86,8 +87,7 @@ bool bisect_once(TriangleMesh& m, const std::vector<RefinementZone>& zones, cons
     }
     // Each cut edge adds two panels, one on each side.
     if (static_cast<double>(n) + 2.0 * static_cast<double>(cut.size()) > static_cast<double>(kMaxGeneratedPanels))
-        throw InputError("refinement zones: the mesh would need more than " + std::to_string(kMaxGeneratedPanels) +
-                         " panels; give the zones a larger panel size or a smaller radius");
+        throw InputError(what + ": the mesh would need more than " + std::to_string(kMaxGeneratedPanels) + " panels; " + hint);
 
     // Midpoints in panel order, so that vertex numbers depend on the mesh alone.
     auto midpoint = [&](int a, int b) {
@@ -150,8 +150,15 @@ void refine_in_zones(TriangleMesh& mesh, const std::vector<RefinementZone>& zone
         if (!z.centre.allFinite()) throw InputError("refinement zone: the centre must be finite");
     }
     if (zones.empty()) return;
+    refine_to_allowed(
+        mesh, [&](const Vec3& a, const Vec3& b, const Vec3& c) { return allowed_edge(zones, a, b, c); }, project,
+        "refinement zones", "give the zones a larger panel size or a smaller radius");
+}
+
+void refine_to_allowed(TriangleMesh& mesh, const AllowedEdge& allowed, const SurfaceProjection& project,
+                       const std::string& what, const std::string& hint) {
     mesh.region.resize(mesh.size(), 0);
-    while (bisect_once(mesh, zones, project)) {
+    while (bisect_once(mesh, allowed, project, what, hint)) {
     }
 }
 

@@ -15,6 +15,7 @@
 #include "geometry/mesh.hpp"
 
 #include <functional>
+#include <string>
 #include <vector>
 
 namespace murk {
@@ -43,6 +44,16 @@ using SurfaceProjection = std::function<Vec3(const Vec3&)>;
 // panels inherit their parent's region tag. Throws InputError when the result
 // would exceed kMaxGeneratedPanels (shapes.hpp) or a size is not positive.
 void refine_in_zones(TriangleMesh& mesh, const std::vector<RefinementZone>& zones, const SurfaceProjection& project);
+
+// Largest edge length (m) a panel with corners a, b, c may have.
+using AllowedEdge = std::function<double(const Vec3& a, const Vec3& b, const Vec3& c)>;
+
+// The same bisection with any size rule (refine_in_zones passes the zones'; the
+// electrode cut, electrode_cut.hpp, a size graded from the electrode edges).
+// When the mesh would exceed kMaxGeneratedPanels: InputError "<what>: the mesh
+// would need more than N panels; <hint>".
+void refine_to_allowed(TriangleMesh& mesh, const AllowedEdge& allowed, const SurfaceProjection& project,
+                       const std::string& what, const std::string& hint);
 
 // Largest ratio of edge length to the zone's panel_size over the edges that
 // come within a zone's ball (0 when none does): at most 1 when the zones are met.

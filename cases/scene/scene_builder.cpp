@@ -1,5 +1,6 @@
 #include "cases/scene/scene_builder.hpp"
 
+#include "cases/scene/hull_electrodes.hpp"
 #include "cases/scene/scene_rules.hpp"
 
 #include "geometry/clearance.hpp"
@@ -117,13 +118,6 @@ std::vector<AxialBand> ring_bands(const RobotSpec& robot) {
     for (const ElectrodeSpec& e : robot.electrodes)
         if (e.form == ElectrodeForm::ring) rings.push_back({e.from_m, e.to_m});
     return rings;
-}
-
-// True when the hull is meshed on its rings' edges (geometry/electrode_hulls.hpp):
-// a generated capsule, sphere or box carrying ring electrodes.
-bool hull_conforms_to_rings(const RobotSpec& robot) {
-    const ShapeKind k = robot.hull.kind;
-    return !ring_bands(robot).empty() && (k == ShapeKind::capsule || k == ShapeKind::sphere || k == ShapeKind::box);
 }
 
 // Extent [lo, hi] (m) of the hull along its own x axis.
@@ -286,9 +280,14 @@ void add_fish(Scene<S>& scene, const CaseSpec& spec, double omega, double panel_
     scene.surfaces.push_back(std::move(body));
 }
 
+// The panels of each electrode cut into the hull (hull_electrodes.hpp), by index in
+// robot.electrodes; nullopt for an electrode that is not cut.
+using CutPanels = std::vector<std::optional<std::vector<std::size_t>>>;
+
 // Tags the robot's electrodes on its hull (hull frame) and returns, per panel,
-// the index of its electrode in robot.electrodes or -1.
-std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
+// the index of its electrode in robot.electrodes or -1. Cut electrodes get the
+// panels of the cut; rings meshed on stations, the panels their band selects.
+std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot, const CutPanels& cut) {
     std::map<int, int> electrode_of_tag;
     // Region electrodes first: their tags come from the mesh file.
     for (std::size_t k = 0; k < robot.electrodes.size(); ++k) {
@@ -314,10 +313,14 @@ std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
         const std::vector<int> before = hull.region;
         with_place(e.source.where(), [&] {
             const int tag = add_region(hull, e.name);
-            if (e.form == ElectrodeForm::ring)
+            if (k < cut.size() && cut[k]) {
+                hull.region.resize(hull.size(), 0);
+                for (std::size_t t : *cut[k]) hull.region[t] = tag;
+            } else if (e.form == ElectrodeForm::ring) {
                 tag_band(hull, tag, Vec3::Zero(), Vec3::UnitX(), e.from_m, e.to_m);
-            else
+            } else {
                 tag_disc(hull, tag, to_vec(e.at_m), e.radius_m);
+            }
             electrode_of_tag[tag] = static_cast<int>(k);
             for (std::size_t t = 0; t < hull.size(); ++t) {
                 if (hull.region[t] != tag) continue;
@@ -339,12 +342,12 @@ std::vector<int> tag_electrodes(TriangleMesh& hull, const RobotSpec& robot) {
 }
 
 template <class S>
-void add_robot(Scene<S>& scene, const CaseSpec& spec, TriangleMesh hull) {
+void add_robot(Scene<S>& scene, const CaseSpec& spec, TriangleMesh hull, const CutPanels& cut) {
     const RobotSpec& r = *spec.robot;
     Surface<S> surface;
     surface.kind = InterfaceKind::sealed;
     hull.name = "robot";
-    surface.panel_electrode = tag_electrodes(hull, r);
+    surface.panel_electrode = tag_electrodes(hull, r, cut);
     surface.mesh = std::move(hull);
     transform(surface.mesh, orientation_matrix(r.orientation), to_vec(r.position_m));
     require_zones_reach(spec, surface.mesh, "the robot's hull");
@@ -678,11 +681,15 @@ std::vector<ElectrodeArea> electrode_areas(const CaseSpec& spec, const Scene<S>&
     for (const Surface<S>& surface : scene.surfaces)
         for (std::size_t t = 0; t < surface.panel_electrode.size(); ++t)
             if (const int e = surface.panel_electrode[t]; e >= 0) areas.at(e).mesh_m2 += surface.mesh.area(t);
-    if (!spec.robot || !hull_conforms_to_rings(*spec.robot)) return areas;
+    if (!spec.robot) return areas;
     const ShapeSpec& s = spec.robot->hull;
     for (std::size_t k = 0; k < spec.robot->electrodes.size() && k < areas.size(); ++k) {
         const ElectrodeSpec& e = spec.robot->electrodes[k];
-        if (e.form != ElectrodeForm::ring) continue;
+        if (electrode_is_cut(*spec.robot, e)) {
+            if (const std::optional<double> exact = cut_electrode_area(*spec.robot, e)) areas[k].exact_m2 = *exact;
+            continue;
+        }
+        if (e.form != ElectrodeForm::ring || !hull_conforms_to_rings(*spec.robot)) continue;
         const AxialBand band{e.from_m, e.to_m};
         areas[k].exact_m2 = s.kind == ShapeKind::box ? box_band_area(to_vec(s.size_m), band)
                             : s.kind == ShapeKind::capsule
@@ -745,7 +752,10 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
             }
             return 0;
         });
-        add_robot(scene, spec, std::move(hull));
+        // Rings on an imported hull are checked on its extent before they are cut.
+        if (spec.robot->hull.kind == ShapeKind::mesh) require_rings_on_hull(*spec.robot, hull);
+        const CutPanels cut = cut_hull_electrodes(hull, spec, panel);
+        add_robot(scene, spec, std::move(hull), cut);
     }
     const std::size_t bodies = scene.surfaces.size();  // 1 with a sensing body, else 0
     if (include_objects)

@@ -50,6 +50,17 @@ write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/8 mm/')" zone_coarse.to
 expect_bad "zone coarser than the body" "mesh.zone[1].panel_size: 8 mm is larger" "$murk" solve "$dir/zone_coarse.toml" -o "$dir/out.h5"
 write_case "$(echo "$zone" | sed 's/RADIUS/5 mm/; s/SIZE/1 mm/; s/"7.5 mm"/"4 cm"/')" zone_off.toml
 expect_bad "zone off the body" "mesh.zone[1].centre: the zone does not reach" "$murk" mesh "$dir/zone_off.toml"
+# Patch electrodes cut into the robot's hull (membrane_sphere.toml's "left" patch, first at
+# ["-1.5 cm", "1 cm", "0 cm"] on a capsule of radius 1 cm, moved; the radius given is both patches'):
+# off the hull, over all of it, over its neighbour.
+patch_case() { sed "s/^at = \[\"-1.5 cm\", \"1 cm\", \"0 cm\"\].*/at = $1/; s/^radius = \"6 mm\"/radius = \"$2\"/" \
+  "$src/cases/examples/membrane_sphere.toml" > "$dir/$3"; }
+patch_case '["-1.5 cm", "5 cm", "0 cm"]' "6 mm" patch_off.toml
+expect_bad "patch off the hull" "patch electrode 'left' covers no part of the hull" "$murk" solve "$dir/patch_off.toml" -o "$dir/out.h5"
+patch_case '["0 cm", "0 cm", "0 cm"]' "20 cm" patch_all.toml
+expect_bad "patch over the whole hull" "patch electrode 'left' covers the whole hull" "$murk" solve "$dir/patch_all.toml" -o "$dir/out.h5"
+patch_case '["0.5 cm", "1 cm", "0 cm"]' "6 mm" patch_overlap.toml
+expect_bad "patches that overlap" "overlaps patch electrode 'left'" "$murk" solve "$dir/patch_overlap.toml" -o "$dir/out.h5"
 # Result files that are damaged or cut short, given to every command that reads one.
 "$murk" solve "$base" -o "$dir/whole.h5" --quiet 2> /dev/null
 head -c 20000 "$dir/whole.h5" > "$dir/cut.h5"
