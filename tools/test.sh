@@ -57,8 +57,8 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # under the sanitizers, and build/ runs them all. cli_layout_compare (murk layout on the
 # three-layout example, murk solve beside it, xarray) is left out for the same reason: the
 # reader, the readout, the sensitivity map and the region it drives are unit-tested sanitized.
-# cli_placement_run (murk layout with [placement] on a 2,343-unknown body plus four layouts,
-# xarray and the plot: about 20 s in build/ on a busy machine) likewise: the [placement]
+# cli_placement_run (murk layout with [placement], twice, on a 2,343-unknown body plus four layouts,
+# xarray and the plot: about 35 s in build/ on a busy machine) likewise: the [placement]
 # reader and the placement stage are unit-tested sanitized on a small body.
 # "electrode hulls: the drive current of two rings converges monotonically" solves four dense
 # systems of up to 4,536 panels (7 s in build/ on a busy machine, minutes sanitized); the hulls

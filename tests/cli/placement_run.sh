@@ -89,6 +89,29 @@ grep -q "^  best layout: " "$dir/inspect.txt" && echo "ok   murk inspect compare
 [ -s "$dir/placed_placement.png" ] && head -c 8 "$dir/placed_placement.png" | grep -q PNG \
   && echo "ok   plot_results.py draws the criterion curve" || fail "no placed_placement.png"
 
+# The D-optimal criterion on the same case: it takes exchanges after the greedy steps here
+# (checked in the file), which add the exchange dimension; both netCDF engines read it, the
+# names are documented, and each exchange raises the criterion.
+sed -e 's/^criterion = "detectable_area"/criterion = "mean_log_det"/' "$example" > "$dir/logdet.toml"
+grep -q '^criterion = "mean_log_det"' "$dir/logdet.toml" || { echo "could not write the mean_log_det case"; exit 1; }
+"$murk" layout "$dir/logdet.toml" -o "$dir/logdet.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; fail "murk layout, mean_log_det"; }
+"$py" "$src/tests/cli/check_layout_documented.py" "$src/cases/RESULT_LAYOUT.md" "$dir/logdet.h5" || fail "RESULT_LAYOUT.md, mean_log_det"
+"$py" - "$dir/logdet.h5" <<'PY' || fail "mean_log_det placement"
+import sys, warnings, h5py, numpy as np, xarray as xr
+warnings.simplefilter("ignore")
+g = h5py.File(sys.argv[1], "r")["placement"]
+assert g.attrs["criterion"] == "mean_log_det" and g["final_criterion"].attrs["units"] == "1"
+assert "exchange_criterion" in g, "this case is known to take exchanges; none were written"
+values = np.concatenate([g["greedy_criterion"][...], g["exchange_criterion"][...]])
+assert (np.diff(values[:len(g["greedy_criterion"])]) >= 0).all() and (np.diff(values[len(g["greedy_criterion"]) - 1:]) > 0).all(), values
+assert np.isfinite(g["layout_criterion"][...]).all()
+for engine in ("h5netcdf", "netcdf4"):
+    ds = xr.open_dataset(sys.argv[1], group="placement", engine=engine)
+    assert ds.exchange_criterion.dims == ("exchange",) and len(ds.exchange) == len(g["exchange_criterion"]), engine
+    assert np.array_equal(ds.exchange_criterion.values, g["exchange_criterion"][...]), engine
+print("ok   mean_log_det: exchanges written and read by both engines, each raising the criterion")
+PY
+
 # Bad [placement] input: one line naming the file, line and key; exit 2; no file left.
 bad() {  # bad NAME SED_EXPRESSION WORDS
   sed -e "$2" "$example" > "$dir/$1.toml"
