@@ -112,6 +112,12 @@ for engine in ("h5netcdf", "netcdf4"):
 print("ok   mean_log_det: exchanges written and read by both engines, each raising the criterion")
 PY
 
+# murk solve ignores [placement] (it solves the first layout, cases/README.md): it runs and writes
+# no /placement.
+"$murk" solve "$example" -o "$dir/solved.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; fail "murk solve on the placement case"; }
+"$py" -c 'import h5py, sys; sys.exit("placement" in h5py.File(sys.argv[1], "r"))' "$dir/solved.h5" \
+  && echo "ok   murk solve ignores [placement]" || fail "murk solve wrote /placement"
+
 # Bad [placement] input: one line naming the file, line and key; exit 2; no file left.
 bad() {  # bad NAME SED_EXPRESSION WORDS
   sed -e "$2" "$example" > "$dir/$1.toml"
