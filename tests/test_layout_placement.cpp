@@ -201,3 +201,49 @@ TEST_CASE("layout placement: a layout's detectable-area criterion equals its det
     CHECK(area > 0);  // the check below would hold trivially for a layout that detects nothing
     CHECK(run.placement->layout_criterion[0] == doctest::Approx(area).epsilon(1e-12));
 }
+
+TEST_CASE("layout placement: the placement body keeps the drive's electrodes, leaves the candidates bare") {
+    // With a perfectly conducting object beside the hull, whose electrode the scene builder puts
+    // after the sites: its index must follow the candidates' removal.
+    const std::string text = replaced(case_for("detectable_area"), "[sweep]\n", R"toml([[object]]
+name = "rock"
+shape = "sphere"
+radius = "2 cm"
+position = ["0 cm", "-12 cm", "0 cm"]
+conductivity = "conductor"
+[sweep]
+)toml");
+    const CaseSpec spec = read_case_text(text, "sym.toml");
+    const TargetGrid grid = target_grid(spec);
+    const PlacementBody body = placement_body(spec, grid, quadrature_options(spec));
+    const Scene<double>& scene = body.fixed.scene();
+    std::vector<std::string> names;
+    for (const Electrode<double>& e : scene.electrodes) names.push_back(e.name);
+    CHECK(names == std::vector<std::string>{"nose", "tail", "mid", object_electrode_name("rock")});
+    REQUIRE(scene.surfaces.size() == 2);  // the hull and the rock; the target is left out
+    for (int e : scene.surfaces[1].panel_electrode) CHECK(e == 3);
+    // Each candidate's row: the area-weighted mean over panels inside its band (weights
+    // summing to 1), minus the reference's potential; nothing else.
+    const SystemLayout& sys = body.fixed.layout();
+    REQUIRE(body.readout.rows() == 6);
+    for (Eigen::Index c = 0; c < 6; ++c) {
+        const std::string name = spec.placement->candidates[std::size_t(c)];
+        const auto site = std::find_if(spec.robot->electrodes.begin(), spec.robot->electrodes.end(),
+                                       [&](const ElectrodeSpec& e) { return e.name == name; });
+        REQUIRE(site != spec.robot->electrodes.end());
+        double weights = 0;
+        for (std::size_t t = 0; t < scene.surfaces[0].mesh.size(); ++t) {
+            const double w = body.readout(c, sys.surfaces[0].offset + Eigen::Index(t));
+            if (w == 0) continue;
+            CHECK(w > 0);
+            CHECK(scene.surfaces[0].panel_electrode[t] == -1);  // bare hull
+            const double x = scene.surfaces[0].mesh.centroid(t).x();
+            CHECK(x > site->from_m);
+            CHECK(x < site->to_m);
+            weights += w;
+        }
+        CHECK(weights == doctest::Approx(1.0).epsilon(1e-12));
+        CHECK(body.readout(c, sys.electrode_offset + 2) == -1.0);  // minus mid, the reference
+        CHECK(body.readout.row(c).sum() == doctest::Approx(0.0).scale(1.0));
+    }
+}
