@@ -12,8 +12,8 @@
 // is its own mirror image (with 3 of 6 rings, a set of pairs is impossible unless the odd one
 // is its own image, and no ring is), and which of two equal sets the search keeps depends on
 // rounding. So the test checks the criterion of the chosen set against that of its mirror
-// image, both computed from the stage's own readings, not the set itself. (The mesh turned
-// out to be an exact mirror image; the readings are checked to be mirror images first.)
+// image, both computed from the stage's own readings, not the set itself. (The readings are
+// checked to be mirror images first, to the mesh's own symmetry: see the bound below.)
 #include "cases/design/sensor_placement.hpp"
 #include "cases/input/case_reader.hpp"
 #include "cases/layout/layout_evaluation.hpp"
@@ -147,11 +147,12 @@ TEST_CASE("layout placement: on a mirror-symmetric case a set and its mirror ima
                 worst = std::max(worst, std::abs(p.readings.change(c, Eigen::Index(k)) + p.readings.change(mirror(c), mk)));
         }
         CHECK(scale > 0);
-        // The ring hull's mesh is its own mirror image (measured: 3e-15 and 3e-12 of the
-        // largest change for the two target sets), so the changes agree to rounding amplified
-        // by the solve.
+        // The ring hull's mesh is its own mirror image up to rounding in its construction:
+        // measured 3e-15 and 3e-12 of the largest change for the two target sets in the
+        // Release build (-march=native), 7e-9 and 2e-7 in the Sanitize build (-O1, SSE2). The
+        // bound, 1e-5, is our own: far below any effect of the physics, far above both.
         MESSAGE(std::string(criterion) << ": largest mirror mismatch " << worst / scale << " of the largest change");
-        CHECK(worst <= 1e-9 * scale);
+        CHECK(worst <= 1e-5 * scale);
 
         const PlacementResult r = place_sensors(p.readings, p.options);
         REQUIRE(r.chosen.size() == 3);
@@ -161,7 +162,7 @@ TEST_CASE("layout placement: on a mirror-symmetric case a set and its mirror ima
         CAPTURE(chosen);
         CHECK(own == doctest::Approx(r.criterion).epsilon(1e-12));
         if (std::string(criterion) == "mean_log_det") {
-            CHECK(image == doctest::Approx(own).epsilon(1e-9));
+            CHECK(image == doctest::Approx(own).epsilon(1e-5));
         } else {
             // A count of cells: the mirror image could gain or lose a cell whose d' lies on the
             // threshold to rounding; at most one cell of the 27 here.
