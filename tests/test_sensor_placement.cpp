@@ -310,3 +310,44 @@ TEST_CASE("sensor placement: the mean log-determinant is the documented formula,
         CHECK(placement_criterion(r, set, o) == doctest::Approx(expected).epsilon(1e-10));
     }
 }
+
+TEST_CASE("sensor placement: cells of their own size, and a given information scale") {
+    // Per-point cells: the criterion is the sum of the detected points' own cells, counted
+    // here with the detection model of cases/detection as above.
+    PlacementOptions o = detection_options(3);
+    const CandidateReadings unit = synthetic(symmetric_sensors(), symmetric_targets(), 1.0);
+    const CandidateReadings r = with_noise(unit, half_coverage_noise(unit, o.required_snr));
+    const std::vector<int> set = {0, 3, 8};
+    const double uniform = placement_criterion(r, set, o);
+    double weighted = 0;
+    for (Eigen::Index i = 0; i < r.change.cols(); ++i) {
+        o.cell_volumes_m3.push_back(1e-6 * double(1 + i % 7));  // uneven cells (invented)
+        const std::vector<double> amplitude = {r.change(0, i), r.change(3, i), r.change(8, i)};
+        NoiseModel noise;
+        noise.kind = NoiseKind::voltage_amplifier;
+        noise.voltage_noise_density_V_per_rtHz = r.noise_rms(0);
+        noise.noise_bandwidth_Hz = 1.0;
+        if (detection_probability(detectability_index(noise, amplitude), 1e-3) >= 0.5)
+            weighted += o.cell_volumes_m3.back();
+    }
+    CHECK(weighted > 0);
+    CHECK(placement_criterion(r, set, o) == doctest::Approx(weighted).epsilon(1e-12));
+    CHECK(placement_criterion(r, set, o) != doctest::Approx(uniform));
+    o.cell_volumes_m3.pop_back();
+    CHECK_THROWS_AS(placement_criterion(r, set, o), InputError);
+
+    // The scale D given explicitly: the same D gives the same value; 4 D for every parameter
+    // scales the information by 1/4, so with a negligible prior the log-determinant of 3
+    // parameters falls by 3 log 4 (det(cA) = c^n det A, common practice) at every point.
+    CandidateReadings s = synthetic(symmetric_sensors(), symmetric_targets(), 1e-8);
+    PlacementOptions d = d_optimal_options(4);
+    d.prior_weight = 1e-12;
+    const std::vector<int> four = {0, 2, 5, 8};
+    const double own = placement_criterion(s, four, d);
+    s.information_scale = information_diagonal(s);
+    CHECK(placement_criterion(s, four, d) == own);
+    s.information_scale *= 4.0;
+    CHECK(placement_criterion(s, four, d) == doctest::Approx(own - 3.0 * std::log(4.0)).epsilon(1e-6));
+    s.information_scale(0, 0) = 0.0;
+    CHECK_THROWS_AS(placement_criterion(s, four, d), InputError);
+}

@@ -15,6 +15,10 @@ into DIR (default: the folder of OUT.h5), each figure titled with the case's tit
                                and a distance^-4 reference through the data
   <name>_grid_map.png          detection probability over a planar grid of object positions,
                                with the body's outline, to scale
+  <name>_layouts.png           (murk layout) the layouts side by side: electrodes on the unrolled
+                               hull, detection probability and, when computed, the position bound
+  <name>_placement.png         (murk layout with [placement]) the criterion after each greedy step
+                               and exchange, with every layout's criterion as a level
   <name>_body_view.png         a 3-D view of the body with the strongest electric image painted
                                on its skin (signed, on a colour scale centred on zero, for direct
                                current; magnitudes for complex images), and the object beside it
@@ -1016,6 +1020,17 @@ def layout_sites(path):
                 sites[e["name"]] = ("patch", x, math.degrees(math.atan2(z, y)), length_m(e["radius"]))
         except (KeyError, ValueError, TypeError):
             continue
+    rings = case.get("placement", {}).get("candidate_rings")
+    if isinstance(rings, dict):  # [placement] candidate_rings: c01, c02, ... as murk makes them (cases/README.md)
+        try:
+            lo, hi, count, width = length_m(rings["from"]), length_m(rings["to"]), int(rings["count"]), length_m(rings["width"])
+            gap = (hi - lo - count * width) / (count - 1) if count > 1 else 0.0
+            digits = max(2, len(str(count)))
+            for k in range(count):
+                start = lo + k * (width + gap) if count > 1 else 0.5 * (lo + hi - width)
+                sites[f"c{k + 1:0{digits}d}"] = ("ring", start, start + width)
+        except (KeyError, ValueError, TypeError):
+            pass
     return sites, hull_radius
 
 
@@ -1100,6 +1115,53 @@ def layout_maps(path, out_dir, stem):
     return [save(fig, os.path.join(out_dir, f"{stem}_layouts.png"))]
 
 
+def placement_curve(path, out_dir, stem):
+    """The criterion of the chosen sites after each greedy step and each exchange of /placement,
+    the chosen sites' names along the curve, and each layout's criterion as a level."""
+    import h5py
+    import matplotlib.pyplot as plt
+    with h5py.File(path, "r") as f:
+        if "placement" not in f:
+            raise Skip("the file has no /placement")
+        g = f["placement"]
+        text = lambda v: v.decode() if isinstance(v, bytes) else str(v)
+        criterion = text(g.attrs["criterion"])
+        names = [text(n) for n in g["candidate"][:]]
+        layouts = [text(n) for n in g["layout"][:]]
+        scale, unit = {"detectable_area": (1e4, "cm²"), "detectable_volume": (1e6, "cm³")}.get(criterion, (1.0, ""))
+        values = list(g["greedy_criterion"][:] * scale)
+        labels = ["+" + names[c] for c in g["greedy_added"][:]]
+        if "exchange_criterion" in g:
+            values += list(g["exchange_criterion"][:] * scale)
+            labels += [f"{names[a]} for {names[r]}" for a, r in zip(g["exchange_added"][:], g["exchange_removed"][:])]
+        own = g["layout_criterion"][:] * scale
+        greedy_steps = len(g["greedy_criterion"])
+        chosen = ", ".join(text(n) for n in g["chosen"][:])
+        title = text(f.attrs.get("title", ""))
+        fig = new_figure((7.5, 4.8), title)
+        ax = fig.add_subplot(1, 1, 1)
+        x = list(range(1, len(values) + 1))
+        ax.plot(x[:greedy_steps], values[:greedy_steps], "o-", color="tab:blue", label="greedy: one site added per step")
+        if len(values) > greedy_steps:
+            ax.plot(x[greedy_steps - 1:], values[greedy_steps - 1:], "s--", color="tab:orange",
+                    label="exchanges: one chosen site swapped")
+        for xi, v, lab in zip(x, values, labels):
+            ax.annotate(lab, (xi, v), textcoords="offset points", xytext=(0, 7), ha="center", fontsize=8)
+        styles = [":", "-.", (0, (5, 2)), (0, (1, 3))]
+        colours = ["tab:green", "tab:red", "tab:purple", "tab:brown", "tab:olive", "tab:cyan"]
+        for k, (name, v) in enumerate(zip(layouts, own)):
+            ax.axhline(v, color=colours[k % len(colours)], linestyle=styles[k % len(styles)], linewidth=1.2,
+                       label=f"layout {name}")
+        ax.set_xticks(x)
+        ax.set_xticklabels([str(k) for k in x[:greedy_steps]] + [f"swap {k}" for k in range(1, len(x) - greedy_steps + 1)])
+        ax.set_xlabel("sensors chosen (greedy steps), then exchanges")
+        ax.set_ylabel(criterion.replace("_", " ") + (f" ({unit})" if unit else ""))
+        ax.set_title(f"chosen: {chosen}", fontsize=9)
+        ax.margins(y=0.15)
+        ax.legend(fontsize=8, loc="lower right")
+    return [save(fig, os.path.join(out_dir, f"{stem}_placement.png"))]
+
+
 def common_bound_norm(f, names):
     """One log colour scale (mm) for the bound maps of every layout: from the smallest finite
     longest semi-axis of the largest target to at most 100 times the accuracy (an ill-conditioned
@@ -1175,6 +1237,11 @@ def make_figures(args):
         stem = os.path.splitext(os.path.basename(args.result))[0]
         for path in layout_maps(args.result, out_dir_early, stem):
             print(path)
+        try:
+            for path in placement_curve(args.result, out_dir_early, stem):
+                print(path)
+        except Skip as why:
+            note(f"skipped placement curve: {why}")
         return
     result = Result(args.result)
     out_dir = args.output_dir or os.path.dirname(os.path.abspath(args.result))

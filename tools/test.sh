@@ -57,13 +57,16 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # under the sanitizers, and build/ runs them all. cli_layout_compare (murk layout on the
 # three-layout example, murk solve beside it, xarray) is left out for the same reason: the
 # reader, the readout, the sensitivity map and the region it drives are unit-tested sanitized.
+# cli_placement_run (murk layout with [placement], twice, on a 2,343-unknown body plus four layouts,
+# xarray and the plot: about 35 s in build/ on a busy machine) likewise: the [placement]
+# reader and the placement stage are unit-tested sanitized on a small body.
 # "electrode hulls: the drive current of two rings converges monotonically" solves four dense
 # systems of up to 4,536 panels (7 s in build/ on a busy machine, minutes sanitized); the hulls
 # it meshes are unit-tested sanitized by the area and quality tests beside it. "patch electrodes:
 # drive current and a sensing patch's potential converge monotonically" likewise (four dense
 # systems of up to about 4,100 panels, 10 s in build/ on a busy machine); the cut hulls are
 # unit-tested sanitized in tests/test_geometry_electrode_cut.cpp.
-slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare'
+slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare|cli_placement_run'
 slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*"

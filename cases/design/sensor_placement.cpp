@@ -67,6 +67,11 @@ public:
                 throw InputError("placement: the required d' must be positive and finite");
             if (!(o.cell_volume_m3 > 0) || !std::isfinite(o.cell_volume_m3))
                 throw InputError("placement: the cell volume must be positive and finite");
+            if (!o.cell_volumes_m3.empty() && Eigen::Index(o.cell_volumes_m3.size()) != points)
+                throw InputError("placement: give one cell volume per point (" + std::to_string(points) + ")");
+            for (double v : o.cell_volumes_m3)
+                if (!(v >= 0) || !std::isfinite(v))
+                    throw InputError("placement: a cell volume must be finite and not negative");
             packed_ = 1;
             contribution_.assign(std::size_t(candidates), Eigen::MatrixXd::Zero(1, points));
             for (Eigen::Index k = 0; k < readings; ++k)
@@ -87,13 +92,14 @@ public:
             throw InputError("placement: the prior weight must be positive and finite");
         parameters_ = p;
         packed_ = p * (p + 1) / 2;
-        // Scale of each parameter at each point: the diagonal of all candidates' information.
-        Eigen::MatrixXd diag = Eigen::MatrixXd::Zero(p, points);
-        for (Eigen::Index k = 0; k < readings; ++k)
-            for (int a = 0; a < p; ++a)
-                diag.row(a) += (r.gradient[std::size_t(a)].row(k) / r.noise_rms(k)).array().square().matrix();
-        const Eigen::MatrixXd scale =
-            (diag.array() > 0).select(diag.array().sqrt().inverse(), Eigen::ArrayXXd::Ones(p, points)).matrix();
+        // Scale of each parameter at each point: the diagonal of all candidates' information,
+        // or the one given (positive where given: checked here).
+        if (r.information_scale.size() > 0 &&
+            (r.information_scale.rows() != p || r.information_scale.cols() != points ||
+             !(r.information_scale.array() > 0).all() || !r.information_scale.allFinite()))
+            throw InputError("placement: a given information scale must be positive and finite, parameters x points");
+        const Eigen::MatrixXd diag = r.information_scale.size() > 0 ? r.information_scale : information_diagonal(r);
+        const Eigen::MatrixXd scale = diag.array().sqrt().inverse().matrix();
         contribution_.assign(std::size_t(candidates), Eigen::MatrixXd::Zero(packed_, points));
         for (Eigen::Index k = 0; k < readings; ++k) {
             Eigen::MatrixXd& c = contribution_[std::size_t(r.candidate[std::size_t(k)])];
@@ -128,6 +134,13 @@ public:
                 s.secondary += std::min(d2, need);
             }
             s.primary = double(count) * options_.cell_volume_m3;
+            if (!options_.cell_volumes_m3.empty()) {
+                s.primary = 0;
+                for (Eigen::Index i = 0; i < points_; ++i) {
+                    const double d2 = base(0, i) + (add >= 0 ? contribution_[std::size_t(add)](0, i) : 0.0);
+                    if (d2 >= need) s.primary += options_.cell_volumes_m3[std::size_t(i)];
+                }
+            }
             return s;
         }
         if (parameters_ == 3) return log_det_3(base, add);
@@ -196,6 +209,16 @@ std::vector<int> sorted(std::vector<int> v) {
 
 double required_snr(double false_alarm_probability, double detection_level) {
     return inverse_gaussian_tail(false_alarm_probability) - inverse_gaussian_tail(detection_level);
+}
+
+Eigen::MatrixXd information_diagonal(const CandidateReadings& r) {
+    const int p = int(r.gradient.size());
+    const Eigen::Index points = r.change.cols();
+    Eigen::MatrixXd diag = Eigen::MatrixXd::Zero(p, points);
+    for (Eigen::Index k = 0; k < r.change.rows(); ++k)
+        for (int a = 0; a < p; ++a)
+            diag.row(a) += (r.gradient[std::size_t(a)].row(k) / r.noise_rms(k)).array().square().matrix();
+    return (diag.array() > 0).select(diag.array(), Eigen::ArrayXXd::Ones(p, points)).matrix();
 }
 
 double placement_criterion(const CandidateReadings& readings, const std::vector<int>& chosen,

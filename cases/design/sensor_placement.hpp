@@ -7,7 +7,8 @@
 // Criteria (independent Gaussian noise between readings):
 //  - detectable_volume: cells whose d'^2 = sum over the chosen readings of
 //    (dV / sigma)^2 reaches required_snr^2 (the generalized matched filter of
-//    cases/detection/detectability.hpp), times the cell volume. Greedy steps tie
+//    cases/detection/detectability.hpp), times the cell volume (or the sum of
+//    their own volumes, cell_volumes_m3). Greedy steps tie
 //    often on a count (one sensor alone may detect nothing), so sets are compared
 //    first by that volume and then by the "saturated coverage"
 //    sum over points of min(d'^2, required_snr^2) (a smooth, submodular stand-in
@@ -46,6 +47,11 @@ struct CandidateReadings {
     std::vector<Eigen::MatrixXd> gradient;  // per parameter, readings x points (mean_log_det only)
     Eigen::VectorXd noise_rms;              // per reading, > 0
     std::vector<int> candidate;             // per reading: its candidate, 0 .. candidates-1
+    // mean_log_det: the scale D of every parameter at every point (parameters x points);
+    // empty: the diagonal of all these readings' information (information_diagonal). Given,
+    // it lets a set of other readings (a user's own layout) be scored on the same scale as
+    // the candidates it is compared with.
+    Eigen::MatrixXd information_scale;
 };
 
 enum class PlacementCriterion { detectable_volume, mean_log_det };
@@ -55,6 +61,8 @@ struct PlacementOptions {
     int budget = 1;                 // K, 1 .. candidates
     double required_snr = 1.0;      // detectable_volume: the d' a point needs (required_snr())
     double cell_volume_m3 = 1.0;    // detectable_volume: volume of one grid point's cell
+    std::vector<double> cell_volumes_m3;  // detectable_volume: per point, replacing cell_volume_m3
+                                          // (uneven cells, e.g. the half cells at a grid's edge)
     double prior_weight = 1e-6;     // mean_log_det: regularization (see above), > 0
     int max_exchange_passes = 100;  // 0: greedy only
     // Also run greedy + exchange once from each candidate forced as the first
@@ -84,6 +92,10 @@ struct PlacementResult {
     std::vector<PlacementStep> greedy;     // after each greedy addition (budget entries)
     std::vector<PlacementStep> exchanges;  // after each accepted swap
 };
+
+// D of the mean_log_det criterion: per parameter and point the sum over all readings of
+// (gradient / noise)^2, 1 where that sum is 0 (parameters x points).
+Eigen::MatrixXd information_diagonal(const CandidateReadings& readings);
 
 // The criterion of any set of candidates (a user's own layout among them).
 double placement_criterion(const CandidateReadings& readings, const std::vector<int>& chosen,

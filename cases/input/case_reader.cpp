@@ -747,6 +747,132 @@ LayoutSpec read_layout(const Section& sec, const RobotSpec& robot) {
     return l;
 }
 
+// ---- placement -------------------------------------------------------------
+
+// Sizes the targets of murk layout take (target_grid.cpp): the sweep's size axis, or the
+// sweep object's own size (a sphere's radius, the largest semi-axis).
+std::vector<double> target_sizes(const CaseSpec& spec) {
+    if (!spec.sweep) return {};
+    if (!spec.sweep->size_m.empty()) return spec.sweep->size_m;
+    const std::string name = spec.sweep->object.empty() ? spec.objects.front().name : spec.sweep->object;
+    for (const ObjectSpec& o : spec.objects)
+        if (o.name == name)
+            return {o.shape.kind == ShapeKind::sphere ? o.shape.radius_m
+                                                      : std::max({o.shape.semi_axes_m[0], o.shape.semi_axes_m[1],
+                                                                  o.shape.semi_axes_m[2]})};
+    return {};
+}
+
+// candidate_rings = { from, to, count, width }: `count` rings of `width`, the first from
+// `from`, the last to `to`, the gaps between them equal; named c01, c02, ... and added to
+// the robot's sites (check_electrode_sites then refuses one that overlaps an existing site).
+std::vector<std::string> read_candidate_rings(const Section& sec, RobotSpec& robot) {
+    const toml::node& n = *sec.find("candidate_rings");
+    const Section rs{as_table(sec, "candidate_rings", n), sec.key_path("candidate_rings"), line_of(n), sec.ctx};
+    check_keys(rs, {"from", "to", "count", "width"});
+    const double from = read_quantity(rs, "from", required(rs, "from", "position along the hull axis"), Dimension::length);
+    const double to = read_quantity(rs, "to", required(rs, "to", "position along the hull axis"), Dimension::length);
+    if (!(to > from)) fail(rs.where("to"), "must lie beyond from (" + format_number(from) + " m)");
+    const int count = read_count(rs, "count", required(rs, "count", "number of rings"), 1, kMaxLayoutElectrodes);
+    const double width = required_positive(rs, "width", Dimension::length);
+    const double gap = count > 1 ? (to - from - count * width) / (count - 1) : 0.0;
+    if (count * width > to - from || (count > 1 && !(gap > 0.0)))
+        fail(rs.where("width"), std::to_string(count) + " rings of " + format_number(width) +
+                                    " m do not fit apart between from and to (" + format_number(to - from) +
+                                    " m): they would overlap each other");
+    const int digits = std::max(2, static_cast<int>(std::to_string(count).size()));
+    std::vector<std::string> names;
+    for (int k = 0; k < count; ++k) {
+        std::string number = std::to_string(k + 1);
+        ElectrodeSpec e;
+        e.name = "c" + std::string(static_cast<std::size_t>(digits) - number.size(), '0') + number;
+        e.form = ElectrodeForm::ring;
+        e.from_m = count > 1 ? from + k * (width + gap) : 0.5 * (from + to - width);
+        e.to_m = e.from_m + width;
+        e.source = SourceLine{printable(sec.ctx.file), rs.line, rs.path};
+        for (const ElectrodeSpec& other : robot.electrodes)
+            if (other.name == e.name)
+                fail(rs.where_self(), "names its rings c01, c02, ...; " + other.source.key + " is already named " +
+                                          in_quotes(e.name));
+        names.push_back(e.name);
+        robot.electrodes.push_back(std::move(e));
+    }
+    check_electrode_sites(robot);
+    return names;
+}
+
+// `rings`: the names read_candidate_rings gave, when the table has candidate_rings (read
+// before the [[layout]] tables, so that a layout may use a candidate ring).
+PlacementSpec read_placement(const Section& sec, CaseSpec& spec, const std::vector<std::string>& rings) {
+    PlacementSpec p;
+    p.line = sec.line;
+    const toml::node& dn = required(sec, "drive", "the name of the [[layout]] whose emitters drive the candidates");
+    const std::string drive = read_name(sec, "drive", dn);
+    const auto it = std::find_if(spec.layouts.begin(), spec.layouts.end(),
+                                 [&](const LayoutSpec& l) { return l.name == drive; });
+    if (it == spec.layouts.end()) fail(sec.where("drive"), "no [[layout]] is named " + in_quotes(drive));
+    if (it->reading != LayoutReading::reference)
+        fail(sec.where("drive"), "each candidate is read against the drive layout's reference; layout " +
+                                     in_quotes(drive) + " has no reference (it does not read = \"reference\")");
+    p.drive = static_cast<std::size_t>(it - spec.layouts.begin());
+
+    const bool listed = sec.find("candidates") != nullptr;
+    if (listed) {
+        const toml::array& arr = read_list(sec, "candidates", "[[robot.electrode]] names such as [\"s1\", \"s2\"]");
+        std::set<std::string> seen;
+        for (std::size_t i = 0; i < arr.size(); ++i) {
+            const toml::node& n = *arr.get(i);
+            const std::string key = "candidates[" + std::to_string(i + 1) + "]";
+            const std::string name = read_site_name(sec, key, n, *spec.robot);
+            if (!seen.insert(name).second) fail(at(sec.ctx, line_of(n), sec.key_path(key)), in_quotes(name) + " is listed twice");
+            p.candidates.push_back(name);
+        }
+    } else {
+        p.candidates = rings;
+        p.generated_rings = true;
+    }
+    const LayoutSpec& d = *it;
+    for (const std::string& c : p.candidates) {
+        const bool emits = std::any_of(d.emitters.begin(), d.emitters.end(),
+                                       [&](const LayoutEmitter& e) { return e.electrode == c; });
+        if (emits || c == d.reference)
+            fail(sec.where(listed ? "candidates" : "candidate_rings"),
+                 "site " + in_quotes(c) + (emits ? " emits" : " is the reference") + " in the drive layout " +
+                     in_quotes(d.name) + "; it cannot be a candidate");
+    }
+
+    const toml::node& bn = required(sec, "budget", "how many sensors to choose");
+    if (!bn.is_integer() || bn.as_integer()->get() < 1 ||
+        bn.as_integer()->get() > static_cast<std::int64_t>(p.candidates.size()))
+        fail(sec.where("budget"), "expected a whole number from 1 to the " + std::to_string(p.candidates.size()) +
+                                      " candidates, got " + describe(bn));
+    p.budget = static_cast<int>(bn.as_integer()->get());
+
+    const bool volume = spec.sweep && spec.sweep->grid && !spec.sweep->grid->w_m.empty();
+    const std::string criterion =
+        read_choice(sec, "criterion", required(sec, "criterion", "detectable_area, detectable_volume or mean_log_det"),
+                    {"detectable_area", "detectable_volume", "mean_log_det"});
+    if (criterion == "detectable_volume" && !volume)
+        fail(sec.where("criterion"), "the targets lie on a plane (no sweep.grid.w): use \"detectable_area\"");
+    if (criterion == "detectable_area" && volume)
+        fail(sec.where("criterion"), "the targets fill a volume (sweep.grid.w): use \"detectable_volume\"");
+    p.goal = criterion == "mean_log_det" ? PlacementGoal::mean_log_det : PlacementGoal::detectable_region;
+
+    if (const toml::node* n = sec.find("target_size")) {
+        const double size = positive_quantity(sec, "target_size", *n, Dimension::length);
+        const std::vector<double> sizes = target_sizes(spec);
+        const bool known = std::any_of(sizes.begin(), sizes.end(),
+                                       [&](double s) { return std::abs(s - size) <= 1e-9 * std::max(s, size); });
+        if (!known && !sizes.empty()) {
+            std::string list;
+            for (double s : sizes) list += (list.empty() ? "" : ", ") + format_number(s) + " m";
+            fail(sec.where("target_size"), "is not one of the target sizes (" + list + ")");
+        }
+        p.target_size_m = size;
+    }
+    return p;
+}
+
 ObjectSpec read_object(const Section& sec, std::size_t index) {
     const ShapeKind kind = read_shape_kind(sec);
     check_keys(sec, concat({"name", "shape", "position", "heading", "pitch", "roll", "conductivity", "permittivity",
@@ -1154,7 +1280,7 @@ DetectionSpec read_detection(const Section& sec) {
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
-                     "probe", "sweep", "detection", "layout"});
+                     "probe", "sweep", "detection", "layout", "placement"});
     CaseSpec spec;
     spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
     if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
@@ -1179,8 +1305,26 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (fish && robot) fail(sec.where("robot"), "a case has one sensing body: [fish] or [robot], not both");
     if (fish) spec.fish = read_fish(Section{as_table(sec, "fish", *fish), "fish", line_of(*fish), ctx});
     const bool layouts = sec.find("layout") != nullptr;
+    if (const toml::node* pl = sec.find("placement"); pl && !layouts)  // before the robot's sites are read as roles
+        fail(at(ctx, line_of(*pl), "placement"),
+             "placement drives the candidates with the emitters of a [[layout]]; the case has none");
     if (robot) spec.robot = read_robot(Section{as_table(sec, "robot", *robot), "robot", line_of(*robot), ctx}, layouts);
     if (layouts && !robot) fail(sec.where("layout"), "layouts place electrodes on a robot's hull; the case has no [robot]");
+    // [placement]'s own keys first, and its generated rings added to the sites before the
+    // layouts are read (a layout may name them); the rest once the layouts are known.
+    std::optional<Section> placement;
+    std::vector<std::string> candidate_rings;
+    if (const toml::node* pl = sec.find("placement")) {
+        placement.emplace(Section{as_table(sec, "placement", *pl), "placement", line_of(*pl), ctx});
+        check_keys(*placement, {"drive", "candidates", "candidate_rings", "budget", "criterion", "target_size"});
+        if (!spec.robot) fail(sec.where("placement"), "placement chooses a robot's sensors; the case has no [robot]");
+        const bool listed = placement->find("candidates") != nullptr;
+        if (listed == (placement->find("candidate_rings") != nullptr))
+            fail(placement->where(listed ? "candidate_rings" : "candidates"),
+                 "give the candidates either as a list of sites (candidates) or as generated rings (candidate_rings), "
+                 "one of the two");
+        if (!listed) candidate_rings = read_candidate_rings(*placement, *spec.robot);
+    }
     std::set<std::string> layout_names;
     read_tables(sec, "layout", [&](const Section& ls, std::size_t) {
         if (spec.layouts.size() >= kMaxLayouts)
@@ -1222,6 +1366,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (placement) spec.placement = read_placement(*placement, spec, candidate_rings);
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.layouts.empty())
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "each [[layout]] says how its sensors are read; remove readings");
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.robot)

@@ -10,6 +10,7 @@
 #include <optional>
 
 #include "cases/input/layout_spec.hpp"
+#include "cases/input/placement_spec.hpp"
 #include "cases/input/sweep_spec.hpp"
 #include <string>
 #include <vector>
@@ -257,6 +258,8 @@ struct CaseSpec {
     // any, robot->electrodes are the hull's sites, all floating; layout_case() makes the
     // case of one layout.
     std::vector<LayoutSpec> layouts;
+    // [placement]: sensors chosen from candidate sites (murk layout; solve and run ignore it).
+    std::optional<PlacementSpec> placement;
 };
 
 // Electrodes made for perfectly conducting objects are named "object:<name>", so

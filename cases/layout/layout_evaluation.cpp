@@ -3,6 +3,7 @@
 #include "cases/input/layout_case.hpp"
 #include "cases/layout/layout_localization.hpp"
 #include "cases/layout/layout_noise.hpp"
+#include "cases/layout/layout_placement.hpp"
 #include "cases/layout/sensitivity_map.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "solver/dipole_path.hpp"
@@ -120,9 +121,10 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
     for (std::size_t s = 0; s < grid.size_m.size(); ++s) q.sizes.push_back(evaluate_size(q, grid, placement, s));
     q.localization_accuracy_m = spec.detection->localization_accuracy_m;
     q.localization_size_unknown = spec.detection->localization_size_unknown;
-    if (q.localization_accuracy_m > 0) {
+    const bool placement_gradients_wanted = spec.placement && spec.placement->goal == PlacementGoal::mean_log_det;
+    if (q.localization_accuracy_m > 0 || placement_gradients_wanted) {
         const LeadFields<double> lead(fixed, q.readout.rows);
-        for (std::size_t s = 0; s < grid.size_m.size(); ++s) {
+        for (std::size_t s = 0; s < grid.size_m.size() && q.localization_accuracy_m > 0; ++s) {
             SizeQuantities& sq = q.sizes[s];
             const std::optional<double> unknown_size =
                 q.localization_size_unknown ? std::optional<double>(grid.size_m[s]) : std::nullopt;
@@ -130,6 +132,8 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
                              q.localization_accuracy_m);
             sq.localizable_area_m2 = flagged_region(grid, sq.within_accuracy);
         }
+        if (placement_gradients_wanted)
+            q.placement_gradient = placement_gradients(lead, grid, placement, placement_size_index(spec, grid));
     }
     q.map_seconds = seconds_since(t0);
     return q;

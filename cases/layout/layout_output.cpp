@@ -239,4 +239,73 @@ void write_layout_comparison(const H5Group& root, const std::vector<LayoutQuanti
             .label_dimensions({"layout", "size"});
 }
 
+void write_placement(const H5Group& root, const PlacementQuantities& p) {
+    const H5Group g = root.group("placement");
+    const PlacementResult& r = p.result;
+    std::string chosen_names;  // also as one attribute, for readers of plain attributes (murk inspect)
+    std::vector<std::string> chosen;
+    std::vector<std::int32_t> chosen_index;
+    std::vector<std::uint8_t> is_chosen(p.candidates.size(), 0);
+    for (int c : r.chosen) {
+        chosen.push_back(p.candidates[std::size_t(c)]);
+        chosen_index.push_back(c);
+        is_chosen[std::size_t(c)] = 1;
+        chosen_names += (chosen_names.empty() ? "" : ",") + p.candidates[std::size_t(c)];
+    }
+    g.set_attribute("criterion", p.criterion);
+    g.set_attribute("drive_layout", p.drive);
+    g.set_attribute("chosen_names", chosen_names);
+    std::string joined;
+    for (const std::string& n : p.candidates) joined += (joined.empty() ? "" : ",") + n;
+    g.set_attribute("candidate_names", joined);
+    joined.clear();
+    for (const std::string& n : p.layouts) joined += (joined.empty() ? "" : ",") + n;
+    g.set_attribute("layout_names", joined);
+    g.write_label_coordinate("candidate", p.candidates, "candidate site");
+    g.write_label_coordinate("chosen", chosen, "chosen site");
+    g.write_label_coordinate("layout", p.layouts, "layout name");
+    std::vector<std::int32_t> steps;
+    for (std::size_t k = 0; k < r.greedy.size(); ++k) steps.push_back(std::int32_t(k + 1));
+    g.write_coordinate("step", steps, "1", "greedy step: number of sensors chosen");
+
+    const std::string what = p.criterion == "mean_log_det"
+                                 ? "mean over the targets of the log-determinant of the scaled Fisher information"
+                                 : p.criterion == "detectable_area" ? "area of the grid where the target is detectable"
+                                                                    : "volume of the grid where the target is detectable";
+    g.write("is_chosen", is_chosen, {is_chosen.size()}, "1", "whether the candidate is chosen")
+        .label_dimensions({"candidate"})
+        .set_flags(std::vector<std::uint8_t>{0, 1}, kChosenWords);
+    g.write("chosen_candidate", chosen_index, {chosen_index.size()}, "1", "index of the chosen site among the candidates")
+        .label_dimensions({"chosen"});
+    std::vector<std::int32_t> added;
+    std::vector<double> greedy;
+    for (const PlacementStep& s : r.greedy) added.push_back(s.added), greedy.push_back(s.criterion);
+    g.write("greedy_added", added, {added.size()}, "1", "index of the candidate each greedy step adds")
+        .label_dimensions({"step"});
+    g.write("greedy_criterion", greedy, {greedy.size()}, p.units, what + ", after each greedy step")
+        .label_dimensions({"step"});
+    g.write("greedy_start", std::vector<std::int32_t>{r.start}, H5Shape{}, "1",
+            "candidate the winning greedy run was made to start from (-1: the plain greedy run)");
+    if (!r.exchanges.empty()) {  // no dimension of length 0
+        index_coordinate(g, "exchange", r.exchanges.size(), "exchange accepted after the greedy steps");
+        std::vector<std::int32_t> in, out;
+        std::vector<double> value;
+        for (const PlacementStep& s : r.exchanges) in.push_back(s.added), out.push_back(s.removed), value.push_back(s.criterion);
+        g.write("exchange_added", in, {in.size()}, "1", "index of the candidate the exchange brings in")
+            .label_dimensions({"exchange"});
+        g.write("exchange_removed", out, {out.size()}, "1", "index of the candidate the exchange takes out")
+            .label_dimensions({"exchange"});
+        g.write("exchange_criterion", value, {value.size()}, p.units, what + ", after each exchange")
+            .label_dimensions({"exchange"});
+    }
+    g.write("final_criterion", std::vector<double>{r.criterion}, H5Shape{}, p.units, what + ", of the chosen sites");
+    g.write("layout_criterion", p.layout_criterion, {p.layout_criterion.size()}, p.units,
+            what + ", of each layout on the same targets")
+        .label_dimensions({"layout"});
+    g.write("target_size", std::vector<double>{p.target_size_m}, H5Shape{}, "m", "target size the criterion uses");
+    g.write("target_points", std::vector<std::int32_t>{std::int32_t(p.points)}, H5Shape{}, "1",
+            "number of target positions the criterion counts");
+    g.write("channel_noise", std::vector<double>{p.channel_noise_V}, H5Shape{}, "V", "rms noise of one candidate reading");
+}
+
 }  // namespace murk

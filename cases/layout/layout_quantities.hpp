@@ -63,6 +63,9 @@ struct LayoutQuantities {
     double localization_accuracy_m = 0;       // 0: no localization bound asked for
     bool localization_size_unknown = false;   // the size is a fourth parameter of the bound
     std::vector<SizeQuantities> sizes;        // one per target size
+    // [placement] with mean_log_det only: d(reading change)/d(x, y, z) of the target of the
+    // placement's size, readings x grid points each, NaN where it does not fit (layout_placement.hpp).
+    std::vector<Eigen::MatrixXd> placement_gradient;
     double factor_seconds = 0, map_seconds = 0;
 };
 

@@ -3,6 +3,7 @@
 #include "cases/layout/layout_evaluation.hpp"
 #include "cases/layout/layout_noise.hpp"
 #include "cases/layout/layout_output.hpp"
+#include "cases/layout/layout_placement.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "cases/output/result_metadata.hpp"
 #include "cases/scene/scene_builder.hpp"
@@ -40,6 +41,19 @@ LayoutRun evaluate_layouts(const CaseSpec& spec, const QuadratureOptions& quad, 
             std::printf("layout %s: %zu readings, factored in %.2f s, maps of %zu points in %.2f s\n", q.name.c_str(),
                         q.readout.names.size(), q.factor_seconds, run.grid.size(), q.map_seconds);
     }
+    if (spec.placement) {                                        // 4. placement
+        run.placement = place_layout_sensors(spec, run.grid, placement, run.layouts, quad);
+        const PlacementQuantities& p = *run.placement;
+        if (!quiet) {
+            std::printf("placement: %d of %zu candidates by %s in %.2f s (body of %ld unknowns %.2f s, lead fields "
+                        "and responses %.2f s, choice %.2f s); chosen",
+                        spec.placement->budget, p.candidates.size(), p.criterion.c_str(),
+                        p.factor_seconds + p.lead_seconds + p.choose_seconds, p.unknowns, p.factor_seconds,
+                        p.lead_seconds, p.choose_seconds);
+            for (int c : p.result.chosen) std::printf(" %s", p.candidates[std::size_t(c)].c_str());
+            std::printf("\n");
+        }
+    }
     return run;
 }
 
@@ -52,7 +66,8 @@ LayoutRun run_layouts(const CaseSpec& spec, const LayoutOptions& options) {
     const H5Group layouts = root.group("layouts");
     for (const LayoutQuantities& q : run.layouts) write_layout(layouts, q, run.grid);
     write_layout_comparison(root, run.layouts, run.grid);
-    out.commit();  // 4. written under OUT.h5.partial, renamed onto OUT.h5
+    if (run.placement) write_placement(root, *run.placement);
+    out.commit();  // 5. written under OUT.h5.partial, renamed onto OUT.h5
     if (!options.quiet) std::printf("wrote %s\n", options.output_path.c_str());
     return run;
 }

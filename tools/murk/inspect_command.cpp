@@ -742,6 +742,74 @@ void print_layouts(const H5Group& root) {
         std::printf("  localized: the position bound with the target's size unknown, estimated with it\n");
 }
 
+// The [placement] of a murk layout result: /placement.
+void print_placement(const H5Group& root) {
+    const H5Group g = root.open_group("placement");
+    const std::string criterion = g.string_attribute("criterion");
+    const bool log_det = criterion == "mean_log_det";
+    const bool volume = criterion == "detectable_volume";
+    const auto value = [&](double v) {
+        return log_det ? format("%.4g", v) : volume ? format("%.4g cm3", v * 1e6) : format("%.4g cm2", v * 1e4);
+    };
+    const std::vector<double> greedy = numbers(g.dataset("greedy_criterion"));
+    const H5Array<std::int32_t> added = g.dataset("greedy_added").read<std::int32_t>();
+    const H5Array<std::int32_t> chosen = g.dataset("chosen_candidate").read<std::int32_t>();
+    const std::vector<double> final_value = numbers(g.dataset("final_criterion"));
+    const std::vector<double> layouts = numbers(g.dataset("layout_criterion"));
+    const std::vector<std::string> layout_names = split_commas(g.string_attribute("layout_names"));
+    const H5Array<std::uint8_t> is_chosen = g.dataset("is_chosen").read<std::uint8_t>();
+    const std::size_t candidates = is_chosen.values.size();
+    std::vector<std::string> names = split_commas(g.string_attribute("candidate_names"));
+    if (names.size() != candidates) {  // a name with a comma in it: number them instead
+        names.clear();
+        for (std::size_t c = 0; c < candidates; ++c) names.push_back(format("#%zu", c));
+    }
+    const auto name = [&](std::int32_t c) {
+        if (c < 0 || std::size_t(c) >= candidates) malformed(g, "names a candidate that does not exist");
+        return names[std::size_t(c)];
+    };
+    if (greedy.size() != added.values.size() || final_value.size() != 1 || layouts.size() != layout_names.size())
+        malformed(g, "does not hold one value per greedy step and per layout");
+    std::printf("placement: %zu of %zu candidates by %s (target size %s, %s targets), driven as layout %s\n",
+                chosen.values.size(), candidates, criterion.c_str(),
+                millimetres(numbers(g.dataset("target_size")).at(0)).c_str(),
+                format("%d", g.dataset("target_points").read<std::int32_t>().values.at(0)).c_str(),
+                g.string_attribute("drive_layout").c_str());
+    std::string list;
+    for (std::int32_t c : chosen.values) list += (list.empty() ? "" : ", ") + name(c);
+    std::printf("  chosen sites: %s\n", list.c_str());
+    Table steps({"step", "added", criterion});
+    for (std::size_t k = 0; k < greedy.size(); ++k)
+        steps.add({format("greedy %zu", k + 1), name(added.values[k]), value(greedy[k])});
+    if (g.exists("exchange_criterion")) {
+        const std::vector<double> swaps = numbers(g.dataset("exchange_criterion"));
+        const H5Array<std::int32_t> in = g.dataset("exchange_added").read<std::int32_t>();
+        const H5Array<std::int32_t> out = g.dataset("exchange_removed").read<std::int32_t>();
+        if (in.values.size() != swaps.size() || out.values.size() != swaps.size())
+            malformed(g, "does not hold one value per exchange");
+        for (std::size_t k = 0; k < swaps.size(); ++k)
+            steps.add({format("exchange %zu", k + 1), name(in.values[k]) + " for " + name(out.values[k]), value(swaps[k])});
+    }
+    std::printf("  criterion after each step:\n");
+    steps.print("    ");
+    std::printf("  chosen sites: %s\n", value(final_value[0]).c_str());
+    std::size_t best = 0;
+    for (std::size_t l = 0; l < layouts.size(); ++l)
+        if (layouts[l] > layouts[best]) best = l;
+    Table cmp({"layout", criterion});
+    for (std::size_t l = 0; l < layouts.size(); ++l) cmp.add({layout_names[l], value(layouts[l])});
+    std::printf("  layouts on the same targets and criterion:\n");
+    cmp.print("    ");
+    if (layouts.empty()) return;
+    if (log_det)
+        std::printf("  best layout: %s, %s; the chosen sites %s (%+.3g)\n", layout_names[best].c_str(),
+                    value(layouts[best]).c_str(), value(final_value[0]).c_str(), final_value[0] - layouts[best]);
+    else
+        std::printf("  best layout: %s, %s; the chosen sites %s (%s)\n", layout_names[best].c_str(),
+                    value(layouts[best]).c_str(), value(final_value[0]).c_str(),
+                    layouts[best] > 0 ? format("x%.3g", final_value[0] / layouts[best]).c_str() : "the layout detects nowhere");
+}
+
 int inspect_command(const InspectArgs& args) {
     if (PointJournal::is_journal(args.path)) {
         print_journal(args.path);
@@ -750,8 +818,10 @@ int inspect_command(const InspectArgs& args) {
     const H5File file = H5File::open_readonly(args.path);
     const H5Group root = file.root();
     print_header(file, root);
-    if (root.exists("layout_comparison"))
+    if (root.exists("layout_comparison")) {
         print_layouts(root);
+        if (root.exists("placement")) print_placement(root);
+    }
     else if (root.exists(layout::kSweep))
         print_run(root);
     else
