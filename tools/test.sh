@@ -60,6 +60,11 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # cli_placement_run (murk layout with [placement], twice, on a 2,343-unknown body plus four layouts,
 # xarray and the plot: about 35 s in build/ on a busy machine) likewise: the [placement]
 # reader and the placement stage are unit-tested sanitized on a small body.
+# Also left out, measured on a clean clone on 2 quiet cores (2026-12-03), where the sanitized
+# run took 16 minutes of a 42-minute CI: cli_disk_full (403 s sanitized, 11 s in build/: the
+# fish demo run again and again under file-size limits; a full disk is then tested in build/
+# only) and cli_run_refusals (272 s, 10 s; cli_bad_input runs murk's refusals sanitized, and the
+# readers' refusals are unit-tested sanitized).
 # "electrode hulls: the drive current of two rings converges monotonically" solves four dense
 # systems of up to 4,536 panels (7 s in build/ on a busy machine, minutes sanitized); the hulls
 # it meshes are unit-tested sanitized by the area and quality tests beside it. "patch electrodes:
@@ -68,6 +73,7 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # unit-tested sanitized in tests/test_geometry_electrode_cut.cpp.
 slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare|cli_placement_run'
 slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
+slow+='|cli_disk_full|cli_run_refusals'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*"
 slow+="|electrode hulls: the drive current of two rings converges monotonically.*"
