@@ -50,7 +50,10 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # on every example (cli_solve_examples, 84 s sanitized; cli_solve_signs runs murk
 # solve on direct-current and complex cases under the sanitizers). build/ runs every
 # test. A clean clone's whole CI run took 18.7 minutes on two cores with
-# cli_solve_examples sanitized; without it about 17.
+# cli_solve_examples sanitized, without it about 17 (2026-11); by 2026-12-03, with the layout,
+# electrode-cut and placement code, 44 minutes on two quiet cores (build 8, tests 4, sanitizer
+# build 12, sanitized tests 16, fuzz 4), and the sanitized tests 10 minutes with the two left
+# out below.
 # Also left out: the tests that run murk many times over as other programs drive it (thirty
 # kills and resumes, two runs racing for one output, MPI ranks, a Slurm array, shares and merge, the netCDF readers and
 # ParaView on the demo); the journal, placement, shares and merge code they drive is unit-tested
