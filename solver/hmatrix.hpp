@@ -1,0 +1,68 @@
+#pragma once
+// A hierarchical matrix (H-matrix): a square matrix whose rows and columns both
+// belong to points in space, stored block by block over a cluster tree. Blocks
+// of clusters far apart compared with their size (the standard admissibility
+// condition min(diam) <= eta * dist) hold a smooth kernel and are stored as low
+// rank products U V^T, found by adaptive cross approximation from a few of their
+// rows and columns and then recompressed; the other blocks are stored dense
+// (Bebendorf 2008, "Hierarchical Matrices"; Hackbusch 2015, "Hierarchical
+// Matrices: Algorithms and Analysis"). Memory and a product with a vector cost
+// about N log N instead of N^2.
+//
+// The matrix is never formed: `entries` computes any sub-block on request. It is
+// called from several threads at once and must be safe to call so.
+#include "solver/bem_system.hpp"
+#include "solver/cluster_tree.hpp"
+
+#include <functional>
+#include <vector>
+
+namespace murk {
+
+// Fills out (rows.size() x cols.size(), already sized) with A(rows[i], cols[j]).
+// Indices are the caller's (original) numbering.
+template <class S>
+using BlockEntries =
+    std::function<void(const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols, MatrixX<S>& out)>;
+
+struct HMatrixOptions {
+    Eigen::Index leaf_size = 64;  // largest cluster that is not split
+    double eta = 2.0;             // admissible when min(diam) <= eta * dist
+    double tolerance = 1e-8;      // relative accuracy of every low-rank block (Frobenius)
+};
+
+struct HMatrixStats {
+    std::size_t dense_blocks = 0, low_rank_blocks = 0;
+    std::size_t bytes = 0;       // stored entries of all blocks
+    int max_rank = 0;
+    double mean_rank = 0;        // over low-rank blocks
+    double build_seconds = 0;
+    double compression() const;  // bytes / bytes of the dense matrix (filled in by HMatrix)
+    double dense_bytes = 0;
+};
+
+template <class S>
+class HMatrix {
+public:
+    // Rows and columns are both numbered by the columns of `points` (row i and
+    // column i lie at points.col(i)).
+    HMatrix(const Eigen::Matrix3Xd& points, const BlockEntries<S>& entries, const HMatrixOptions& options);
+
+    Eigen::Index size() const;
+    // y = A x and y = A^T x (transpose, no conjugation), in the original numbering.
+    VectorX<S> apply(const VectorX<S>& x) const;
+    VectorX<S> apply_transposed(const VectorX<S>& x) const;
+    // The whole matrix (for tests on small sizes).
+    MatrixX<S> to_dense() const;
+    const ClusterTree& tree() const;
+    const HMatrixStats& stats() const;
+
+private:
+    struct Impl;
+    std::shared_ptr<const Impl> impl_;
+};
+
+extern template class HMatrix<double>;
+extern template class HMatrix<Complex>;
+
+}  // namespace murk
