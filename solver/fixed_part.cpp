@@ -13,7 +13,9 @@ double seconds_since(std::chrono::steady_clock::time_point t0) {
 }  // namespace
 
 template <class S>
-FixedPart<S>::FixedPart(Scene<S> scene, const QuadratureOptions& options) : scene_(std::move(scene)) {
+FixedPart<S>::FixedPart(Scene<S> scene, const QuadratureOptions& options, const SolverOptions& solver)
+    : scene_(std::move(scene)) {
+    (void)solver;
     layout_ = system_layout(scene_);
     water_points_.resize(3, 0);
     if (scene_.surfaces.empty()) return;
@@ -62,6 +64,13 @@ MatrixX<S> FixedPart<S>::solve_transposed(const MatrixX<S>& b) const {
 template <class S>
 std::size_t FixedPart<S>::factor_bytes() const {
     return static_cast<std::size_t>(size()) * static_cast<std::size_t>(size()) * sizeof(S);
+}
+
+template <class S>
+typename FixedPart<S>::SolverReport FixedPart<S>::report() const {
+    SolverReport r;
+    r.solver = "dense";
+    return r;
 }
 
 template class FixedPart<double>;

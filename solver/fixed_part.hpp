@@ -6,8 +6,10 @@
 // The stored factors are only read after construction, so any number of threads
 // may solve against one FixedPart at once.
 #include "solver/bem_system.hpp"
+#include "solver/solver_options.hpp"
 
 #include <Eigen/LU>
+#include <memory>
 #include <optional>
 
 namespace murk {
@@ -20,7 +22,9 @@ public:
     FixedPart(FixedPart&&) = default;
     // Assembles and factors the whole system of `scene` (which may have no
     // surfaces at all: then there is nothing to factor and every solve is empty).
-    FixedPart(Scene<S> scene, const QuadratureOptions& options);
+    // `solver` chooses dense LU or the compressed operator with an iterative
+    // solve (solver_options.hpp); every solve below works the same with either.
+    FixedPart(Scene<S> scene, const QuadratureOptions& options, const SolverOptions& solver = {});
 
     const Scene<S>& scene() const { return scene_; }
     const SystemLayout& layout() const { return layout_; }
@@ -40,13 +44,27 @@ public:
     MatrixX<S> solve(const MatrixX<S>& b) const;
     MatrixX<S> solve_transposed(const MatrixX<S>& b) const;
 
-    // Bytes held by the factors (the dense LU dominates).
+    // Bytes held by the factors (the dense LU, or the compressed operator and
+    // its preconditioner).
     std::size_t factor_bytes() const;
     double assembly_seconds() const { return assembly_seconds_; }
+    // Dense: the LU; compressed: the compression and the preconditioner.
     double factor_seconds() const { return factor_seconds_; }
+    // Whether the compressed operator is used, and what it is (for output).
+    bool compressed() const { return static_cast<bool>(compressed_); }
+    struct SolverReport {
+        std::string solver;                 // "dense" or "compressed"
+        double compression_tolerance = 0;   // compressed only
+        double iteration_tolerance = 0;     // compressed only
+        double compression_ratio = 1;       // stored / dense bytes of the operator
+        int baseline_iterations = 0;        // of the fixed part's own solve
+    };
+    SolverReport report() const;
 
 private:
+    struct Compressed;  // compressed_system.hpp
     Scene<S> scene_;
+    std::shared_ptr<const Compressed> compressed_;
     SystemLayout layout_;
     // Factored in place (Eigen's inplace decomposition): the dense system is held once.
     MatrixX<S> factors_;
