@@ -91,4 +91,63 @@ void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sour
     }
 }
 
+LayerValues layer_pair(const Vec3& x, const PanelSet& src, Eigen::Index k, const QuadratureOptions& options,
+                       bool is_self) {
+    const Vec3 c = src.centroid.col(k);
+    const Vec3 p0 = src.p0.col(k), p1 = src.p1.col(k), p2 = src.p2.col(k);
+    LayerValues v;
+    if (is_self) {
+        v.single = single_layer_triangle(x, p0, p1, p2);
+        return v;
+    }
+    const double d2 = (x - c).squaredNorm();
+    const double diameter = src.diameter(k);
+    if (d2 >= std::pow(options.far_ratio * diameter, 2)) {  // the centroid rule, as fill_column writes it
+        const double dx = x(0) - c(0), dy = x(1) - c(1), dz = x(2) - c(2);
+        const double inv_r = 1.0 / std::sqrt(dx * dx + dy * dy + dz * dz);
+        const double a = src.area(k) * kInvFourPi;
+        v.single = a * inv_r;
+        v.dbl = a * (src.normal(0, k) * dx + src.normal(1, k) * dy + src.normal(2, k) * dz) * inv_r * inv_r * inv_r;
+    } else if (d2 < std::pow(options.near_ratio * diameter, 2)) {
+        v.single = single_layer_triangle(x, p0, p1, p2);
+        v.dbl = double_layer_triangle(x, p0, p1, p2);
+    } else {
+        v = radon7_layers(x, p0, p1, p2, src.normal.col(k), src.area(k));
+    }
+    return v;
+}
+
+Eigen::VectorXd double_layer_row_sums(const PanelSet& panels, const QuadratureOptions& options) {
+    const Eigen::Index n = panels.size();
+    Eigen::VectorXd sums(n);
+    const double* c = panels.centroid.data();
+    const double* nrm = panels.normal.data();
+    Eigen::VectorXd scaled_area = panels.area * kInvFourPi;
+    Eigen::VectorXd far2 = (options.far_ratio * panels.diameter).array().square();
+    const double* a = scaled_area.data();
+#pragma omp parallel for schedule(dynamic, 64)
+    for (Eigen::Index i = 0; i < n; ++i) {
+        const double x = c[3 * i], y = c[3 * i + 1], z = c[3 * i + 2];
+        // The centroid rule on every other panel (branch-free, vectorized), then
+        // the near panels' better rules replace their centroid values.
+        double sum = 0.0;
+        auto centroid_term = [&](Eigen::Index k) {
+            const double dx = x - c[3 * k], dy = y - c[3 * k + 1], dz = z - c[3 * k + 2];
+            const double inv_r = 1.0 / std::sqrt(dx * dx + dy * dy + dz * dz);
+            return a[k] * (nrm[3 * k] * dx + nrm[3 * k + 1] * dy + nrm[3 * k + 2] * dz) * inv_r * inv_r * inv_r;
+        };
+        for (Eigen::Index k = 0; k < i; ++k) sum += centroid_term(k);
+        for (Eigen::Index k = i + 1; k < n; ++k) sum += centroid_term(k);
+        const Vec3 xi(x, y, z);
+        for (Eigen::Index k = 0; k < n; ++k) {
+            if (k == i) continue;
+            const double dx = x - c[3 * k], dy = y - c[3 * k + 1], dz = z - c[3 * k + 2];
+            if (dx * dx + dy * dy + dz * dz >= far2[k]) continue;
+            sum += layer_pair(xi, panels, k, options, false).dbl - centroid_term(k);
+        }
+        sums(i) = sum;
+    }
+    return sums;
+}
+
 }  // namespace murk

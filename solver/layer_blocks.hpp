@@ -15,6 +15,7 @@
 #include "geometry/eigen_core.hpp"
 #include "solver/panel_set.hpp"
 #include "solver/quadrature_options.hpp"
+#include "solver/triangle_integrals.hpp"
 
 namespace murk {
 
@@ -29,5 +30,20 @@ void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sour
 void assemble_layer_blocks(const Eigen::Matrix3Xd& targets, const PanelSet& sources,
                            const QuadratureOptions& options, bool targets_are_centroids, Eigen::Index first_target,
                            Eigen::Ref<Eigen::MatrixXd> single, Eigen::Ref<Eigen::MatrixXd> dbl);
+
+// One entry of those blocks: target x against source panel k, by the same rule
+// choice as assemble_layer_blocks (centroid rule far, Radon rule between, closed
+// form near). With is_self (x is panel k's own centroid) the single layer is the
+// closed form and the double layer the principal value 0: the caller supplies
+// the Gauss's-law diagonal (double_layer_row_sums). Compressed operators ask
+// for entries one at a time, never for whole strips.
+LayerValues layer_pair(const Vec3& x, const PanelSet& sources, Eigen::Index k, const QuadratureOptions& options,
+                       bool is_self);
+
+// For every panel i of a closed surface, the sum over the other panels k of its
+// double layer at centroid i, as assemble_layer_blocks computes the entries (up
+// to the order of summation); the Gauss's-law diagonal is then -1/2 minus this.
+// Costs N^2 entry evaluations without storing any of them.
+Eigen::VectorXd double_layer_row_sums(const PanelSet& panels, const QuadratureOptions& options);
 
 }  // namespace murk

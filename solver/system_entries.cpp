@@ -1,0 +1,132 @@
+#include "solver/system_entries.hpp"
+
+#include "geometry/internal_check.hpp"
+#include "solver/layer_blocks.hpp"
+
+#include <numeric>
+
+namespace murk {
+
+namespace {
+Vec3 mirrored(const InsulatingPlane& plane, const Vec3& x) {
+    return x - 2.0 * (x - plane.point).dot(plane.normal) * plane.normal;
+}
+// Interior potential coefficient of q on a membrane: phi_in = u + rho_s * sigma_w * q
+// (as in bem_system_impl.hpp).
+template <class S>
+S membrane_factor(const Scene<S>& scene, const Surface<S>& surface) {
+    return surface.kind == InterfaceKind::membrane ? surface.membrane_resistance * scene.water_conductivity : S(0);
+}
+}  // namespace
+
+template <class S>
+SystemEntries<S>::SystemEntries(const Scene<S>& scene, const QuadratureOptions& options)
+    : scene_(&scene), options_(options), layout_(system_layout(scene)) {
+    const Eigen::Index n = layout_.electrode_offset;
+    surface_of_.resize(n), panel_of_.resize(n), interior_row_.assign(n, 0), q_column_.assign(n, 0);
+    points_.resize(3, n);
+    for (std::size_t s = 0; s < scene.surfaces.size(); ++s) {
+        panels_.emplace_back(scene.surfaces[s].mesh);
+        const PanelSet& p = panels_.back();
+        const auto& block = layout_.surfaces[s];
+        for (int side = 0; side < (block.two_sided ? 2 : 1); ++side)
+            for (Eigen::Index k = 0; k < block.panels; ++k) {
+                const Eigen::Index u = block.offset + side * block.panels + k;
+                surface_of_[u] = int(s), panel_of_[u] = k;
+                points_.col(u) = p.centroid.col(k);
+                interior_row_[u] = side == 1;
+                q_column_[u] = side == 1 || (!block.two_sided && scene.surfaces[s].panel_electrode[k] >= 0);
+            }
+        // Gauss's law closes each row of the surface's own double layer (layer_blocks.hpp).
+        gauss_diagonal_.push_back((-0.5 - double_layer_row_sums(p, options).array()).matrix());
+        Eigen::Matrix3Xd m(3, p.size());
+        if (scene.plane)
+            for (Eigen::Index k = 0; k < p.size(); ++k) m.col(k) = mirrored(*scene.plane, p.centroid.col(k));
+        mirrored_.push_back(std::move(m));
+    }
+    // The right-hand side: the rows of the whole system against no columns.
+    std::vector<Eigen::Index> all(std::size_t(layout_.size));
+    std::iota(all.begin(), all.end(), Eigen::Index(0));
+    rhs_ = assemble_block(scene, layout_, options, all, {}).rhs;
+}
+
+template <class S>
+S SystemEntries<S>::entry(Eigen::Index row, Eigen::Index col) const {
+    const int a = surface_of_[row], b = surface_of_[col];
+    const Eigen::Index i = panel_of_[row], k = panel_of_[col];
+    const bool self = a == b && i == k;
+    const PanelSet& src = panels_[b];
+    if (interior_row_[row]) {
+        // Interior equation of surface a: only its own panels bound its interior.
+        if (a != b) return S(0);
+        const LayerValues v = layer_pair(panels_[a].centroid.col(i), src, k, options_, self);
+        const double kk = (self ? gauss_diagonal_[a](i) : v.dbl) + (self ? 0.5 : 0.0);
+        if (!q_column_[col]) return S(kk);
+        const Surface<S>& surface = scene_->surfaces[a];
+        return kk * membrane_factor(*scene_, surface) + (scene_->water_conductivity / surface.inner_conductivity) * v.single;
+    }
+    // Water equation on surface a.
+    LayerValues v = layer_pair(panels_[a].centroid.col(i), src, k, options_, self);
+    if (self) v.dbl = gauss_diagonal_[a](i);
+    if (scene_->plane) {
+        const LayerValues w = layer_pair(mirrored_[a].col(i), src, k, options_, false);
+        v.single += w.single, v.dbl += w.dbl;
+    }
+    if (q_column_[col]) return S(-v.single);
+    return S(-v.dbl + (self ? 0.5 : 0.0));
+}
+
+template <class S>
+void SystemEntries<S>::panel_block(const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                                   MatrixX<S>& out) const {
+    out.resize(Eigen::Index(rows.size()), Eigen::Index(cols.size()));
+    for (std::size_t j = 0; j < cols.size(); ++j) {
+        MURK_CHECK(cols[j] >= 0 && cols[j] < panel_unknowns(), "a block's columns are panel unknowns");
+        for (std::size_t i = 0; i < rows.size(); ++i) {
+            MURK_CHECK(rows[i] >= 0 && rows[i] < panel_unknowns(), "a block's rows are panel unknowns");
+            out(Eigen::Index(i), Eigen::Index(j)) = entry(rows[i], cols[j]);
+        }
+    }
+}
+
+template <class S>
+MatrixX<S> SystemEntries<S>::electrode_columns() const {
+    const Eigen::Index n = panel_unknowns();
+    MatrixX<S> out = MatrixX<S>::Zero(n, electrodes());
+    if (electrodes() == 0) return out;
+    // Electrode panels (surface, panel, electrode): their potential is the electrode's.
+    struct Site { int surface; Eigen::Index panel; int electrode; };
+    std::vector<Site> sites;
+    for (std::size_t s = 0; s < scene_->surfaces.size(); ++s)
+        if (!layout_.surfaces[s].two_sided)
+            for (Eigen::Index k = 0; k < layout_.surfaces[s].panels; ++k)
+                if (const int e = scene_->surfaces[s].panel_electrode[k]; e >= 0) sites.push_back({int(s), k, e});
+#pragma omp parallel for schedule(dynamic, 64)
+    for (Eigen::Index row = 0; row < n; ++row) {
+        if (interior_row_[row]) continue;  // only sealed surfaces carry electrodes, and only their own rows see them
+        const int a = surface_of_[row];
+        const Eigen::Index i = panel_of_[row];
+        for (const Site& site : sites) {
+            const bool self = site.surface == a && site.panel == i;
+            LayerValues v = layer_pair(panels_[a].centroid.col(i), panels_[site.surface], site.panel, options_, self);
+            if (self) v.dbl = gauss_diagonal_[a](i);
+            if (scene_->plane) v.dbl += layer_pair(mirrored_[a].col(i), panels_[site.surface], site.panel, options_, false).dbl;
+            out(row, site.electrode) += S(-v.dbl + (self ? 0.5 : 0.0));
+        }
+    }
+    return out;
+}
+
+template <class S>
+MatrixX<S> SystemEntries<S>::electrode_rows() const {
+    std::vector<Eigen::Index> rows(static_cast<std::size_t>(electrodes())), all(static_cast<std::size_t>(layout_.size));
+    std::iota(rows.begin(), rows.end(), layout_.electrode_offset);
+    std::iota(all.begin(), all.end(), Eigen::Index(0));
+    // Electrode rows touch no layer integrals: assembling them costs a pass over the panels.
+    return assemble_block(*scene_, layout_, options_, rows, all).matrix;
+}
+
+template class SystemEntries<double>;
+template class SystemEntries<Complex>;
+
+}  // namespace murk

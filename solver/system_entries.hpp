@@ -1,0 +1,63 @@
+#pragma once
+// Entries of a scene's system matrix one block at a time, without assembling
+// the whole: what a compressed operator (hmatrix.hpp) asks for. The unknowns
+// split in two:
+//   - panel unknowns (global indices below layout.electrode_offset): each
+//     belongs to one panel, and its row and column sit at the panel centroid;
+//     entries between far panels are a smooth kernel, the part that compresses;
+//   - the electrodes' potentials (one unknown and one row each): their columns
+//     gather all panels of an electrode and their rows are current balances or
+//     fixed potentials; they form a thin border, stored dense.
+// Every entry equals what assemble_system writes (bem_system_impl.hpp) up to the
+// order of summation of the Gauss's-law diagonal, which is computed here once.
+#include "solver/bem_system.hpp"
+#include "solver/panel_set.hpp"
+
+#include <vector>
+
+namespace murk {
+
+template <class S>
+class SystemEntries {
+public:
+    SystemEntries(const Scene<S>& scene, const QuadratureOptions& options);
+
+    const SystemLayout& layout() const { return layout_; }
+    Eigen::Index panel_unknowns() const { return layout_.electrode_offset; }
+    Eigen::Index electrodes() const { return layout_.size - layout_.electrode_offset; }
+    // Point of each panel unknown (its row's and its column's).
+    const Eigen::Matrix3Xd& points() const { return points_; }
+
+    // A(rows, cols) for panel unknowns; out is resized.
+    void panel_block(const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                     MatrixX<S>& out) const;
+    // The border: panel rows x electrode columns, and electrode rows x all columns.
+    MatrixX<S> electrode_columns() const;
+    MatrixX<S> electrode_rows() const;
+    // The right-hand side of the whole system.
+    const VectorX<S>& rhs() const { return rhs_; }
+
+private:
+    S entry(Eigen::Index row, Eigen::Index col) const;
+
+    const Scene<S>* scene_;
+    QuadratureOptions options_;
+    SystemLayout layout_;
+    std::vector<PanelSet> panels_;
+    std::vector<Eigen::VectorXd> gauss_diagonal_;  // per surface: its own double layer's diagonal
+    // Per panel unknown: surface, panel, whether its row is the interior
+    // equation (else the water equation) and whether its column is q (else the
+    // water-side potential; an electrode panel's unknown is q, its potential the
+    // electrode's).
+    std::vector<int> surface_of_;
+    std::vector<Eigen::Index> panel_of_;
+    std::vector<char> interior_row_, q_column_;
+    Eigen::Matrix3Xd points_;
+    std::vector<Eigen::Matrix3Xd> mirrored_;       // per surface: centroids mirrored in the plane
+    VectorX<S> rhs_;
+};
+
+extern template class SystemEntries<double>;
+extern template class SystemEntries<Complex>;
+
+}  // namespace murk
