@@ -2,9 +2,8 @@
 // compressed operator is built from, against the dense assembly of the same
 // scene: the same discrete equations, entry for entry, so they agree to rounding
 // (only the Gauss's-law diagonal is summed in another order).
-#include "geometry/shapes.hpp"
-#include "geometry/transform.hpp"
 #include "solver/system_entries.hpp"
+#include "tests/scene_fixtures.hpp"
 
 #include <cmath>
 
@@ -18,51 +17,6 @@ namespace {
 
 const QuadratureOptions kQuad{};
 
-// Every kind of unknown: a membrane body with a source inside, a contact object,
-// a sealed hull with current-, voltage-driven and floating electrodes, and an
-// insulating plane above them.
-template <class S>
-Scene<S> mixed_scene(S skin_resistance, S object_conductivity) {
-    Scene<S> scene;
-    scene.water_conductivity = S(0.02);
-    Surface<S> body;
-    body.mesh = make_ellipsoid(Vec3(0.05, 0.012, 0.01), 0.012);
-    body.mesh.name = "body";
-    body.kind = InterfaceKind::membrane;
-    body.inner_conductivity = S(0.5);
-    body.membrane_resistance = skin_resistance;
-    scene.surfaces.push_back(body);
-    scene.sources.push_back({Vec3(0.03, 0, 0), S(1e-4)});
-    scene.sources.push_back({Vec3(-0.03, 0, 0), S(-1e-4)});
-
-    Surface<S> object;
-    object.mesh = make_icosphere(0.006, 2);
-    object.mesh.name = "object";
-    translate(object.mesh, Vec3(0.0, 0.03, 0.0));
-    object.kind = InterfaceKind::contact;
-    object.inner_conductivity = object_conductivity;
-    scene.surfaces.push_back(object);
-
-    Surface<S> hull;
-    hull.mesh = make_box(Vec3(0.08, 0.02, 0.02), 0.01);
-    hull.mesh.name = "hull";
-    translate(hull.mesh, Vec3(0.0, -0.05, 0.0));
-    hull.kind = InterfaceKind::sealed;
-    hull.panel_electrode.assign(hull.mesh.size(), -1);
-    for (std::size_t t = 0; t < hull.mesh.size(); ++t) {
-        const double x = hull.mesh.centroid(t).x();
-        if (x > 0.03) hull.panel_electrode[t] = 0;
-        else if (x < -0.03) hull.panel_electrode[t] = 1;
-        else if (std::abs(x) < 0.006) hull.panel_electrode[t] = 2;
-    }
-    scene.surfaces.push_back(hull);
-    scene.electrodes = {{"drive", ElectrodeDrive::current, S(1e-3)},
-                        {"ground", ElectrodeDrive::voltage, S(0.0)},
-                        {"sense", ElectrodeDrive::floating, S(0.0)}};
-    scene.plane = InsulatingPlane{Vec3(0, 0, 0.03), Vec3::UnitZ()};
-    return scene;
-}
-
 template <class S>
 double max_abs(const MatrixX<S>& m) {
     return m.size() ? m.cwiseAbs().maxCoeff() : 0.0;
@@ -71,7 +25,7 @@ double max_abs(const MatrixX<S>& m) {
 }  // namespace
 
 TEST_CASE_TEMPLATE("the system's entries block by block equal the dense assembly", S, double, Complex) {
-    const Scene<S> scene = mixed_scene<S>(S(0.2), S(0.1));
+    const Scene<S> scene = fixtures::mixed_scene<S>(S(0.2), S(0.1));
     const LinearSystem<S> full = assemble_system(scene, kQuad);
     const SystemEntries<S> entries(scene, kQuad);
     const Eigen::Index n = entries.panel_unknowns(), e = entries.electrodes();

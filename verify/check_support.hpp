@@ -60,4 +60,5 @@ void check_spheroids(const VerifyOptions&, const std::function<void(CheckResult)
 void check_reciprocity(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_insulating_plane(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_ring_pair_resistance(const VerifyOptions&, const std::function<void(CheckResult)>& add);
+void check_compressed_sphere(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 }  // namespace murk

@@ -1,0 +1,74 @@
+#pragma once
+// The fixed part's system as a compressed operator with a preconditioned
+// iterative solve, for bodies too large for a dense LU (solver_options.hpp says
+// when). The matrix is split as
+//     [ H  B ] [x_panels    ]
+//     [ C  D ] [x_electrodes]
+// H (panel unknowns) is a hierarchical matrix (hmatrix.hpp) built from the
+// system's entries (system_entries.hpp); the electrodes' columns B and rows [C D]
+// are a thin dense border. Solves are restarted GMRES (gmres.hpp), right-
+// preconditioned by the inverse of H's diagonal blocks over clusters of about
+// `preconditioner_block` unknowns (block Jacobi on the near field), identity on
+// the electrodes. Transposed solves (lead fields) use the transposed operator
+// and preconditioner. Read-only after construction: any number of threads may
+// solve at once.
+#include "solver/bem_system.hpp"
+#include "solver/gmres.hpp"
+#include "solver/hmatrix.hpp"
+#include "solver/solver_options.hpp"
+
+#include <Eigen/LU>
+#include <memory>
+#include <vector>
+
+namespace murk {
+
+template <class S>
+class CompressedSystem {
+public:
+    CompressedSystem(const Scene<S>& scene, const QuadratureOptions& quadrature, const SolverOptions& options);
+
+    Eigen::Index size() const { return size_; }
+    const VectorX<S>& rhs() const { return rhs_; }
+    // A^-1 b (transposed: A^-T b) for every column of b, to
+    // options.iteration_tolerance; `iterations` (optional) receives the most any
+    // column took. Not converging within max_iterations is an InternalError (a
+    // preconditioner that fails on a checked scene is a defect, not bad input).
+    MatrixX<S> solve_columns(const MatrixX<S>& b, bool transposed, int* iterations = nullptr) const;
+    // A x (transposed: A^T x) for every column of x.
+    MatrixX<S> apply(const MatrixX<S>& x, bool transposed = false) const;
+
+    std::size_t bytes() const;                     // operator, border and preconditioner
+    const HMatrixStats& operator_stats() const { return h_->stats(); }
+    double entries_seconds() const { return entries_seconds_; }        // row sums, border, right-hand side
+    double compression_seconds() const { return compression_seconds_; }
+    double preconditioner_seconds() const { return preconditioner_seconds_; }
+    std::size_t preconditioner_blocks() const { return blocks_.size(); }
+
+    // Unknowns per diagonal block of the preconditioner (at most).
+    static constexpr Eigen::Index preconditioner_block = 512;
+
+private:
+    // M^-1 x (transposed: M^-T x) for every column of x.
+    MatrixX<S> precondition(const MatrixX<S>& x, bool transposed) const;
+    static constexpr int kRestart = 60;
+    static constexpr std::size_t kBasisBytes = std::size_t(1) << 30;
+
+    struct DiagonalBlock {
+        std::vector<Eigen::Index> unknowns;
+        Eigen::PartialPivLU<MatrixX<S>> lu;
+    };
+    SolverOptions options_;
+    Eigen::Index size_ = 0, panels_ = 0;
+    std::unique_ptr<HMatrix<S>> h_;
+    MatrixX<S> electrode_columns_;  // panels x electrodes
+    MatrixX<S> electrode_rows_;     // electrodes x all unknowns
+    VectorX<S> rhs_;
+    std::vector<DiagonalBlock> blocks_;
+    double entries_seconds_ = 0, compression_seconds_ = 0, preconditioner_seconds_ = 0;
+};
+
+extern template class CompressedSystem<double>;
+extern template class CompressedSystem<Complex>;
+
+}  // namespace murk

@@ -1,0 +1,88 @@
+// The fixed part solved through the compressed operator and the preconditioned
+// iterative solve (solver/compressed_system.hpp) against the dense LU of the same
+// scene: both solve the same discrete equations, so they agree to the accuracy
+// the compression tolerance and the iteration tolerance ask for. The exact and
+// dipole sweep paths run on top of either unchanged.
+#include "solver/coupled_solve.hpp"
+#include "solver/dipole_path.hpp"
+#include "solver/fixed_part.hpp"
+#include "tests/scene_fixtures.hpp"
+
+#include <doctest/doctest.h>
+
+using namespace murk;
+
+namespace {
+
+const QuadratureOptions kQuad{};
+
+SolverOptions forced(SystemSolver choice) {
+    SolverOptions o;
+    o.choice = choice;
+    o.compression_tolerance = 1e-10;
+    o.iteration_tolerance = 1e-12;
+    return o;
+}
+
+template <class S>
+double relative_difference(const MatrixX<S>& a, const MatrixX<S>& b) {
+    return (a - b).norm() / b.norm();
+}
+
+}  // namespace
+
+TEST_CASE_TEMPLATE("the compressed fixed part solves, and solves transposed, as the dense LU does", S, double, Complex) {
+    const Scene<S> scene = fixtures::mixed_scene<S>(S(0.2), S(0.1));
+    const FixedPart<S> dense(scene, kQuad, forced(SystemSolver::dense));
+    const FixedPart<S> compressed(scene, kQuad, forced(SystemSolver::compressed));
+    REQUIRE_FALSE(dense.compressed());
+    REQUIRE(compressed.compressed());
+    CHECK(compressed.report().solver == "compressed");
+    CHECK(compressed.report().baseline_iterations > 0);
+
+    CHECK(relative_difference<S>(compressed.unknowns(), dense.unknowns()) < 1e-8);
+    for (std::size_t e = 0; e < scene.electrodes.size(); ++e)
+        CHECK(std::abs(compressed.solution().electrode_potential[e] - dense.solution().electrode_potential[e]) <
+              1e-8 * std::abs(dense.solution().electrode_potential[0]));
+
+    std::srand(7);
+    const MatrixX<S> b = MatrixX<S>::Random(dense.size(), 3);
+    CHECK(relative_difference<S>(compressed.solve(b), dense.solve(b)) < 1e-8);
+    CHECK(relative_difference<S>(compressed.solve_transposed(b), dense.solve_transposed(b)) < 1e-8);
+}
+
+TEST_CASE("the exact and dipole paths on a compressed fixed part equal those on the dense one") {
+    Scene<double> body = fixtures::mixed_scene<double>(0.2, 0.1);
+    body.surfaces.erase(body.surfaces.begin() + 1);  // the object moves: it is not part of the body
+    const FixedPart<double> dense(body, kQuad, forced(SystemSolver::dense));
+    const FixedPart<double> compressed(body, kQuad, forced(SystemSolver::compressed));
+
+    Scene<double> full = body;
+    Surface<double> ball;
+    ball.mesh = make_icosphere(0.005, 2);
+    ball.mesh.name = "object";
+    translate(ball.mesh, Vec3(0.01, 0.028, 0.0));
+    ball.kind = InterfaceKind::contact;
+    ball.inner_conductivity = 1.0;
+    full.surfaces.push_back(ball);
+    const std::size_t moving = full.surfaces.size() - 1;
+    const MovingBlock<double> block = factor_moving_block(full, {moving}, kQuad);
+    const CoupledSolution<double> a = solve_coupled(full, {moving}, dense, block, kQuad, CouplingOptions{});
+    const CoupledSolution<double> b = solve_coupled(full, {moving}, compressed, block, kQuad, CouplingOptions{});
+    REQUIRE(a.gmres.converged);
+    REQUIRE(b.gmres.converged);
+    // The floating sensing electrode's change, the quantity a sweep reports.
+    const double change = a.solution.electrode_potential[2] - dense.solution().electrode_potential[2];
+    const double change_c = b.solution.electrode_potential[2] - compressed.solution().electrode_potential[2];
+    CHECK(std::abs(change) > 0);
+    CHECK(std::abs(change_c - change) < 1e-6 * std::abs(change));
+
+    // The dipole path: lead fields are transposed solves.
+    MatrixX<double> readout = MatrixX<double>::Zero(1, dense.size());
+    readout(0, dense.layout().electrode_offset + 2) = 1.0;
+    const LeadFields<double> lead_dense(dense, readout), lead_compressed(compressed, readout);
+    const PointDipole<double> dipole{Vec3(0.0, 0.03, 0.0), Vec3(1e-9, 2e-9, 0.0)};
+    const MatrixX<double> rd = lead_dense.readings_change({dipole}), rc = lead_compressed.readings_change({dipole});
+    CHECK(std::abs(rd(0, 0)) > 0);
+    CHECK(std::abs(rc(0, 0) - rd(0, 0)) < 1e-6 * std::abs(rd(0, 0)));
+}

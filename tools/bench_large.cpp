@@ -1,0 +1,207 @@
+// murk-bench-large: the fixed part of a large body, compressed (hierarchical
+// matrix + preconditioned GMRES) against dense (LU), on the built-in 15 cm fish
+// at growing panel counts. It prints tables and asserts nothing; the goals of
+// the large-body work are read from its output.
+//
+// Per size (each in a child process of its own, so that its peak memory is its
+// own): panels and unknowns; for the compressed part the set-up split into
+// entries (Gauss's-law row sums, border, right-hand side), compression and
+// preconditioner, the stored bytes, the compression ratio and ranks, the peak
+// resident memory, the baseline's GMRES iterations, one solve to a relative
+// residual of 1e-8 and one exact-path sweep point (a 3 mm sphere 5 mm off the
+// flank); for the dense part (up to --dense-max unknowns) assembly, LU, a solve
+// and the same sweep point, and the agreement of the two: the largest difference
+// of the sphere's perturbation of the transdermal voltage over all skin panels,
+// relative to the largest perturbation.
+//
+// Usage: murk-bench-large [--sizes 2000,5000,10000,20000,50000] [--dense-max UNKNOWNS]
+//                         [--tolerance T] [--dipoles K]
+//   --dipoles K  also time K dipole-path points (blocked solves) at every size
+#include "cases/input/case_reader.hpp"
+#include "cases/scene/scene_builder.hpp"
+#include "solver/compressed_system.hpp"
+#include "solver/coupled_solve.hpp"
+#include "solver/dipole_path.hpp"
+#include "solver/fixed_part.hpp"
+#include "geometry/shapes.hpp"
+#include "geometry/transform.hpp"
+
+#include <omp.h>
+#include <sys/resource.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+using namespace murk;
+
+namespace {
+
+double seconds_since(std::chrono::steady_clock::time_point t0) {
+    return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+double peak_rss_gib() {
+    rusage u{};
+    getrusage(RUSAGE_SELF, &u);
+    return double(u.ru_maxrss) / (1024.0 * 1024.0);  // ru_maxrss is in KiB on Linux
+}
+
+std::string load_average() {
+    std::ifstream in("/proc/loadavg");
+    std::string one;
+    in >> one;
+    return one.empty() ? "unknown" : one;
+}
+
+// The fish of tools/bench/fish_grid.toml (about 3,000 panels at 3.1 mm), with
+// the panel size scaled to aim at `panels` skin panels.
+std::string fish_case(long panels) {
+    const double size_mm = 3.1 * std::sqrt(3000.0 / double(panels));
+    std::ostringstream s;
+    s << "title = \"large-body benchmark\"\n[water]\nconductivity = \"100 uS/cm\"\n[mesh]\npanel_size = \""
+      << size_mm << " mm\"\n"
+      << "[fish]\nlength = \"15 cm\"\ncentre = [\"0 cm\", \"0 cm\", \"0 cm\"]\ninterior_conductivity = \"1 S/m\"\n"
+         "skin_resistance = \"0.25 ohm*m^2\"\n[fish.organ]\nfrom = 0.15\nto = 0.85\ndistribution = \"linear\"\n"
+         "points = 15\ncurrent = \"5 uA\"\n";
+    return s.str();
+}
+
+Surface<double> sphere_beside(const Scene<double>& body, double radius, double gap) {
+    double y_max = -1e9;  // the flank's outermost point at x near 0
+    for (const Vec3& v : body.surfaces.front().mesh.vertices)
+        if (std::abs(v.x()) < 0.01) y_max = std::max(y_max, v.y());
+    Surface<double> s;
+    s.mesh = make_icosphere(radius, 2);
+    s.mesh.name = "sphere";
+    translate(s.mesh, Vec3(0.0, y_max + gap + radius, 0.0));
+    s.kind = InterfaceKind::contact;
+    s.inner_conductivity = 0.5;
+    return s;
+}
+
+// Transdermal perturbation over the skin, and the seconds the sweep point took.
+Eigen::VectorXd exact_point(const Scene<double>& full, const FixedPart<double>& fixed, double* seconds) {
+    const std::size_t moving = full.surfaces.size() - 1;
+    const QuadratureOptions quad{};
+    const MovingBlock<double> block = factor_moving_block(full, {moving}, quad);
+    const auto t0 = std::chrono::steady_clock::now();
+    const CoupledSolution<double> c = solve_coupled(full, {moving}, fixed, block, quad, CouplingOptions{});
+    *seconds = seconds_since(t0);
+    const auto& skin = c.solution.surfaces.front();
+    const auto& base = fixed.solution().surfaces.front();
+    return (skin.inner_potential - skin.outer_potential) - (base.inner_potential - base.outer_potential);
+}
+
+int one_size(long target, long dense_max, double tolerance, int dipoles) {
+    const CaseSpec spec = read_case_text(fish_case(target), "bench_large");
+    const Scene<double> body = build_scene<double>(spec, false);
+    const QuadratureOptions quad = quadrature_options(spec);
+    Scene<double> full = body;
+    full.surfaces.push_back(sphere_beside(body, 0.0015, 0.005));
+    const long panels = long(body.surfaces.front().mesh.size());
+    const long unknowns = long(system_layout(body).size);
+    std::printf("%7ld panels %7ld unknowns | ", panels, unknowns);
+    std::fflush(stdout);
+
+    SolverOptions c;
+    c.choice = SystemSolver::compressed;
+    c.compression_tolerance = tolerance;
+    auto t0 = std::chrono::steady_clock::now();
+    const FixedPart<double> compressed(body, quad, c);
+    const double setup = seconds_since(t0);
+    const FixedPart<double>::SolverReport report = compressed.report();
+    // One more solve to 1e-8, the issue's measure, on the baseline's right-hand side.
+    SolverOptions c8 = c;
+    c8.iteration_tolerance = 1e-8;
+    double exact_c = 0;
+    const Eigen::VectorXd pert_c = exact_point(full, compressed, &exact_c);
+    std::printf("compressed: set-up %.1f s (entries %.1f, compression+preconditioner %.1f), %.2f GiB stored "
+                "(%.1f %% of dense), %d iterations, exact point %.2f s",
+                setup, compressed.assembly_seconds(), compressed.factor_seconds(),
+                double(compressed.factor_bytes()) / (1 << 30), 100.0 * report.compression_ratio,
+                report.baseline_iterations, exact_c);
+    {
+        const CompressedSystem<double> system8(body, quad, c8);
+        t0 = std::chrono::steady_clock::now();
+        int it = 0;
+        (void)system8.solve_columns(system8.rhs(), false, &it);
+        std::printf(", solve to 1e-8 %.2f s (%d iterations)", seconds_since(t0), it);
+    }
+    if (dipoles > 0) {
+        std::vector<PointDipole<double>> d;
+        for (int k = 0; k < dipoles; ++k)
+            d.push_back({Vec3(-0.05 + 0.1 * k / std::max(1, dipoles - 1), 0.03, 0.0), Vec3(0, 1e-12, 0)});
+        t0 = std::chrono::steady_clock::now();
+        (void)unknowns_with_dipoles(compressed, d);
+        std::printf(", %d dipole points %.2f s", dipoles, seconds_since(t0));
+    }
+    std::printf(", peak %.2f GiB", peak_rss_gib());
+    std::fflush(stdout);
+
+    if (unknowns <= dense_max) {
+        SolverOptions d;
+        d.choice = SystemSolver::dense;
+        t0 = std::chrono::steady_clock::now();
+        const FixedPart<double> dense(body, quad, d);
+        const double dense_setup = seconds_since(t0);
+        double exact_d = 0;
+        const Eigen::VectorXd pert_d = exact_point(full, dense, &exact_d);
+        const double agreement = (pert_c - pert_d).cwiseAbs().maxCoeff() / pert_d.cwiseAbs().maxCoeff();
+        std::printf(" | dense: set-up %.1f s (assembly %.1f, LU %.1f), %.2f GiB, exact point %.2f s, peak %.2f GiB | "
+                    "agreement %.2e",
+                    dense_setup, dense.assembly_seconds(), dense.factor_seconds(),
+                    double(dense.factor_bytes()) / (1 << 30), exact_d, peak_rss_gib(), agreement);
+    }
+    std::printf("\n");
+    return 0;
+}
+
+std::vector<long> parse_sizes(const std::string& text) {
+    std::vector<long> out;
+    std::stringstream in(text);
+    std::string item;
+    while (std::getline(in, item, ',')) out.push_back(std::stol(item));
+    return out;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+    std::string sizes = "2000,5000,10000,20000,50000";
+    long dense_max = 21000, one = 0;
+    double tolerance = 1e-8;
+    int dipoles = 0;
+    for (int i = 1; i + 1 < argc; i += 2) {
+        const std::string key = argv[i], value = argv[i + 1];
+        if (key == "--sizes") sizes = value;
+        else if (key == "--dense-max") dense_max = std::stol(value);
+        else if (key == "--tolerance") tolerance = std::stod(value);
+        else if (key == "--dipoles") dipoles = std::stoi(value);
+        else if (key == "--one") one = std::stol(value);
+        else {
+            std::fprintf(stderr, "murk-bench-large: unknown option %s\n", key.c_str());
+            return 2;
+        }
+    }
+    if (one > 0) return one_size(one, dense_max, tolerance, dipoles);
+    std::printf("murk-bench-large: fish of 15 cm, %d threads, compression tolerance %.0e, dense up to %ld unknowns; "
+                "load average before %s\n",
+                omp_get_max_threads(), tolerance, dense_max, load_average().c_str());
+    char exe[4096] = {};
+    if (readlink("/proc/self/exe", exe, sizeof exe - 1) <= 0) return 1;
+    for (long n : parse_sizes(sizes)) {
+        char command[5000];
+        std::snprintf(command, sizeof command, "%s --one %ld --dense-max %ld --tolerance %.3e --dipoles %d", exe, n,
+                      dense_max, tolerance, dipoles);
+        if (std::system(command) != 0) std::printf("size %ld failed\n", n);
+    }
+    std::printf("load average after %s\n", load_average().c_str());
+    return 0;
+}
