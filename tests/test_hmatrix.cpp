@@ -250,3 +250,21 @@ TEST_CASE_TEMPLATE("hierarchical matrix: a far block whose first rows are zero i
     // Without the sampled check on the remainder this error is 1 (tried 2026-12-03).
     CHECK(error <= 10 * tolerance);
 }
+
+TEST_CASE_TEMPLATE("hierarchical matrix: an incompressible far block is stored dense", S, double, Complex) {
+    // Independent random entries have full rank in every block, so the cross
+    // approximation passes half the block's size and the block is kept dense,
+    // exactly as given.
+    const Eigen::Matrix3Xd points = fibonacci_sphere(800);
+    std::srand(17);
+    const MatrixX<S> a = MatrixX<S>::Random(800, 800);
+    const BlockEntries<S> entries = [&](const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                                        MatrixX<S>& out) {
+        for (std::size_t j = 0; j < cols.size(); ++j)
+            for (std::size_t i = 0; i < rows.size(); ++i) out(Eigen::Index(i), Eigen::Index(j)) = a(rows[i], cols[j]);
+    };
+    const HMatrix<S> h(points, entries, HMatrixOptions{32, 2.0, 1e-6});
+    CHECK(h.stats().low_rank_blocks == 0);
+    CHECK(h.stats().compression() == doctest::Approx(1.0));
+    CHECK((h.to_dense() - a).cwiseAbs().maxCoeff() == 0);
+}
