@@ -15,6 +15,7 @@
 #include "solver/cluster_tree.hpp"
 
 #include <functional>
+#include <memory>
 #include <vector>
 
 namespace murk {
