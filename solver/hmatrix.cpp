@@ -278,13 +278,15 @@ struct HMatrix<S>::Impl {
         entries(rows, cols, block.dense);
     }
 
-    // y_p += A_p x_p in the tree's numbering (or A_p^T x_p when transposed).
-    VectorX<S> product(const VectorX<S>& x, bool transposed) const {
-        VectorX<S> x_p(n), y_p = VectorX<S>::Zero(n);
-        for (Eigen::Index p = 0; p < n; ++p) x_p(p) = x(tree.order[std::size_t(p)]);
+    // A x (or A^T x when transposed) for every column of x, in the tree's
+    // numbering inside: every block reads its part of all columns at once.
+    MatrixX<S> product(const MatrixX<S>& x, bool transposed) const {
+        const Eigen::Index m = x.cols();
+        MatrixX<S> x_p(n, m), y_p = MatrixX<S>::Zero(n, m);
+        for (Eigen::Index p = 0; p < n; ++p) x_p.row(p) = x.row(tree.order[std::size_t(p)]);
 #pragma omp parallel
         {
-            VectorX<S> mine = VectorX<S>::Zero(n);
+            MatrixX<S> mine = MatrixX<S>::Zero(n, m);
 #pragma omp for schedule(dynamic) nowait
             for (std::size_t b = 0; b < blocks.size(); ++b) {
                 const Block<S>& k = blocks[b];
@@ -292,20 +294,20 @@ struct HMatrix<S>::Impl {
                 const Eigen::Index in_size = transposed ? k.rows : k.cols;
                 const Eigen::Index out_begin = transposed ? k.col_begin : k.row_begin;
                 const Eigen::Index out_size = transposed ? k.cols : k.rows;
-                const auto in = x_p.segment(in_begin, in_size);
-                auto out = mine.segment(out_begin, out_size);
+                const auto in = x_p.middleRows(in_begin, in_size);
+                auto out = mine.middleRows(out_begin, out_size);
                 if (!k.low_rank)
-                    out += transposed ? VectorX<S>(k.dense.transpose() * in) : VectorX<S>(k.dense * in);
+                    out.noalias() += transposed ? MatrixX<S>(k.dense.transpose() * in) : MatrixX<S>(k.dense * in);
                 else if (transposed)
-                    out += k.v * (k.u.transpose() * in);
+                    out.noalias() += k.v * MatrixX<S>(k.u.transpose() * in);
                 else
-                    out += k.u * (k.v.transpose() * in);
+                    out.noalias() += k.u * MatrixX<S>(k.v.transpose() * in);
             }
 #pragma omp critical(murk_hmatrix_product)
             y_p += mine;
         }
-        VectorX<S> y(n);
-        for (Eigen::Index p = 0; p < n; ++p) y(tree.order[std::size_t(p)]) = y_p(p);
+        MatrixX<S> y(n, m);
+        for (Eigen::Index p = 0; p < n; ++p) y.row(tree.order[std::size_t(p)]) = y_p.row(p);
         return y;
     }
 };
@@ -361,6 +363,18 @@ template <class S>
 VectorX<S> HMatrix<S>::apply(const VectorX<S>& x) const {
     MURK_CHECK(x.size() == impl_->n, "the vector has one entry per row");
     return impl_->product(x, false);
+}
+
+template <class S>
+MatrixX<S> HMatrix<S>::apply(const MatrixX<S>& x) const {
+    MURK_CHECK(x.rows() == impl_->n, "the vectors have one entry per row");
+    return impl_->product(x, false);
+}
+
+template <class S>
+MatrixX<S> HMatrix<S>::apply_transposed(const MatrixX<S>& x) const {
+    MURK_CHECK(x.rows() == impl_->n, "the vectors have one entry per column");
+    return impl_->product(x, true);
 }
 
 template <class S>

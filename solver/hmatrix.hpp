@@ -53,6 +53,9 @@ public:
     // y = A x and y = A^T x (transpose, no conjugation), in the original numbering.
     VectorX<S> apply(const VectorX<S>& x) const;
     VectorX<S> apply_transposed(const VectorX<S>& x) const;
+    // The same for every column of x at once (each stored block read once).
+    MatrixX<S> apply(const MatrixX<S>& x) const;
+    MatrixX<S> apply_transposed(const MatrixX<S>& x) const;
     // The whole matrix (for tests on small sizes).
     MatrixX<S> to_dense() const;
     const ClusterTree& tree() const;
