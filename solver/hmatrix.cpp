@@ -234,7 +234,7 @@ void recompress(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
     const MatrixX<S> q_v = qr_v.householderQ() * MatrixX<S>::Identity(v.rows(), k);
     const MatrixX<S> r_u = qr_u.matrixQR().topRows(k).template triangularView<Eigen::Upper>();
     const MatrixX<S> r_v = qr_v.matrixQR().topRows(k).template triangularView<Eigen::Upper>();
-    const Eigen::JacobiSVD<MatrixX<S>> svd(r_u * r_v.transpose(), Eigen::ComputeFullU | Eigen::ComputeFullV);
+    const Eigen::BDCSVD<MatrixX<S>> svd(r_u * r_v.transpose(), Eigen::ComputeFullU | Eigen::ComputeFullV);
     const Eigen::VectorXd& sigma = svd.singularValues();
     const double total2 = sigma.squaredNorm();
     Eigen::Index r = k;

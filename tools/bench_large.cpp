@@ -142,6 +142,12 @@ int one_size(long target, long dense_max, double tolerance, int dipoles) {
         (void)unknowns_with_dipoles(compressed, d);
         std::printf(", %d dipole points %.2f s", dipoles, seconds_since(t0));
     }
+    {
+        const CompressedSystem<double> probe(body, quad, c);
+        const HMatrixStats& st = probe.operator_stats();
+        std::printf(", blocks %zu dense %zu low-rank (ranks mean %.1f, max %d), %zu preconditioner blocks",
+                    st.dense_blocks, st.low_rank_blocks, st.mean_rank, st.max_rank, probe.preconditioner_blocks());
+    }
     std::printf(", peak %.2f GiB", peak_rss_gib());
     std::fflush(stdout);
 
