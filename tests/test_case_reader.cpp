@@ -405,6 +405,48 @@ TEST_CASE("case reader: values out of range") {
                 "expected one of sphere, spheroid, ellipsoid, capsule, box, mesh, got 'cube'");
 }
 
+TEST_CASE("case reader: the system solver keys of [mesh]") {
+    // Unset: SolverOptions' defaults (solver/solver_options.hpp).
+    const SolverOptions defaults;
+    const CaseSpec plain = read_case_text(kFish, "case.toml");
+    CHECK(plain.mesh.solver.choice == SystemSolver::automatic);
+    CHECK(plain.mesh.solver.dense_limit == defaults.dense_limit);
+    CHECK(plain.mesh.solver.compression_tolerance == defaults.compression_tolerance);
+    CHECK(plain.mesh.solver.iteration_tolerance == defaults.iteration_tolerance);
+
+    const CaseSpec s = read_case_text(kFish + "[mesh]\nsolver = \"compressed\"\ndense_limit = 1200\n"
+                                              "compression_tolerance = 1e-6\niteration_tolerance = 3e-9\n",
+                                      "case.toml");
+    CHECK(s.mesh.solver.choice == SystemSolver::compressed);
+    CHECK(s.mesh.solver.dense_limit == 1200);
+    CHECK(s.mesh.solver.compression_tolerance == 1e-6);
+    CHECK(s.mesh.solver.iteration_tolerance == 3e-9);
+    CHECK(read_case_text(kFish + "[mesh]\nsolver = \"dense\"\n", "case.toml").mesh.solver.choice ==
+          SystemSolver::dense);
+    CHECK(read_case_text(kFish + "[mesh]\nsolver = \"auto\"\n", "case.toml").mesh.solver.choice ==
+          SystemSolver::automatic);
+
+    check_error(kFish + "[mesh]\nsolver = \"sparse\"\n", "solver", "mesh.solver",
+                "expected one of auto, dense, compressed, got 'sparse'");
+    check_error(kFish + "[mesh]\nsolver = 1\n", "solver", "mesh.solver", "expected text in quotes");
+    check_error(kFish + "[mesh]\ndense_limit = 0\n", "dense_limit", "mesh.dense_limit",
+                "expected a whole number from 1 to 1000000000, got");
+    check_error(kFish + "[mesh]\ndense_limit = -5\n", "dense_limit", "mesh.dense_limit", "from 1 to");
+    check_error(kFish + "[mesh]\ndense_limit = 2.5\n", "dense_limit", "mesh.dense_limit", "whole number");
+    check_error(kFish + "[mesh]\ndense_limit = 2000000000\n", "dense_limit", "mesh.dense_limit", "to 1000000000");
+    for (const std::string key : {"compression_tolerance", "iteration_tolerance"}) {
+        CAPTURE(key);
+        // Both ends of the open interval (1e-14, 1e-2) are refused, and anything beyond.
+        for (const std::string value : {"0", "-1e-6", "1e-14", "1e-15", "1e-2", "0.5", "nan", "inf"})
+            check_error(kFish + "[mesh]\n" + key + " = " + value + "\n", key, "mesh." + key,
+                        value == "nan" || value == "inf" ? "expected a finite number"
+                                                         : "between 1e-14 and 1e-2 (both excluded)");
+        check_error(kFish + "[mesh]\n" + key + " = \"1e-6 V\"\n", key, "mesh." + key, "");
+        CHECK(read_case_text(kFish + "[mesh]\n" + key + " = 9.9e-3\n", "case.toml").mesh.solver.choice ==
+              SystemSolver::automatic);
+    }
+}
+
 TEST_CASE("case reader: body profile and organ rules") {
     check_error(fish_with("[fish]", "profile = [[0, 0, 0], [1, 0, 0]]"), "profile", "fish.profile",
                 "at least 3 stations");

@@ -643,6 +643,20 @@ TEST_CASE("scene builder: panel sizes, imported meshes and accuracy switches") {
     const QuadratureOptions q = quadrature_options(spec_of(kFish + "") );
     CHECK(q.near_ratio == 3.0);
     CHECK(q.far_ratio == 10.0);
+    // The solver choice passes through as written: "dense" stays dense whatever
+    // dense_limit says, "auto" switches above it.
+    auto with_mesh_keys = [](const std::string& keys) {
+        std::string t = kFish;
+        return t.insert(t.find("[fish]"), keys);
+    };
+    const SolverOptions dense = solver_options(spec_of(with_mesh_keys("solver = \"dense\"\ndense_limit = 1\n")));
+    CHECK(dense.choice == SystemSolver::dense);
+    CHECK(dense.dense_limit == 1);
+    CHECK(!uses_compression(dense, 2));
+    CHECK(!uses_compression(dense, 1000000));
+    const SolverOptions automatic = solver_options(spec_of(with_mesh_keys("dense_limit = 100\n")));
+    CHECK(!uses_compression(automatic, 100));
+    CHECK(uses_compression(automatic, 101));
 
     // an STL object in millimetres, found next to the case file and scaled to metres
     const fs::path dir = fs::temp_directory_path() / "murk_test_scene_builder_stl";

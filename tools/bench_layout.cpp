@@ -208,7 +208,8 @@ int main(int argc, char** argv) {
     const Eigen::Index points = argc > 1 ? std::atol(argv[1]) : 100000;
     const CaseSpec spec = read_case_text(bench_case(), "bench_layout");
     auto t0 = std::chrono::steady_clock::now();
-    const FixedPart<double> fixed(build_scene<double>(layout_case(spec, 0), true), QuadratureOptions{});
+    const FixedPart<double> fixed(build_scene<double>(layout_case(spec, 0), true), QuadratureOptions{},
+                                  solver_options(spec));
     std::printf("body: %ld unknowns, %zu water rows; assembly %.2f s, factorization %.2f s (threads %d)\n",
                 static_cast<long>(fixed.size()), fixed.water_rows().size(), fixed.assembly_seconds(),
                 fixed.factor_seconds(), omp_get_max_threads());

@@ -166,7 +166,7 @@ int main(int argc, char** argv) {
 
         // Exact path: GMRES coupling against the Schur complement's blocked solve.
         const QuadratureOptions quad = quadrature_options(spec);
-        const FixedPart<double> fixed(body, quad);
+        const FixedPart<double> fixed(body, quad, solver_options(spec));
         using Clock = std::chrono::steady_clock;
         auto seconds = [](Clock::time_point t0) { return std::chrono::duration<double>(Clock::now() - t0).count(); };
         const MovingBlock<double> moving = factor_moving_block(with_object, {1}, quad);

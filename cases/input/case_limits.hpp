@@ -22,6 +22,8 @@ constexpr std::size_t kMaxLayoutTargets = 2000000;  // murk layout's target posi
 constexpr std::size_t kMaxLayouts = 1000;          // [[layout]] tables
 constexpr std::size_t kMaxLayoutElectrodes = 1000; // entries of a layout's emitters, sensors or pairs
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
+constexpr std::size_t kMaxDenseLimit = 1000000000; // [mesh] dense_limit (unknowns); a dense system of
+                                                   // that size would need 8 EB, so larger means "never"
 
 // Every quantity with a unit, except an object's conductivity, is zero or lies
 // between these magnitudes in SI units. Potentials are products and quotients of a

@@ -375,8 +375,46 @@ MeshZoneSpec read_mesh_zone(const Section& sec) {
     return z;
 }
 
+// A whole number from lo to hi (a count of points).
+int read_count(const Section& sec, const std::string& key, const toml::node& n, std::int64_t lo, std::size_t hi) {
+    if (!n.is_integer() || n.as_integer()->get() < lo || n.as_integer()->get() > static_cast<std::int64_t>(hi))
+        fail(sec.where(key), "expected a whole number from " + std::to_string(lo) + " to " + std::to_string(hi) +
+                                 ", got " + describe(n));
+    return static_cast<int>(n.as_integer()->get());
+}
+
+// A relative tolerance of the compressed solver: a plain number strictly between
+// 1e-14 (about 50 times double precision's rounding, which neither the compression
+// nor the iteration can get below) and 1e-2 (an error of a per cent in the body's
+// own solution, coarser than the small changes murk reports can bear).
+std::optional<double> optional_tolerance(const Section& sec, const std::string& key) {
+    const toml::node* n = sec.find(key);
+    if (!n) return std::nullopt;
+    const double t = read_quantity(sec, key, *n, Dimension::dimensionless);
+    if (!(t > 1e-14 && t < 1e-2))
+        fail(sec.where(key), "must be a relative tolerance between 1e-14 and 1e-2 (both excluded), got " + describe(*n));
+    return t;
+}
+
+// The keys of SolverOptions: which solver, the size where auto switches, the tolerances.
+SolverOptions read_solver_options(const Section& sec) {
+    SolverOptions o;
+    if (const toml::node* n = sec.find("solver")) {
+        const std::string choice = read_choice(sec, "solver", *n, {"auto", "dense", "compressed"});
+        o.choice = choice == "dense" ? SystemSolver::dense
+                   : choice == "compressed" ? SystemSolver::compressed
+                                            : SystemSolver::automatic;
+    }
+    if (const toml::node* n = sec.find("dense_limit"))
+        o.dense_limit = std::size_t(read_count(sec, "dense_limit", *n, 1, kMaxDenseLimit));
+    o.compression_tolerance = optional_tolerance(sec, "compression_tolerance").value_or(o.compression_tolerance);
+    o.iteration_tolerance = optional_tolerance(sec, "iteration_tolerance").value_or(o.iteration_tolerance);
+    return o;
+}
+
 MeshSpec read_mesh(const Section& sec) {
-    check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone", "electrode_edge"});
+    check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone", "electrode_edge", "solver", "dense_limit",
+                     "compression_tolerance", "iteration_tolerance"});
     MeshSpec m;
     m.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
     m.electrode_edge_m = optional_positive(sec, "electrode_edge", Dimension::length);
@@ -392,6 +430,7 @@ MeshSpec read_mesh(const Section& sec) {
         fail(sec.where("zone"), "expected at most " + std::to_string(kMaxMeshZones) + " [[mesh.zone]] tables, got " +
                                     std::to_string(zones->as_array()->size()));
     read_tables(sec, "zone", [&](const Section& zs, std::size_t) { m.zones.push_back(read_mesh_zone(zs)); });
+    m.solver = read_solver_options(sec);
     return m;
 }
 
@@ -440,14 +479,6 @@ std::vector<ProfileStation> read_profile(const Section& sec, const toml::node& n
         stations.push_back({v[0], v[1], v[2]});
     }
     return stations;
-}
-
-// A whole number from lo to hi (a count of points).
-int read_count(const Section& sec, const std::string& key, const toml::node& n, std::int64_t lo, std::size_t hi) {
-    if (!n.is_integer() || n.as_integer()->get() < lo || n.as_integer()->get() > static_cast<std::int64_t>(hi))
-        fail(sec.where(key), "expected a whole number from " + std::to_string(lo) + " to " + std::to_string(hi) +
-                                 ", got " + describe(n));
-    return static_cast<int>(n.as_integer()->get());
 }
 
 // The `weights` of a line of point sources (the organ or a [[source]] line): at

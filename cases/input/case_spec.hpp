@@ -5,6 +5,7 @@
 // whole scene can tell (overlaps, sources inside the body, electrodes on panels).
 // The file format itself is documented in cases/README.md.
 #include "solver/scene.hpp"
+#include "solver/solver_options.hpp"
 
 #include <array>
 #include <optional>
@@ -76,6 +77,10 @@ struct MeshSpec {
     // Panel length (m) across the edges of a robot's ring electrodes; unset: the
     // grading rule of geometry/electrode_hulls.hpp (a fraction of panel_size).
     std::optional<double> electrode_edge_m;
+    // How the body's system is solved (solver/solver_options.hpp): the keys solver,
+    // dense_limit, compression_tolerance and iteration_tolerance; unset keys keep
+    // SolverOptions' defaults.
+    SolverOptions solver;
 };
 
 // Solid shapes shared by objects and the robot hull. Local frame: centred at the

@@ -99,8 +99,10 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
     q.probability_level = spec.detection->probability_level;
 
     auto t0 = std::chrono::steady_clock::now();
-    const FixedPart<double> fixed(build_scene<double>(layout_fixed_case(spec, index, grid), true), quad);
+    const FixedPart<double> fixed(build_scene<double>(layout_fixed_case(spec, index, grid), true), quad,
+                                  solver_options(spec));
     q.factor_seconds = seconds_since(t0);
+    q.solver_used = solver_used(fixed);
     q.readout = layout_readout(layout, fixed);
     q.baseline_reading = q.readout.rows * fixed.unknowns();
     for (std::size_t e = 0; e < fixed.scene().electrodes.size(); ++e) {

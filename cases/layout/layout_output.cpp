@@ -122,6 +122,7 @@ void write_layout(const H5Group& layouts, const LayoutQuantities& q, const Targe
     const H5Layout packed = H5Layout::compressed(1);
     g.set_attribute("layout_name", q.name);
     g.set_attribute("reading_units", q.readout.units);
+    write_solver_used(g, q.solver_used);
     grid_coordinates(g, grid);
     xyz_coordinate(g);
     g.write_label_coordinate("reading", q.readout.names, "reading (channel) of the layout");
@@ -254,6 +255,7 @@ void write_placement(const H5Group& root, const PlacementQuantities& p) {
     }
     g.set_attribute("criterion", p.criterion);
     g.set_attribute("drive_layout", p.drive);
+    write_solver_used(g, p.solver_used);
     g.set_attribute("chosen_names", chosen_names);
     std::string joined;
     for (const std::string& n : p.candidates) joined += (joined.empty() ? "" : ",") + n;

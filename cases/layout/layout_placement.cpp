@@ -136,7 +136,7 @@ PlacementBody placement_body(const CaseSpec& spec, const TargetGrid& grid, const
     }
     scene.electrodes.erase(scene.electrodes.begin() + first, scene.electrodes.begin() + first + count);
 
-    PlacementBody body{FixedPart<double>(std::move(scene), quad), Eigen::MatrixXd()};
+    PlacementBody body{FixedPart<double>(std::move(scene), quad, solver_options(spec)), Eigen::MatrixXd()};
     const SystemLayout& sys = body.fixed.layout();
     body.readout = Eigen::MatrixXd::Zero(count, body.fixed.size());
     for (int c2 = 0; c2 < count; ++c2) {
@@ -166,6 +166,7 @@ PlacementProblem placement_problem(const CaseSpec& spec, const TargetGrid& grid,
     const PlacementBody body = placement_body(spec, grid, quad);
     out.factor_seconds = seconds_since(t0);
     out.unknowns = long(body.fixed.size());
+    out.solver_used = solver_used(body.fixed);
 
     std::vector<Eigen::Index>& at = out.points;
     for (Eigen::Index j = 0; j < grid.points.cols(); ++j)
@@ -251,6 +252,7 @@ PlacementQuantities place_layout_sensors(const CaseSpec& spec, const TargetGrid&
     out.factor_seconds = problem.factor_seconds;
     out.lead_seconds = problem.lead_seconds;
     out.unknowns = problem.unknowns;
+    out.solver_used = problem.solver_used;
 
     const auto t0 = std::chrono::steady_clock::now();
     out.result = place_sensors(problem.readings, problem.options);

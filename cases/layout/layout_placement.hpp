@@ -62,6 +62,7 @@ struct PlacementQuantities {
     std::vector<double> layout_criterion;  // the criterion of each, on the same targets
     double factor_seconds = 0, lead_seconds = 0, choose_seconds = 0;
     long unknowns = 0;             // of the placement body
+    SystemSolverUsed solver_used;  // how the placement body's system was solved
 };
 
 // The index into grid.size_m of [placement] target_size (default: the largest size).
@@ -83,6 +84,7 @@ struct PlacementProblem {
     double channel_noise = 0;         // V
     double factor_seconds = 0, lead_seconds = 0;
     long unknowns = 0;                // of the placement body
+    SystemSolverUsed solver_used;     // how the placement body's system was solved
 };
 PlacementProblem placement_problem(const CaseSpec& spec, const TargetGrid& grid, const TargetPlacement& placement,
                                    const QuadratureOptions& quad);

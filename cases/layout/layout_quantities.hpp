@@ -6,6 +6,7 @@
 #include "cases/detection/detectability.hpp"
 #include "cases/layout/detectable_region.hpp"
 #include "cases/layout/layout_readout.hpp"
+#include "cases/output/solver_attributes.hpp"
 
 #include <cmath>
 #include <cstdint>
@@ -67,6 +68,7 @@ struct LayoutQuantities {
     // placement's size, readings x grid points each, NaN where it does not fit (layout_placement.hpp).
     std::vector<Eigen::MatrixXd> placement_gradient;
     double factor_seconds = 0, map_seconds = 0;
+    SystemSolverUsed solver_used;             // how the layout's body system was solved
 };
 
 // The part an electrode plays in a layout (/layouts/<name>/electrode_part).

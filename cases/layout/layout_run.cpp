@@ -38,8 +38,9 @@ LayoutRun evaluate_layouts(const CaseSpec& spec, const QuadratureOptions& quad, 
         run.layouts.push_back(evaluate_layout(spec, k, run.grid, placement, quad));
         const LayoutQuantities& q = run.layouts.back();
         if (!quiet)
-            std::printf("layout %s: %zu readings, factored in %.2f s, maps of %zu points in %.2f s\n", q.name.c_str(),
-                        q.readout.names.size(), q.factor_seconds, run.grid.size(), q.map_seconds);
+            std::printf("layout %s: %zu readings, factored in %.2f s (%s), maps of %zu points in %.2f s\n",
+                        q.name.c_str(), q.readout.names.size(), q.factor_seconds, q.solver_used.solver.c_str(),
+                        run.grid.size(), q.map_seconds);
     }
     if (spec.placement) {                                        // 4. placement
         run.placement = place_layout_sensors(spec, run.grid, placement, run.layouts, quad);

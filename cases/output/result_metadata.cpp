@@ -1,6 +1,7 @@
 #include "cases/output/result_metadata.hpp"
 
 #include "cases/output/result_layout.hpp"
+#include "cases/output/solver_attributes.hpp"
 
 #include <openssl/evp.h>
 
@@ -53,6 +54,7 @@ void write_result_metadata(H5Group root, const CaseSpec& spec, const std::string
     root.set_attribute("near_ratio", quadrature.near_ratio);
     root.set_attribute("far_ratio", quadrature.far_ratio);
     root.set_attribute("frequency_Hz", spec.frequency_Hz.value_or(0.0));
+    write_solver_options(root, spec.mesh.solver);
 }
 
 }  // namespace murk

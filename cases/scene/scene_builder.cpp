@@ -709,6 +709,8 @@ QuadratureOptions quadrature_options(const CaseSpec& spec) {
     return q;
 }
 
+SolverOptions solver_options(const CaseSpec& spec) { return spec.mesh.solver; }
+
 template <class S>
 Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     if constexpr (std::is_same_v<S, double>) {

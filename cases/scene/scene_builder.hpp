@@ -6,6 +6,7 @@
 // nested, everything in the water, sources inside the body, electrodes on panels.
 #include "cases/input/case_spec.hpp"
 #include "solver/quadrature_options.hpp"
+#include "solver/solver_options.hpp"
 #include "solver/scene.hpp"
 
 #include <limits>
@@ -108,5 +109,8 @@ extern template std::vector<ElectrodeArea> electrode_areas(const CaseSpec&, cons
 
 // The accuracy switches of the panel integrals from [mesh].
 QuadratureOptions quadrature_options(const CaseSpec& spec);
+
+// How the body's system is solved (dense LU or compressed), from [mesh].
+SolverOptions solver_options(const CaseSpec& spec);
 
 }  // namespace murk

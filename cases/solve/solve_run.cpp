@@ -3,6 +3,7 @@
 #include "cases/solve/solve_run.hpp"
 
 #include "cases/output/result_metadata.hpp"
+#include "cases/output/solver_attributes.hpp"
 #include "cases/output/stop_request.hpp"
 #include "cases/output/surface_output.hpp"
 #include "cases/output/xdmf_writer.hpp"
@@ -11,7 +12,9 @@
 #include "cases/solve/solve_output.hpp"
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/fixed_part.hpp"
 #include "solver/memory_budget.hpp"
+#include "solver/system_cost.hpp"
 
 #include <chrono>
 #include <cmath>
@@ -48,9 +51,22 @@ std::string value_text(const Complex& v, const char* unit, const char* format = 
 
 struct StageTimes { double assemble = 0, solve = 0; };
 
+// A scene's solution: by a dense LU, as murk has always solved, unless the case's
+// solver options compress a system of this size; then through the fixed part,
+// which compresses the operator and iterates (solver/fixed_part.hpp). `used` says
+// which it was.
 template <class S>
-Solution<S> solve_timed(const Scene<S>& scene, const QuadratureOptions& quad, StageTimes& times) {
+Solution<S> solve_timed(const Scene<S>& scene, const QuadratureOptions& quad, const SolverOptions& solver,
+                        StageTimes& times, SystemSolverUsed& used) {
+    used = SystemSolverUsed{};
     if (scene.surfaces.empty()) return solve_scene(scene, quad);  // nothing to assemble
+    if (uses_compression(solver, std::size_t(system_layout(scene).size))) {
+        const FixedPart<S> fixed(scene, quad, solver);
+        times.assemble += fixed.assembly_seconds();
+        times.solve += fixed.factor_seconds();
+        used = solver_used(fixed);
+        return fixed.solution();
+    }
     auto t = Clock::now();
     LinearSystem<S> system = assemble_system(scene, quad);
     times.assemble += seconds_since(t);
@@ -139,20 +155,25 @@ std::vector<XdmfSurface> sidecar_surfaces(const H5Group& root, const SolvedCase<
     return surfaces;
 }
 
-// The dense system of the scene with its objects is the largest thing held; a
-// case that would not fit is refused before it is allocated.
+// The system of the scene with its objects is the largest thing held (dense, or
+// compressed when the solver options say so: solver/system_cost.hpp); a case that
+// would not fit is refused before it is allocated.
 template <class S>
-void require_memory_for(const Scene<S>& scene, double limit_bytes, const std::string& where) {
+void require_memory_for(const Scene<S>& scene, const SolverOptions& solver, double limit_bytes,
+                        const std::string& where) {
     const double n = double(system_layout(scene).size);
-    const double bytes = n * n * sizeof(S);
+    const bool compressed = uses_compression(solver, std::size_t(n));
+    const double bytes = system_entries(n, compressed) * sizeof(S);
     if (limit_bytes <= 0) limit_bytes = default_memory_limit_bytes();
     if (bytes <= limit_bytes) return;
     std::size_t panels = 0;
     for (const Surface<S>& s : scene.surfaces) panels += s.mesh.size();
-    throw InputError(where + ": the solve needs about " + memory_text(bytes) + " (a dense system of " +
+    throw InputError(where + ": the solve needs about " + memory_text(bytes) + " (a " +
+                     (compressed ? "compressed" : "dense") + " system of " +
                      std::to_string(std::size_t(n)) + " unknowns from " + std::to_string(panels) +
                      " panels), more than the " + memory_text(limit_bytes) +
-                     " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
+                     " it may use; set a larger mesh.panel_size (memory falls as its " +
+                     (compressed ? "square" : "fourth power") + "), decimate an "
                      "imported mesh, or raise --memory-limit");
 }
 
@@ -171,7 +192,8 @@ void require_finite(const Solution<S>& solution, const char* what) {
 
 template <class S>
 void write_solved(const CaseSpec& spec, const SolveOptions& options, const SolvedCase<S>& solved,
-                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert);
+                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert,
+                  const SystemSolverUsed& base_used, const SystemSolverUsed& pert_used);
 
 template <class S>
 void solve_case(const CaseSpec& spec, const SolveOptions& options) {
@@ -186,25 +208,30 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     if (!folder.empty() && !std::filesystem::is_directory(folder))
         throw InputError(options.output_path + ": directory " + folder.string() + " does not exist");
     const QuadratureOptions quad = quadrature_options(spec);
+    const SolverOptions solver = solver_options(spec);
 
     SolvedCase<S> solved;
     solved.baseline = build_scene<S>(spec, false);
     solved.perturbed = build_scene<S>(spec, true);
     solved.electrode_areas = electrode_areas(spec, solved.perturbed);
-    require_memory_for(solved.perturbed, options.memory_limit_bytes, spec.path);
-    if (!options.quiet)
+    require_memory_for(solved.perturbed, solver, options.memory_limit_bytes, spec.path);
+    if (!options.quiet) {
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
                     quad.near_ratio, quad.far_ratio);
+        std::printf("system solver: %s\n",
+                    solver_choice_text(solver, std::size_t(system_layout(solved.perturbed).size)).c_str());
+    }
 
     StageTimes base, pert;
-    solved.baseline_solution = solve_timed(solved.baseline, quad, base);
-    solved.perturbed_solution = solve_timed(solved.perturbed, quad, pert);
+    SystemSolverUsed base_used, pert_used;
+    solved.baseline_solution = solve_timed(solved.baseline, quad, solver, base, base_used);
+    solved.perturbed_solution = solve_timed(solved.perturbed, quad, solver, pert, pert_used);
     require_finite(solved.baseline_solution, "the baseline");
     require_finite(solved.perturbed_solution, "the scene with its objects");
 
     on_stop(OnStop::finish_work);  // a result is being written: a stop waits until it is complete
     try {
-        write_solved(spec, options, solved, quad, base, pert);
+        write_solved(spec, options, solved, quad, base, pert, base_used, pert_used);
     } catch (const InputError&) {
         throw;
     } catch (const std::runtime_error& e) {
@@ -215,11 +242,14 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
 // Stage write (and summarize): the result file, its sidecar, the summary.
 template <class S>
 void write_solved(const CaseSpec& spec, const SolveOptions& options, const SolvedCase<S>& solved,
-                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert) {
+                  const QuadratureOptions& quad, const StageTimes& base, const StageTimes& pert,
+                  const SystemSolverUsed& base_used, const SystemSolverUsed& pert_used) {
     H5Output output(options.output_path, options.force, "pass --force to replace it");
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
     write_solve_result(output.root(), solved);
+    write_solver_used(output.root().group("baseline"), base_used);
+    write_solver_used(output.root().group("perturbed"), pert_used);
     const ProbeValues<S> probes_before = evaluate_probes(spec, solved.baseline, solved.baseline_solution, quad);
     const ProbeValues<S> probes_after = evaluate_probes(spec, solved.perturbed, solved.perturbed_solution, quad);
     H5Group root = output.root();

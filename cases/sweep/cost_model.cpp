@@ -2,6 +2,7 @@
 
 #include "geometry/shapes.hpp"
 #include "solver/bem_system.hpp"
+#include "solver/system_cost.hpp"
 
 #include <Eigen/LU>
 #include <omp.h>
@@ -99,8 +100,20 @@ std::size_t exact_batch_size(const SweepSizes& sizes) {
     return std::size_t(std::clamp(std::floor(kExactBatchBytes / point_bytes), 1.0, double(kMaxExactBatch)));
 }
 
+double CostModel::fixed_part_bytes() const {
+    return system_entries(double(sizes.fixed_unknowns), sizes.compressed) * scalar_bytes();
+}
+
+double CostModel::compressed_solve_seconds() const {
+    return kExpectedSystemIterations * fixed_part_bytes() / rates.solve_byte_rate;
+}
+
 double CostModel::fixed_part_seconds() const {
     const double n = double(sizes.fixed_unknowns);
+    if (sizes.compressed) {  // compression, then the fixed part's own solve
+        const double compression = system_entries(n, true) / (rates.entry_rate * rates.threads);
+        return double(sizes.waters) * (compression + compressed_solve_seconds());
+    }
     const double assembly = n * n / (rates.entry_rate * rates.threads);
     const double lu = flop_factor() * 2.0 / 3.0 * n * n * n / rates.lu_flop_rate;
     return double(sizes.waters) * (assembly + lu);
@@ -114,8 +127,10 @@ double CostModel::exact_point_seconds(double size_to_distance) const {
     // arithmetic is each point's own; and each point reads its two coupling
     // blocks (n m entries in all). Checked by tools/bench/estimate_check.sh.
     const double solve =
-        (3.0 * n * n / double(exact_batch_size(sizes)) + n * m) * scalar_bytes() / rates.solve_byte_rate +
-        flop_factor() * 2.0 * n * n / rates.block_flop_rate;
+        sizes.compressed
+            ? compressed_solve_seconds() + n * m * scalar_bytes() / rates.solve_byte_rate
+            : (3.0 * n * n / double(exact_batch_size(sizes)) + n * m) * scalar_bytes() / rates.solve_byte_rate +
+                  flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     // The coupling blocks: the fixed water rows against the object's unknowns and
     // back; most pairs are far apart and cheap (10x the body's mixed entry rate).
     const double coupling = 2.0 * n * m / (10.0 * rates.entry_rate);
@@ -124,6 +139,7 @@ double CostModel::exact_point_seconds(double size_to_distance) const {
 
 double CostModel::dipole_block_seconds(std::size_t points) const {
     const double n = double(sizes.fixed_unknowns);
+    if (sizes.compressed) return double(points) * compressed_solve_seconds();
     return flop_factor() * 2.0 * n * n * double(points) / rates.block_flop_rate;
 }
 
@@ -134,7 +150,7 @@ double CostModel::full_point_seconds() const {
 
 double CostModel::memory_bytes(bool exact, bool full) const {
     const double n = double(sizes.fixed_unknowns), m = double(sizes.moving_unknowns);
-    double bytes = double(sizes.waters) * n * n * scalar_bytes();
+    double bytes = double(sizes.waters) * fixed_part_bytes();
     // Each point of a running batch holds its two coupling blocks, about n m / 2
     // entries each (the water rows of one part against the other part).
     if (exact) bytes += rates.threads * double(exact_batch_size(sizes)) * n * m * scalar_bytes();

@@ -11,6 +11,14 @@
 // An exact point costs a solve per GMRES iteration (two far from the body,
 // more as the object nears it) plus its coupling blocks; a dipole block one
 // blocked solve; a full point its own assembly and LU.
+// When the body's system is compressed (solver/system_cost.hpp: about
+// c n log2 n + 512 n entries instead of n^2), the model is instead
+//   compression of the operator         entries / entry_rate
+//   one solve                           iterations x bytes of the compressed
+//                                       system / solve_byte_rate (each iteration
+//                                       reads the operator and preconditioner)
+// and a blocked solve is one such solve per right-hand side. Full points are
+// always dense (the reference re-solve).
 #include <cstddef>
 
 namespace murk {
@@ -40,6 +48,7 @@ struct SweepSizes {
     std::size_t moving_panels = 0;
     std::size_t fixed_panels = 0;
     bool complex = false;
+    bool compressed = false;          // the fixed part's system is compressed (uses_compression)
 };
 
 // Exact points are solved in batches (solve_coupled_together), their GMRES steps
@@ -68,6 +77,10 @@ struct CostModel {
     double exact_point_seconds(double size_to_distance) const;
     double dipole_block_seconds(std::size_t points) const;
     double full_point_seconds() const;
+    // One solve against the compressed fixed part (compressed only).
+    double compressed_solve_seconds() const;
+    // Bytes of one water's fixed part once factored (dense LU or compressed).
+    double fixed_part_bytes() const;
     // Bytes held at once: the fixed parts' factors, and per thread the coupling
     // blocks (exact) or a whole system (full).
     double memory_bytes(bool exact, bool full) const;

@@ -7,7 +7,9 @@ namespace murk {
 
 struct RunStats {
     double assembly_seconds = 0, factor_seconds = 0;  // the fixed part (body), all waters
-    std::size_t factor_bytes = 0;                      // largest fixed part's dense factors
+    std::size_t factor_bytes = 0;                      // largest fixed part's factors
+    bool compressed = false;                           // the fixed part's system was compressed
+    int system_iterations = 0;                         // most iterations of its own solve (compressed)
     double setup_seconds = 0;                          // plan, baselines, objects, output file
     double placement_seconds = 0;                      // placing every point and choosing its path
     double point_seconds = 0;                          // exact and full points

@@ -130,17 +130,22 @@ SweepBaselines<S> solve_baselines(const CaseSpec& spec, const SweepPlan& plan, s
     SweepBaselines<S> out;
     const SweepMethod method = plan.sweep.method;
     const bool dipoles = method == SweepMethod::dipole || method == SweepMethod::automatic;
+    const SolverOptions solver = solver_options(spec);
     for (Scene<S>& scene : scenes) {
         WaterBaseline<S> w;
         if (method == SweepMethod::full) {
             w.solution = solve_scene(scene, quad);
             w.unfactored = std::move(scene);
         } else {
-            w.fixed = std::make_unique<FixedPart<S>>(std::move(scene), quad);
+            w.fixed = std::make_unique<FixedPart<S>>(std::move(scene), quad, solver);
             w.solution = w.fixed->solution();
             out.assembly_seconds += w.fixed->assembly_seconds();
             out.factor_seconds += w.fixed->factor_seconds();
             out.factor_bytes = std::max(out.factor_bytes, w.fixed->factor_bytes());
+            const SystemSolverUsed used = solver_used(*w.fixed);
+            const int most = std::max(out.solver_used.iterations, used.iterations);
+            out.solver_used = used;
+            out.solver_used.iterations = most;
         }
         out.waters.push_back(std::move(w));
     }

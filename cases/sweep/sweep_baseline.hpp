@@ -7,6 +7,7 @@
 // model that turns a perturbation into a detection probability.
 #include "cases/detection/detectability.hpp"
 #include "cases/input/case_spec.hpp"
+#include "cases/output/solver_attributes.hpp"
 #include "cases/sweep/sweep_plan.hpp"
 #include "cases/sweep/sweep_readings.hpp"
 #include "solver/dipole_path.hpp"
@@ -44,6 +45,10 @@ struct SweepBaselines {
     std::optional<SensorNoise> noise;      // with [detection]
     double assembly_seconds = 0, factor_seconds = 0;
     std::size_t factor_bytes = 0;          // the largest fixed part's factors
+    // The solver of the fixed parts (all waters have the same size, so the same
+    // solver), with the most iterations any water's own solve took; dense LU for
+    // method "full", which factors nothing.
+    SystemSolverUsed solver_used;
 };
 
 // The fixed part's scene in each water of the plan (meshed and checked, not
@@ -51,7 +56,8 @@ struct SweepBaselines {
 template <class S>
 std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan);
 
-// Assembles and factors each fixed scene (solves it, for method "full"), and
+// Assembles and factors each fixed scene with the case's solver options (solves
+// it densely, for method "full"), and
 // reads the sensors (sensor_layout of the first scene). Refuses (InputError,
 // naming the case line) noise models that do not fit the sensors.
 template <class S>

@@ -9,13 +9,15 @@
 namespace murk {
 
 template <class S>
-SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S>& objects, const SweepPlan& plan) {
+SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S>& objects, const SweepPlan& plan,
+                       const SolverOptions& solver) {
     SweepSizes sizes;
     sizes.complex = std::is_same_v<S, Complex>;
     sizes.waters = plan.waters.size();
     const Scene<S>& scene = fixed.front();
     sizes.fixed_unknowns = std::size_t(system_layout(scene).size);
     for (const Surface<S>& s : scene.surfaces) sizes.fixed_panels += s.mesh.size();
+    sizes.compressed = plan.sweep.method != SweepMethod::full && uses_compression(solver, sizes.fixed_unknowns);
     for (std::size_t k = 0; k < objects.size(); ++k) {
         const MovingObject<S>& o = objects.form(k);
         sizes.moving_unknowns = std::max(sizes.moving_unknowns, std::size_t(system_layout(object_alone(o)).size));
@@ -77,6 +79,12 @@ std::string format_estimate(const SweepEstimate& e) {
                   e.sizes.fixed_unknowns, e.sizes.fixed_panels, e.sizes.waters, e.sizes.waters == 1 ? "" : "s",
                   e.sizes.moving_unknowns, e.sizes.moving_panels, e.sizes.complex ? "complex" : "real");
     out += buf;
+    std::snprintf(buf, sizeof buf, "solver:  %s\n",
+                  e.sizes.compressed
+                      ? "compressed operator and iterative solve for the fixed part (its memory and time modelled, "
+                        "not yet measured)"
+                      : "dense LU of the fixed part");
+    out += buf;
     std::snprintf(buf, sizeof buf,
                   "rates:   assembly %.2g entries/s per thread, LU %.3g GFLOP/s, solves %.3g GB/s per thread, "
                   "blocked solves %.3g GFLOP/s per thread\n",
@@ -94,10 +102,12 @@ std::string format_estimate(const SweepEstimate& e) {
 
 void require_memory(const SweepEstimate& e, double limit_bytes, const std::string& where) {
     if (e.memory_bytes <= limit_bytes) return;
-    throw InputError(where + ": the sweep needs about " + memory_text(e.memory_bytes) + " (a dense system of " +
+    throw InputError(where + ": the sweep needs about " + memory_text(e.memory_bytes) + " (a " +
+                     (e.sizes.compressed ? "compressed" : "dense") + " system of " +
                      std::to_string(e.sizes.fixed_unknowns) + " unknowns from " + std::to_string(e.sizes.fixed_panels) +
                      " panels), more than the " + memory_text(limit_bytes) +
-                     " it may use; set a larger mesh.panel_size (memory falls as its fourth power), decimate an "
+                     " it may use; set a larger mesh.panel_size (memory falls as its " +
+                     (e.sizes.compressed ? "square" : "fourth power") + "), decimate an "
                      "imported mesh, or raise --memory-limit");
 }
 
@@ -109,8 +119,10 @@ void require_point_memory(std::size_t points, double limit_bytes, const std::str
                      " it may use; split it into several runs or fewer axis values");
 }
 
-template SweepSizes sweep_sizes(const std::vector<Scene<double>>&, const MovingObjects<double>&, const SweepPlan&);
-template SweepSizes sweep_sizes(const std::vector<Scene<Complex>>&, const MovingObjects<Complex>&, const SweepPlan&);
+template SweepSizes sweep_sizes(const std::vector<Scene<double>>&, const MovingObjects<double>&, const SweepPlan&,
+                                const SolverOptions&);
+template SweepSizes sweep_sizes(const std::vector<Scene<Complex>>&, const MovingObjects<Complex>&, const SweepPlan&,
+                                const SolverOptions&);
 template SweepEstimate estimate_sweep(const SweepPlan&, const PointRoutes<double>&, const CostModel&);
 template SweepEstimate estimate_sweep(const SweepPlan&, const PointRoutes<Complex>&, const CostModel&);
 

@@ -4,6 +4,7 @@
 // every run checks it against the memory it may use before assembling anything.
 #include "cases/sweep/cost_model.hpp"
 #include "cases/sweep/sweep_points.hpp"
+#include "solver/solver_options.hpp"
 
 #include <string>
 
@@ -19,8 +20,11 @@ struct SweepEstimate {
     double total_seconds() const { return setup_seconds + points_seconds; }
 };
 
+// `solver` decides whether the fixed part is taken as compressed (method "full"
+// re-solves densely and never is).
 template <class S>
-SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S>& objects, const SweepPlan& plan);
+SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S>& objects, const SweepPlan& plan,
+                       const SolverOptions& solver);
 
 template <class S>
 SweepEstimate estimate_sweep(const SweepPlan& plan, const PointRoutes<S>& routes, const CostModel& cost);

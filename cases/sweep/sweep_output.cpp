@@ -111,6 +111,7 @@ void SweepFile<S>::create_datasets() {
     // Every dimension of /sweep is a coordinate in /sweep (cases/output/coordinates.hpp).
     using namespace layout;
     H5Group sweep = root.group(kSweep);
+    write_solver_used(sweep, base.solver_used);  // the fixed part's solver, beside the root's declared choice
     std::vector<std::string> axis_names;
     std::string axes_attribute;
     for (const SweepAxis& a : plan.axes) {

@@ -1,6 +1,7 @@
 #include "cases/sweep/sweep_runner.hpp"
 
 #include "cases/output/result_metadata.hpp"
+#include "cases/output/solver_attributes.hpp"
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/dipole_check.hpp"
@@ -59,7 +60,7 @@ public:
         SensorLayout sensors = sensor_layout(spec_, scenes.front(), plan.where);
         const MovingObjects<S> objects(spec_, plan);
         const PointPlacement placement(spec_, plan, meshes_of(scenes.front()));
-        const SweepSizes sizes = sweep_sizes(scenes, objects, plan);
+        const SweepSizes sizes = sweep_sizes(scenes, objects, plan, solver_options(spec_));
         const PointRoutes<S> routes =
             route_points(plan, placement, objects, exact_batch_size(sizes), kDipoleBlockSize);
         stats_.placement_seconds = since_start();
@@ -73,6 +74,9 @@ public:
         const std::vector<char> share = share_of(plan, routes, sizes);
         // output: the journal, this run's lock (point_journal.hpp).
         PointJournal journal = open_journal(plan, sensors.size());
+        if (!options_.quiet && plan.sweep.method != SweepMethod::full)  // after the refusals, which are one line
+            std::fprintf(stderr, "murk: system solver: %s\n",
+                         solver_choice_text(solver_options(spec_), sizes.fixed_unknowns).c_str());
         // Until a point is finished a stop loses nothing: stop at once, and take a
         // journal this run started with it.
         on_stop(OnStop::exit_at_once, options_.resume ? std::string() : journal.path());
@@ -81,6 +85,8 @@ public:
         stats_.assembly_seconds = baselines.assembly_seconds;
         stats_.factor_seconds = baselines.factor_seconds;
         stats_.factor_bytes = baselines.factor_bytes;
+        stats_.compressed = baselines.solver_used.solver == "compressed";
+        stats_.system_iterations = baselines.solver_used.iterations;
         stats_.setup_seconds = since_start() - stats_.placement_seconds;
         on_stop(OnStop::finish_work);  // from now on a stop keeps what is finished
         try {
@@ -214,8 +220,11 @@ private:
     void print_stats(const SweepPlan& plan) const {
         const RunStats& t = stats_;
         if (plan.sweep.method != SweepMethod::full)
-            std::fprintf(stderr, "murk: body system: assembly %.2f s, factorization %.2f s, factors %.0f MiB\n",
-                         t.assembly_seconds, t.factor_seconds, t.factor_bytes / 1048576.0);
+            std::fprintf(stderr, "murk: body system: assembly %.2f s, %s %.2f s, %s %.0f MiB; %s\n",
+                         t.assembly_seconds, t.compressed ? "compression" : "factorization", t.factor_seconds,
+                         t.compressed ? "operator and preconditioner" : "factors", t.factor_bytes / 1048576.0,
+                         t.compressed ? ("compressed, " + std::to_string(t.system_iterations) + " iterations").c_str()
+                                      : "dense LU");
         std::fprintf(stderr,
                      "murk: points: %zu exact, %zu dipole, %zu full re-solve (%zu fell back from exact); "
                      "placement %.2f s, exact and full %.2f s, dipole %.2f s\n",

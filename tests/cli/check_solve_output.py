@@ -21,7 +21,7 @@ def fail(msg):
 
 with h5py.File(path, "r") as f:
     for key in ("murk_version", "case", "case_sha256", "created_utc", "command", "approximation",
-                "near_ratio", "far_ratio"):
+                "near_ratio", "far_ratio", "system_solver", "dense_limit"):
         if key not in f.attrs:
             fail(f"root attribute {key} missing")
     case_text = f.attrs["case"]

@@ -147,6 +147,10 @@ def write_root(f, title, frequency_hz):
     f.attrs["approximation"] = "synthetic data for tests (no solve)"
     f.attrs["near_ratio"] = 3.0
     f.attrs["far_ratio"] = 10.0
+    f.attrs["system_solver"] = "auto"
+    f.attrs["dense_limit"] = np.int64(8000)
+    f.attrs["compression_tolerance"] = 1e-8
+    f.attrs["iteration_tolerance"] = 1e-10
     f.attrs["frequency_Hz"] = float(frequency_hz)
 
 
@@ -207,6 +211,8 @@ def copy_axes(group, scales):
 def write_point_data(f, scales, data, sensor_units, kind):
     """data: dict of arrays shaped by the axes (and the sensors / xyz)."""
     s = f["sweep"]
+    s.attrs["system_solver_used"] = "dense"  # the fixed part's solver, as murk run writes it
+    s.attrs["system_iterations"] = np.int64(0)
     flags(attach(put(s, "status", data["status"], "1", "what happened at the point", np.uint8), scales), STATUS_FLAGS)
     reasons = data.get("mask_reason", np.zeros(data["status"].shape, np.uint8))
     flags(attach(put(s, "mask_reason", reasons, "1", "why the point is masked", np.uint8), scales), MASK_REASON_FLAGS)

@@ -229,6 +229,25 @@ void print_header(const H5File& file, const H5Group& root) {
     std::printf("  case SHA-256:   %s...%s\n", sha.substr(0, 12).c_str(),
                 root.has_attribute("case_path") ? (" (" + root.string_attribute("case_path") + ")").c_str() : "");
     std::printf("  frequency:      %s\n", frequency == 0 ? "0 Hz (direct current)" : with_prefix(frequency, "Hz").c_str());
+    if (root.has_attribute("system_solver")) {  // files written before murk recorded its solver have none
+        std::string line = format("%s, dense_limit %lld unknowns", root.string_attribute("system_solver").c_str(),
+                                  static_cast<long long>(root.int_attribute("dense_limit")));
+        if (root.has_attribute("compression_tolerance"))
+            line += format(", compression_tolerance %g, iteration_tolerance %g",
+                           root.double_attribute("compression_tolerance"), root.double_attribute("iteration_tolerance"));
+        std::printf("  system solver:  %s\n", line.c_str());
+    }
+}
+
+// How a group's system was solved ("dense", or "compressed, 27 iterations, ..."); empty
+// when the group does not say.
+std::string solver_used_text(const H5Group& g) {
+    if (!g.has_attribute("system_solver_used")) return "";
+    std::string text = g.string_attribute("system_solver_used");
+    if (g.has_attribute("compression_ratio"))
+        text += format(", %lld iterations, compression ratio %.3g",
+                       static_cast<long long>(g.int_attribute("system_iterations")), g.double_attribute("compression_ratio"));
+    return text;
 }
 
 // ---- murk solve -----------------------------------------------------------------------
@@ -322,6 +341,12 @@ void print_electrodes(const H5Group& root) {
 
 void print_solve(const H5Group& root) {
     std::printf("kind:             murk solve (one configuration)\n");
+    if (root.exists("baseline") && root.exists("perturbed")) {
+        const std::string base = solver_used_text(root.open_group("baseline"));
+        const std::string pert = solver_used_text(root.open_group("perturbed"));
+        if (!base.empty() && !pert.empty())
+            std::printf("solved by:        %s (baseline), %s (with the objects)\n", base.c_str(), pert.c_str());
+    }
     print_surfaces(root);
     print_electrodes(root);
 }
@@ -657,6 +682,8 @@ void print_analysis(const H5Group& root, const std::vector<Axis>& axes, const Po
 void print_run(const H5Group& root) {
     std::printf("kind:             murk run (sweep)\n");
     const H5Group sweep = root.open_group(layout::kSweep);
+    if (const std::string used = solver_used_text(sweep); !used.empty())
+        std::printf("body system:      %s\n", used.c_str());
     const H5Dataset status_ds = sweep.dataset(layout::kStatus);
     const std::vector<Axis> axes = read_axes(sweep, status_ds);
     const PointStates status = read_status(status_ds);
