@@ -289,19 +289,21 @@ struct HMatrix<S>::Impl {
             MatrixX<S> mine = MatrixX<S>::Zero(n, m);
 #pragma omp for schedule(dynamic) nowait
             for (std::size_t b = 0; b < blocks.size(); ++b) {
-                const Block<S>& k = blocks[b];
-                const Eigen::Index in_begin = transposed ? k.row_begin : k.col_begin;
-                const Eigen::Index in_size = transposed ? k.rows : k.cols;
-                const Eigen::Index out_begin = transposed ? k.col_begin : k.row_begin;
-                const Eigen::Index out_size = transposed ? k.cols : k.rows;
+                const Block<S>& block = blocks[b];
+                const Eigen::Index in_begin = transposed ? block.row_begin : block.col_begin;
+                const Eigen::Index in_size = transposed ? block.rows : block.cols;
+                const Eigen::Index out_begin = transposed ? block.col_begin : block.row_begin;
+                const Eigen::Index out_size = transposed ? block.cols : block.rows;
                 const auto in = x_p.middleRows(in_begin, in_size);
                 auto out = mine.middleRows(out_begin, out_size);
-                if (!k.low_rank)
-                    out.noalias() += transposed ? MatrixX<S>(k.dense.transpose() * in) : MatrixX<S>(k.dense * in);
+                if (!block.low_rank && transposed)
+                    out.noalias() += block.dense.transpose() * in;
+                else if (!block.low_rank)
+                    out.noalias() += block.dense * in;
                 else if (transposed)
-                    out.noalias() += k.v * MatrixX<S>(k.u.transpose() * in);
+                    out.noalias() += block.v * MatrixX<S>(block.u.transpose() * in);
                 else
-                    out.noalias() += k.u * MatrixX<S>(k.v.transpose() * in);
+                    out.noalias() += block.u * MatrixX<S>(block.v.transpose() * in);
             }
 #pragma omp critical(murk_hmatrix_product)
             y_p += mine;
