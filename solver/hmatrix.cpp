@@ -278,35 +278,64 @@ struct HMatrix<S>::Impl {
         entries(rows, cols, block.dense);
     }
 
+    // Blocks whose output rows (as_transpose: output columns) meet each of
+    // kChunks fixed ranges of the tree's numbering, in block order.
+    static constexpr Eigen::Index kChunks = 64;
+    std::vector<std::vector<std::size_t>> chunk_blocks[2];
+    Eigen::Index chunk_begin(Eigen::Index c) const { return n * c / kChunks; }
+
+    void index_chunks() {
+        for (int t = 0; t < 2; ++t) {
+            chunk_blocks[t].assign(std::size_t(kChunks), {});
+            for (std::size_t b = 0; b < blocks.size(); ++b) {
+                const Eigen::Index begin = t ? blocks[b].col_begin : blocks[b].row_begin;
+                const Eigen::Index end = begin + (t ? blocks[b].cols : blocks[b].rows);
+                for (Eigen::Index c = 0; c < kChunks; ++c)
+                    if (begin < chunk_begin(c + 1) && chunk_begin(c) < end) chunk_blocks[t][std::size_t(c)].push_back(b);
+            }
+        }
+    }
+
     // A x (or A^T x when transposed) for every column of x, in the tree's
-    // numbering inside: every block reads its part of all columns at once.
+    // numbering inside. Deterministic whatever the threads: first every
+    // low-rank block's small product V^T x (its own slot), then each fixed
+    // range of output rows sums its blocks' contributions in block order, so
+    // every output entry is added up in the same order on every run. (Summing
+    // per-thread partial results would make the last bits depend on which
+    // thread took which block, and a sweep's points must not depend on that.)
     MatrixX<S> product(const MatrixX<S>& x, bool transposed) const {
         const Eigen::Index m = x.cols();
         MatrixX<S> x_p(n, m), y_p = MatrixX<S>::Zero(n, m);
         for (Eigen::Index p = 0; p < n; ++p) x_p.row(p) = x.row(tree.order[std::size_t(p)]);
-#pragma omp parallel
-        {
-            MatrixX<S> mine = MatrixX<S>::Zero(n, m);
-#pragma omp for schedule(dynamic) nowait
-            for (std::size_t b = 0; b < blocks.size(); ++b) {
+        std::vector<MatrixX<S>> inner(blocks.size());
+#pragma omp parallel for schedule(dynamic, 16)
+        for (std::size_t b = 0; b < blocks.size(); ++b) {
+            const Block<S>& block = blocks[b];
+            if (!block.low_rank) continue;
+            const Eigen::Index in_begin = transposed ? block.row_begin : block.col_begin;
+            const Eigen::Index in_size = transposed ? block.rows : block.cols;
+            inner[b] = (transposed ? block.u : block.v).transpose() * x_p.middleRows(in_begin, in_size);
+        }
+        const auto& lists = chunk_blocks[transposed ? 1 : 0];
+#pragma omp parallel for schedule(dynamic, 1)
+        for (Eigen::Index c = 0; c < kChunks; ++c) {
+            const Eigen::Index lo = chunk_begin(c), hi = chunk_begin(c + 1);
+            for (const std::size_t b : lists[std::size_t(c)]) {
                 const Block<S>& block = blocks[b];
-                const Eigen::Index in_begin = transposed ? block.row_begin : block.col_begin;
-                const Eigen::Index in_size = transposed ? block.rows : block.cols;
                 const Eigen::Index out_begin = transposed ? block.col_begin : block.row_begin;
                 const Eigen::Index out_size = transposed ? block.cols : block.rows;
-                const auto in = x_p.middleRows(in_begin, in_size);
-                auto out = mine.middleRows(out_begin, out_size);
-                if (!block.low_rank && transposed)
-                    out.noalias() += block.dense.transpose() * in;
-                else if (!block.low_rank)
-                    out.noalias() += block.dense * in;
-                else if (transposed)
-                    out.noalias() += block.v * MatrixX<S>(block.u.transpose() * in);
-                else
-                    out.noalias() += block.u * MatrixX<S>(block.v.transpose() * in);
+                const Eigen::Index from = std::max(lo, out_begin), to = std::min(hi, out_begin + out_size);
+                auto out = y_p.middleRows(from, to - from);
+                if (block.low_rank) {
+                    out.noalias() += (transposed ? block.v : block.u).middleRows(from - out_begin, to - from) * inner[b];
+                } else if (transposed) {
+                    out.noalias() += block.dense.middleCols(from - out_begin, to - from).transpose() *
+                                     x_p.middleRows(block.row_begin, block.rows);
+                } else {
+                    out.noalias() += block.dense.middleRows(from - out_begin, to - from) *
+                                     x_p.middleRows(block.col_begin, block.cols);
+                }
             }
-#pragma omp critical(murk_hmatrix_product)
-            y_p += mine;
         }
         MatrixX<S> y(n, m);
         for (Eigen::Index p = 0; p < n; ++p) y.row(tree.order[std::size_t(p)]) = y_p.row(p);
@@ -322,6 +351,7 @@ HMatrix<S>::HMatrix(const Eigen::Matrix3Xd& points, const BlockEntries<S>& entri
     impl->n = points.cols();
     impl->tree = build_cluster_tree(points, options.leaf_size);
     if (impl->n > 0) collect_blocks(impl->tree, 0, 0, options.eta, impl->blocks);
+    impl->index_chunks();
 
     // `entries` may throw; an exception cannot leave a parallel region, so the
     // first one is kept and thrown after it.

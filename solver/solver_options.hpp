@@ -14,10 +14,10 @@ enum class SystemSolver { automatic, dense, compressed };
 struct SolverOptions {
     SystemSolver choice = SystemSolver::automatic;
     // automatic: dense up to this many unknowns, compressed above.
-    std::size_t dense_limit = 8000;
+    std::size_t dense_limit = 16000;
     // Relative accuracy of each compressed block (adaptive cross approximation
     // stopped, and then recompressed, at this fraction of the block's norm).
-    double compression_tolerance = 1e-8;
+    double compression_tolerance = 1e-7;
     // The iterative solve stops at this relative residual |b - A x| / |b|.
     double iteration_tolerance = 1e-10;
     int max_iterations = 400;

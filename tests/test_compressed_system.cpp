@@ -9,6 +9,7 @@
 #include "tests/scene_fixtures.hpp"
 
 #include <doctest/doctest.h>
+#include <omp.h>
 
 using namespace murk;
 
@@ -85,4 +86,20 @@ TEST_CASE("the exact and dipole paths on a compressed fixed part equal those on 
     const MatrixX<double> rd = lead_dense.readings_change({dipole}), rc = lead_compressed.readings_change({dipole});
     CHECK(std::abs(rd(0, 0)) > 0);
     CHECK(std::abs(rc(0, 0) - rd(0, 0)) < 1e-6 * std::abs(rd(0, 0)));
+}
+
+TEST_CASE("compressed solves are the same to the last bit on one thread and on two") {
+    // A sweep's points must not depend on the threads (DEVELOPERS.md, "How a sweep is solved").
+    const Scene<double> scene = fixtures::mixed_scene<double>(0.2, 0.1);
+    const FixedPart<double> fixed(scene, kQuad, forced(SystemSolver::compressed));
+    std::srand(11);
+    const MatrixX<double> b = MatrixX<double>::Random(fixed.size(), 4);
+    const int threads = omp_get_max_threads();
+    omp_set_num_threads(1);
+    const MatrixX<double> one = fixed.solve(b), one_t = fixed.solve_transposed(b);
+    omp_set_num_threads(2);
+    const MatrixX<double> two = fixed.solve(b), two_t = fixed.solve_transposed(b);
+    omp_set_num_threads(threads);
+    CHECK((one.array() == two.array()).all());
+    CHECK((one_t.array() == two_t.array()).all());
 }

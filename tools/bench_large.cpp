@@ -182,7 +182,7 @@ std::vector<long> parse_sizes(const std::string& text) {
 int main(int argc, char** argv) {
     std::string sizes = "2000,5000,10000,20000,50000";
     long dense_max = 21000, one = 0;
-    double tolerance = 1e-8;
+    double tolerance = 1e-7;
     int dipoles = 0;
     for (int i = 1; i + 1 < argc; i += 2) {
         const std::string key = argv[i], value = argv[i + 1];
