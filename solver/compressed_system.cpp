@@ -95,7 +95,8 @@ MatrixX<S> CompressedSystem<S>::precondition(const MatrixX<S>& x, bool transpose
 }
 
 template <class S>
-MatrixX<S> CompressedSystem<S>::solve_columns(const MatrixX<S>& b, bool transposed, int* iterations) const {
+MatrixX<S> CompressedSystem<S>::solve_columns(const MatrixX<S>& b, bool transposed, int* iterations,
+                                              double tolerance) const {
     MURK_CHECK(b.rows() == size_, "right-hand sides have one row per unknown");
     MatrixX<S> x(size_, b.cols());
     int most = 0;
@@ -111,8 +112,8 @@ MatrixX<S> CompressedSystem<S>::solve_columns(const MatrixX<S>& b, bool transpos
         std::vector<GmresRun<S>> runs;
         runs.reserve(std::size_t(count));
         for (Eigen::Index j = 0; j < count; ++j)
-            runs.emplace_back(VectorX<S>(b.col(first + j)), options_.iteration_tolerance, options_.max_iterations,
-                              kRestart);
+            runs.emplace_back(VectorX<S>(b.col(first + j)), tolerance > 0 ? tolerance : options_.iteration_tolerance,
+                              options_.max_iterations, kRestart);
         for (;;) {
             std::vector<std::size_t> active;
             for (std::size_t j = 0; j < runs.size(); ++j)

@@ -34,7 +34,9 @@ public:
     // options.iteration_tolerance; `iterations` (optional) receives the most any
     // column took. Not converging within max_iterations is an InternalError (a
     // preconditioner that fails on a checked scene is a defect, not bad input).
-    MatrixX<S> solve_columns(const MatrixX<S>& b, bool transposed, int* iterations = nullptr) const;
+    // `tolerance` > 0 replaces options.iteration_tolerance for this call.
+    MatrixX<S> solve_columns(const MatrixX<S>& b, bool transposed, int* iterations = nullptr,
+                             double tolerance = 0) const;
     // A x (transposed: A^T x) for every column of x.
     MatrixX<S> apply(const MatrixX<S>& x, bool transposed = false) const;
 

@@ -97,6 +97,11 @@ typename FixedPart<S>::SolverReport FixedPart<S>::report() const {
     return r;
 }
 
+template <class S>
+const CompressedSystem<S>* FixedPart<S>::compressed_system() const {
+    return compressed_ ? &compressed_->system : nullptr;
+}
+
 template class FixedPart<double>;
 template class FixedPart<Complex>;
 

@@ -15,6 +15,9 @@
 namespace murk {
 
 template <class S>
+class CompressedSystem;
+
+template <class S>
 class FixedPart {
 public:
     FixedPart(const FixedPart&) = delete;  // the factors are referenced in place
@@ -60,6 +63,8 @@ public:
         int baseline_iterations = 0;        // of the fixed part's own solve
     };
     SolverReport report() const;
+    // The compressed system itself (null when dense), for benchmarks and reports.
+    const CompressedSystem<S>* compressed_system() const;
 
 private:
     struct Compressed;  // compressed_system.hpp

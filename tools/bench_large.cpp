@@ -8,9 +8,11 @@
 // entries (Gauss's-law row sums, border, right-hand side), compression and
 // preconditioner, the stored bytes, the compression ratio and ranks, the peak
 // resident memory, the baseline's GMRES iterations, one solve to a relative
-// residual of 1e-8 and one exact-path sweep point (a 3 mm sphere 5 mm off the
-// flank); for the dense part (up to --dense-max unknowns) assembly, LU, a solve
-// and the same sweep point, and the agreement of the two: the largest difference
+// residual of 1e-8 and the time per exact-path sweep point (eight points of a
+// 3 mm sphere 5 mm off the flank, solved together as a sweep's batch is); for
+// the dense part (up to --dense-max unknowns) assembly, LU and the same points
+// (its peak memory includes the compressed part's, which is released first but
+// counted by the process's peak), and the agreement of the two: the largest difference
 // of the sphere's perturbation of the transdermal voltage over all skin panels,
 // relative to the largest perturbation.
 //
@@ -86,15 +88,24 @@ Surface<double> sphere_beside(const Scene<double>& body, double radius, double g
     return s;
 }
 
-// Transdermal perturbation over the skin, and the seconds the sweep point took.
-Eigen::VectorXd exact_point(const Scene<double>& full, const FixedPart<double>& fixed, double* seconds) {
+// Eight exact-path points solved together, as a sweep's batch is (the sphere at
+// eight places along the flank); returns the first point's transdermal
+// perturbation over the skin and the seconds per point.
+Eigen::VectorXd exact_points(const Scene<double>& full, const FixedPart<double>& fixed, double* seconds_per_point) {
     const std::size_t moving = full.surfaces.size() - 1;
     const QuadratureOptions quad{};
     const MovingBlock<double> block = factor_moving_block(full, {moving}, quad);
+    constexpr int kPoints = 8;
+    std::vector<Scene<double>> scenes(kPoints, full);
+    std::vector<CoupledProblem<double>> problems;
+    for (int k = 0; k < kPoints; ++k) {
+        translate(scenes[std::size_t(k)].surfaces.back().mesh, Vec3(0.004 * k, 0, 0));
+        problems.push_back({&scenes[std::size_t(k)], {moving}, &block});
+    }
     const auto t0 = std::chrono::steady_clock::now();
-    const CoupledSolution<double> c = solve_coupled(full, {moving}, fixed, block, quad, CouplingOptions{});
-    *seconds = seconds_since(t0);
-    const auto& skin = c.solution.surfaces.front();
+    const std::vector<CoupledSolution<double>> c = solve_coupled_together(problems, fixed, quad, CouplingOptions{});
+    *seconds_per_point = seconds_since(t0) / kPoints;
+    const auto& skin = c.front().solution.surfaces.front();
     const auto& base = fixed.solution().surfaces.front();
     return (skin.inner_potential - skin.outer_potential) - (base.inner_potential - base.outer_potential);
 }
@@ -110,28 +121,28 @@ int one_size(long target, long dense_max, double tolerance, int dipoles) {
     std::printf("%7ld panels %7ld unknowns | ", panels, unknowns);
     std::fflush(stdout);
 
+    Eigen::VectorXd pert_c;
+    auto t0 = std::chrono::steady_clock::now();
+    {  // the compressed part is released before the dense one is built: each peak is its own
     SolverOptions c;
     c.choice = SystemSolver::compressed;
     c.compression_tolerance = tolerance;
-    auto t0 = std::chrono::steady_clock::now();
+    t0 = std::chrono::steady_clock::now();
     const FixedPart<double> compressed(body, quad, c);
     const double setup = seconds_since(t0);
     const FixedPart<double>::SolverReport report = compressed.report();
-    // One more solve to 1e-8, the measure, on the baseline's right-hand side.
-    SolverOptions c8 = c;
-    c8.iteration_tolerance = 1e-8;
+    const CompressedSystem<double>& system = *compressed.compressed_system();
     double exact_c = 0;
-    const Eigen::VectorXd pert_c = exact_point(full, compressed, &exact_c);
-    std::printf("compressed: set-up %.1f s (entries %.1f, compression+preconditioner %.1f), %.2f GiB stored "
+    pert_c = exact_points(full, compressed, &exact_c);
+    std::printf("compressed: set-up %.1f s (entries %.1f, compression %.1f, preconditioner %.1f), %.2f GiB stored "
                 "(%.1f %% of dense), %d iterations, exact point %.2f s",
-                setup, compressed.assembly_seconds(), compressed.factor_seconds(),
+                setup, system.entries_seconds(), system.compression_seconds(), system.preconditioner_seconds(),
                 double(compressed.factor_bytes()) / (1 << 30), 100.0 * report.compression_ratio,
                 report.baseline_iterations, exact_c);
     {
-        const CompressedSystem<double> system8(body, quad, c8);
         t0 = std::chrono::steady_clock::now();
         int it = 0;
-        (void)system8.solve_columns(system8.rhs(), false, &it);
+        (void)system.solve_columns(system.rhs(), false, &it, 1e-8);
         std::printf(", solve to 1e-8 %.2f s (%d iterations)", seconds_since(t0), it);
     }
     if (dipoles > 0) {
@@ -143,13 +154,16 @@ int one_size(long target, long dense_max, double tolerance, int dipoles) {
         std::printf(", %d dipole points %.2f s", dipoles, seconds_since(t0));
     }
     {
-        const CompressedSystem<double> probe(body, quad, c);
-        const HMatrixStats& st = probe.operator_stats();
-        std::printf(", blocks %zu dense %zu low-rank (ranks mean %.1f, max %d), %zu preconditioner blocks",
-                    st.dense_blocks, st.low_rank_blocks, st.mean_rank, st.max_rank, probe.preconditioner_blocks());
+        const HMatrixStats& st = system.operator_stats();
+        std::printf(", blocks %zu dense %zu low-rank (ranks mean %.1f, max %d), %.0f stored entries per n log2 n, "
+                    "%zu preconditioner blocks",
+                    st.dense_blocks, st.low_rank_blocks, st.mean_rank, st.max_rank,
+                    double(st.bytes) / sizeof(double) / (double(unknowns) * std::log2(double(unknowns))),
+                    system.preconditioner_blocks());
     }
     std::printf(", peak %.2f GiB", peak_rss_gib());
     std::fflush(stdout);
+    }
 
     if (unknowns <= dense_max) {
         SolverOptions d;
@@ -158,7 +172,7 @@ int one_size(long target, long dense_max, double tolerance, int dipoles) {
         const FixedPart<double> dense(body, quad, d);
         const double dense_setup = seconds_since(t0);
         double exact_d = 0;
-        const Eigen::VectorXd pert_d = exact_point(full, dense, &exact_d);
+        const Eigen::VectorXd pert_d = exact_points(full, dense, &exact_d);
         const double agreement = (pert_c - pert_d).cwiseAbs().maxCoeff() / pert_d.cwiseAbs().maxCoeff();
         std::printf(" | dense: set-up %.1f s (assembly %.1f, LU %.1f), %.2f GiB, exact point %.2f s, peak %.2f GiB | "
                     "agreement %.2e",
