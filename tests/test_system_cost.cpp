@@ -1,6 +1,6 @@
 // The memory and time model of the fixed part under each solver
 // (solver/system_cost.hpp, cases/sweep/cost_model.hpp). Expected values are worked
-// out by hand from the model's stated formulas (c n log2 n + 512 n entries for the
+// out by hand from the model's stated formulas (500 n log2 n + 512 n entries for the
 // compressed system, n^2 for the dense one), not taken from the code.
 #include "cases/sweep/cost_model.hpp"
 #include "solver/system_cost.hpp"
@@ -9,16 +9,17 @@
 
 using namespace murk;
 
-TEST_CASE("system cost: compressed entries follow c n log2 n + 512 n, never more than dense") {
-    // n = 1024: log2 n = 10, so 60 * 1024 * 10 + 512 * 1024 = 614,400 + 524,288.
-    CHECK(compressed_system_entries(1024) == doctest::Approx(1138688.0));
+TEST_CASE("system cost: compressed entries follow 500 n log2 n + 512 n, never more than dense") {
+    // n = 1024: log2 n = 10, so 500 * 1024 * 10 = 5,120,000 exceeds 1024^2 and is
+    // held at 1,048,576; plus 512 * 1024 = 524,288.
+    CHECK(compressed_system_entries(1024) == doctest::Approx(1572864.0));
     CHECK(system_entries(1024, false) == doctest::Approx(1048576.0));  // 1024^2
-    // n = 100: 60 * 100 * log2(100) = 39,863 and 512 * 100 = 51,200 both exceed
+    // n = 100: 500 * 100 * log2(100) = 332,193 and 512 * 100 = 51,200 both exceed
     // 100^2, so each part is held at the dense size: 2 * 10,000.
     CHECK(compressed_system_entries(100) == doctest::Approx(20000.0));
-    // n = 65536: log2 n = 16, 60 * 16 + 512 = 1472 entries per unknown, against
-    // 65536 dense: the compressed system is 1472 / 65536 of the dense one.
-    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(1472.0 / 65536.0));
+    // n = 65536: log2 n = 16, 500 * 16 + 512 = 8512 entries per unknown, against
+    // 65536 dense: the compressed system is 8512 / 65536 of the dense one.
+    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(8512.0 / 65536.0));
 }
 
 TEST_CASE("system cost: the sweep's memory counts the compressed system only when compressed") {
@@ -30,10 +31,10 @@ TEST_CASE("system cost: the sweep's memory counts the compressed system only whe
     const double overhead = 24.0 * 1024 * 1024;
     CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 65536.0 * 65536.0 * 8 + overhead));
     cost.sizes.compressed = true;
-    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 1472.0 * 65536.0 * 8 + overhead));
+    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 8512.0 * 65536.0 * 8 + overhead));
     // The compressed fixed part's time: compression at the entry rate, then one solve
-    // of 30 iterations, each reading the 1472 x 65536 x 8 bytes once.
-    const double bytes = 1472.0 * 65536.0 * 8;
+    // of 40 iterations, each reading the 8512 x 65536 x 8 bytes once.
+    const double bytes = 8512.0 * 65536.0 * 8;
     CHECK(cost.fixed_part_seconds() ==
-          doctest::Approx(2 * (1472.0 * 65536.0 / cost.rates.entry_rate + 30 * bytes / cost.rates.solve_byte_rate)));
+          doctest::Approx(2 * (8512.0 * 65536.0 / cost.rates.entry_rate + 40 * bytes / cost.rates.solve_byte_rate)));
 }
