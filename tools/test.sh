@@ -68,6 +68,9 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # fish demo run again and again under file-size limits; a full disk is then tested in build/
 # only) and cli_run_refusals (272 s, 10 s; cli_bad_input runs murk's refusals sanitized, and the
 # readers' refusals are unit-tested sanitized).
+# cli_solver_choice (murk solve four times, two of them compressed, and xarray: 14 s in build/)
+# likewise: the compressed path is unit-tested sanitized (tests/test_compressed_system.cpp,
+# tests/test_hmatrix.cpp) and the [mesh] keys by the reader's tests.
 # "electrode hulls: the drive current of two rings converges monotonically" solves four dense
 # systems of up to 4,536 panels (7 s in build/ on a busy machine, minutes sanitized); the hulls
 # it meshes are unit-tested sanitized by the area and quality tests beside it. "patch electrodes:
@@ -76,7 +79,7 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # unit-tested sanitized in tests/test_geometry_electrode_cut.cpp.
 slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare|cli_placement_run'
 slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
-slow+='|cli_disk_full|cli_run_refusals'
+slow+='|cli_disk_full|cli_run_refusals|cli_solver_choice'
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*"
 slow+="|electrode hulls: the drive current of two rings converges monotonically.*"
