@@ -4,6 +4,7 @@
 #include "solver/system_entries.hpp"
 
 #include <chrono>
+#include <exception>
 
 namespace murk {
 
@@ -51,15 +52,24 @@ CompressedSystem<S>::CompressedSystem(const Scene<S>& scene, const QuadratureOpt
     std::vector<int> nodes;
     if (panels_ > 0) block_nodes(h_->tree(), 0, preconditioner_block, nodes);
     blocks_.resize(nodes.size());
+    // panel_block's index checks cannot fail on the tree's own indices, but an
+    // exception must not leave a parallel region: the first is kept and rethrown.
+    std::exception_ptr failure;
 #pragma omp parallel for schedule(dynamic, 1)
     for (std::size_t b = 0; b < nodes.size(); ++b) {
-        const ClusterTree& tree = h_->tree();
-        const ClusterTree::Node& n = tree.nodes[std::size_t(nodes[b])];
-        blocks_[b].unknowns.assign(tree.order.begin() + n.begin, tree.order.begin() + n.end);
-        MatrixX<S> dense;
-        entries.panel_block(blocks_[b].unknowns, blocks_[b].unknowns, dense);
-        blocks_[b].lu.compute(dense);
+        try {
+            const ClusterTree& tree = h_->tree();
+            const ClusterTree::Node& n = tree.nodes[std::size_t(nodes[b])];
+            blocks_[b].unknowns.assign(tree.order.begin() + n.begin, tree.order.begin() + n.end);
+            MatrixX<S> dense;
+            entries.panel_block(blocks_[b].unknowns, blocks_[b].unknowns, dense);
+            blocks_[b].lu.compute(dense);
+        } catch (...) {
+#pragma omp critical(murk_preconditioner_failure)
+            if (!failure) failure = std::current_exception();
+        }
     }
+    if (failure) std::rethrow_exception(failure);
     preconditioner_seconds_ = seconds_since(t0);
 }
 

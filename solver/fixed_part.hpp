@@ -1,8 +1,10 @@
 #pragma once
 // The part of a scene that stays while a sweep moves objects: the sensing body,
 // its electrodes and sources, and any object that does not move. Its system is
-// assembled and LU-factored once; every sweep point then costs triangular
-// solves against the stored factors (DEVELOPERS.md, "How a sweep is solved").
+// assembled and LU-factored once, or for a large body compressed once
+// (compressed_system.hpp); every sweep point then costs triangular solves
+// against the stored factors, or a preconditioned iterative solve against the
+// compressed operator (DEVELOPERS.md, "How a sweep is solved").
 // The stored factors are only read after construction, so any number of threads
 // may solve against one FixedPart at once.
 #include "solver/bem_system.hpp"
@@ -71,7 +73,7 @@ private:
     Scene<S> scene_;
     std::shared_ptr<const Compressed> compressed_;
     SystemLayout layout_;
-    // Factored in place (Eigen's inplace decomposition): the dense system is held once.
+    // Dense: factored in place (Eigen's inplace decomposition), the system held once.
     MatrixX<S> factors_;
     std::optional<Eigen::PartialPivLU<Eigen::Ref<MatrixX<S>>>> lu_;
     VectorX<S> x0_;
