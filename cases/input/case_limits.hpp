@@ -21,6 +21,7 @@ constexpr std::size_t kMaxAxisValues = 100000;     // values of one sweep axis (
 constexpr std::size_t kMaxLayoutTargets = 2000000;  // murk layout's target positions (grid points in all)
 constexpr std::size_t kMaxLayouts = 1000;          // [[layout]] tables
 constexpr std::size_t kMaxLayoutElectrodes = 1000; // entries of a layout's emitters, sensors or pairs
+constexpr std::size_t kMaxWaveformSamples = 4096;  // [signal] samples, harmonics and synthesis_samples
 constexpr std::size_t kMaxNameBytes = 64;          // names of objects, probes and electrodes
 constexpr std::size_t kMaxDenseLimit = 1000000000; // [mesh] dense_limit (unknowns); a dense system of
                                                    // that size would need 8 EB, so larger means "never"

@@ -1146,7 +1146,7 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 
 SweepSpec read_sweep(const Section& sec) {
     check_keys(sec, {"object", "alternatives", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
-                     "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance"});
+                     "frequency", "permittivity", "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* m = sec.find("method")) {
@@ -1195,6 +1195,12 @@ SweepSpec read_sweep(const Section& sec) {
     if (sec.find("conductivity")) s.conductivity_S_per_m = read_axis_values(sec, "conductivity", Dimension::conductivity, true);
     if (sec.find("water_conductivity"))
         s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
+    if (sec.find("frequency")) s.frequency_Hz = read_axis_values(sec, "frequency", Dimension::frequency);
+    if (sec.find("permittivity")) {
+        s.permittivity_relative = read_axis_values(sec, "permittivity", Dimension::permittivity_relative);
+        if (s.permittivity_relative.front() < 1.0)
+            fail(sec.where("permittivity"), "a relative permittivity is at least 1, got " + format_number(s.permittivity_relative.front()));
+    }
     if (const toml::node* g = sec.find("grid")) {
         const Section grid{as_table(sec, "grid", *g), sec.key_path("grid"), line_of(*g), sec.ctx};
         check_keys(grid, {"origin", "u_direction", "v_direction", "u", "v", "w_direction", "w"});
@@ -1227,8 +1233,10 @@ SweepSpec read_sweep(const Section& sec) {
         fail(sec.where("grid"), "a sweep places the object either by distance or on a grid, not both");
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
-        s.water_conductivity_S_per_m.empty() && s.alternatives.empty())
-        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, alternatives or grid");
+        s.water_conductivity_S_per_m.empty() && s.alternatives.empty() && s.frequency_Hz.empty() &&
+        s.permittivity_relative.empty())
+        fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, frequency, "
+                               "permittivity, alternatives or grid");
     return s;
 }
 
@@ -1308,6 +1316,132 @@ DetectionSpec read_detection(const Section& sec) {
     return d;
 }
 
+// ---- signal -------------------------------------------------------------------
+
+// The emitter's waveform of [signal] (cases/input/waveform.hpp): harmonics {order,
+// amplitude, phase} or samples over one period, with the fundamental frequency.
+WaveformSpec read_waveform(const Section& sec) {
+    WaveformSpec w;
+    w.line = sec.line;
+    w.fundamental_Hz = required_positive(sec, "frequency", Dimension::frequency);
+    const toml::node* list = sec.find("harmonics");
+    const toml::node* samples = sec.find("samples");
+    if (list && samples) fail(sec.where("samples"), "give the waveform either by harmonics or by samples, not both");
+    int highest = 1;
+    if (list) {
+        w.form = WaveformSpec::Form::harmonics;
+        const toml::array* arr = list->as_array();
+        if (!arr || arr->empty())
+            fail(sec.where("harmonics"), "expected an array of tables {order, amplitude, phase}, got " + describe(*list));
+        if (arr->size() > kMaxWaveformSamples)
+            fail(sec.where("harmonics"), "expected at most " + std::to_string(kMaxWaveformSamples) + " harmonics, got " +
+                                             std::to_string(arr->size()));
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& e = *arr->get(i);
+            const std::string key = "harmonics[" + std::to_string(i + 1) + "]";
+            if (!e.is_table()) fail(at(sec.ctx, line_of(e), sec.key_path(key)), "expected a table {order, amplitude, phase}, got " + describe(e));
+            const Section h{*e.as_table(), sec.key_path(key), line_of(e), sec.ctx};
+            check_keys(h, {"order", "amplitude", "phase"});
+            Harmonic one;
+            const toml::node& order = required(h, "order", "the multiple of the fundamental, 1 or more");
+            if (!order.is_integer() || order.as_integer()->get() < 1)
+                fail(h.where("order"), "expected a whole number of at least 1 (the fundamental is 1), got " + describe(order));
+            if (order.as_integer()->get() > std::int64_t(kMaxWaveformSamples / 2))
+                fail(h.where("order"), "above " + std::to_string(kMaxWaveformSamples / 2) +
+                                           ", the highest order murk synthesizes, got " + describe(order));
+            one.order = int(order.as_integer()->get());
+            one.amplitude = read_quantity(h, "amplitude", required(h, "amplitude"), Dimension::dimensionless);
+            if (!(one.amplitude >= 0.0)) fail(h.where("amplitude"), "must not be negative (turn the phase by 180 deg instead)");
+            one.phase_rad = optional_quantity(h, "phase", Dimension::angle).value_or(0.0);
+            one.energy = 0.5 * one.amplitude * one.amplitude;
+            for (const Harmonic& other : w.harmonics)
+                if (other.order == one.order) fail(h.where("order"), "another harmonic already has order " + std::to_string(one.order));
+            highest = std::max(highest, one.order);
+            w.harmonics.push_back(one);
+        }
+        std::sort(w.harmonics.begin(), w.harmonics.end(), [](const Harmonic& a, const Harmonic& b) { return a.order < b.order; });
+    } else {
+        w.form = WaveformSpec::Form::samples;
+        const toml::array* arr = samples->as_array();
+        if (!arr) fail(sec.where("samples"), "expected an array of numbers over one period, got " + describe(*samples));
+        if (arr->size() < 2 || arr->size() > kMaxWaveformSamples)
+            fail(sec.where("samples"), "expected from 2 to " + std::to_string(kMaxWaveformSamples) +
+                                           " samples over one period, got " + std::to_string(arr->size()));
+        double largest = 0;
+        for (std::size_t i = 0; i < arr->size(); ++i) {
+            const toml::node& e = *arr->get(i);
+            const double v = quantity_at(at(sec.ctx, line_of(e), sec.key_path("samples[" + std::to_string(i + 1) + "]")), e,
+                                         Dimension::dimensionless);
+            largest = std::max(largest, std::abs(v));
+            w.samples.push_back(v);
+        }
+        // murk solves harmonics 1 and up; a mean would be a direct current, which the
+        // synthesis would leave out. Rounding of the user's decimals is tolerated.
+        if (!(largest > 0.0)) fail(sec.where("samples"), "are all zero: the emitter would carry nothing");
+        const double mean = samples_mean(w.samples);
+        if (std::abs(mean) > 1e-9 * largest)
+            fail(sec.where("samples"), "must have zero mean (no direct current: murk solves harmonics 1 and up), got a mean of " +
+                                           format_number(mean) + "; subtract it from every sample");
+        w.harmonics = harmonics_of_samples(w.samples);
+        highest = int(w.samples.size() / 2);
+    }
+    bool any = false;
+    for (const Harmonic& h : w.harmonics) any = any || h.amplitude > 0.0;
+    if (!any) fail(sec.where(list ? "harmonics" : "samples"), "every amplitude is zero: the emitter would carry nothing");
+    if (const toml::node* f = sec.find("energy_fraction")) {
+        w.energy_fraction = read_quantity(sec, "energy_fraction", *f, Dimension::dimensionless);
+        if (!(w.energy_fraction > 0.0 && w.energy_fraction < 1.0))
+            fail(sec.where("energy_fraction"), "a share of the energy strictly between 0 and 1, got " + describe(*f));
+    }
+    if (const toml::node* n = sec.find("synthesis_samples")) {
+        w.synthesis_samples = read_count(sec, "synthesis_samples", *n, 2, kMaxWaveformSamples);
+        // Nyquist: N samples a period represent orders up to N / 2.
+        for (const Harmonic& h : w.harmonics)
+            if (h.amplitude > 0.0 && 2 * h.order > w.synthesis_samples)
+                fail(sec.where("synthesis_samples"), std::to_string(w.synthesis_samples) + " samples a period represent harmonics up to order " +
+                                                          std::to_string(w.synthesis_samples / 2) + " (Nyquist); the waveform has order " +
+                                                          std::to_string(h.order));
+    } else {
+        w.synthesis_samples = w.form == WaveformSpec::Form::samples ? int(w.samples.size())
+                                                                    : std::max(64, 4 * highest);
+    }
+    if (const toml::node* n = sec.find("synthesize")) {
+        auto word = [&](const std::string& where, const toml::node& e, bool array) {
+            const std::string v = e.as_string()->get();
+            if (v == "peak") w.synthesize_peak = true;
+            else if (v == "all" && !array) w.synthesize_all = true;
+            else fail(where, std::string("expected ") + (array ? "\"peak\" or a position index" : "\"peak\", \"all\" or an array") + ", got " + in_quotes(v));
+        };
+        if (n->is_string()) word(sec.where("synthesize"), *n, false);
+        else if (const toml::array* arr = n->as_array()) {
+            if (arr->size() > kMaxAxisValues) fail(sec.where("synthesize"), "expected at most " + std::to_string(kMaxAxisValues) + " entries");
+            for (std::size_t i = 0; i < arr->size(); ++i) {
+                const toml::node& e = *arr->get(i);
+                const std::string where = at(sec.ctx, line_of(e), sec.key_path("synthesize[" + std::to_string(i + 1) + "]"));
+                if (e.is_string()) word(where, e, true);
+                else if (e.is_integer() && e.as_integer()->get() >= 0) w.synthesize_points.push_back(std::size_t(e.as_integer()->get()));
+                else fail(where, "expected a position index (0 or more) or \"peak\", got " + describe(e));
+            }
+        } else fail(sec.where("synthesize"), "expected \"peak\", \"all\" or an array of position indices, got " + describe(*n));
+    }
+    return w;
+}
+
+// A frequency axis replaces the case's one frequency (and a waveform's harmonics);
+// a permittivity axis needs some frequency, else it carries no current.
+void check_sweep_frequencies(const Section& sw, const CaseSpec& spec) {
+    if (!spec.sweep->frequency_Hz.empty()) {
+        if (spec.frequency_Hz)
+            fail(sw.where("frequency"), "the case already has one frequency (frequency or signal.frequency); give one of the two");
+        if (spec.waveform)
+            fail(sw.where("frequency"), "the [signal] waveform sets the frequencies (its harmonics); remove this axis");
+    }
+    if (!spec.sweep->permittivity_relative.empty() && spec.sweep->frequency_Hz.empty() && !spec.frequency_Hz &&
+        !spec.waveform)
+        fail(sw.where("permittivity"), "a permittivity carries current only at a frequency: give frequency (case or "
+                                       "sweep axis) or a [signal] waveform");
+}
+
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
@@ -1319,10 +1453,19 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* f = sec.find("frequency")) spec.frequency_Hz = positive_quantity(sec, "frequency", *f, Dimension::frequency);
     if (const toml::node* s = sec.find("signal")) {
         const Section signal{as_table(sec, "signal", *s), "signal", line_of(*s), ctx};
-        check_keys(signal, {"frequency"});
-        if (const toml::node* f = signal.find("frequency")) {
+        check_keys(signal, {"frequency", "harmonics", "samples", "energy_fraction", "synthesis_samples", "synthesize"});
+        if (signal.find("harmonics") || signal.find("samples")) {
+            if (spec.frequency_Hz) fail(at(ctx, line_of(*sec.find("frequency")), "frequency"),
+                                        "a [signal] waveform gives its fundamental as signal.frequency; remove this one");
+            spec.waveform = read_waveform(signal);
+        } else if (const toml::node* f = signal.find("frequency")) {
+            for (const char* key : {"energy_fraction", "synthesis_samples", "synthesize"})
+                if (signal.find(key)) fail(signal.where(key), "goes with a waveform (signal.harmonics or signal.samples)");
             if (spec.frequency_Hz) fail(signal.where("frequency"), "the frequency is already given at the top level");
             spec.frequency_Hz = positive_quantity(signal, "frequency", *f, Dimension::frequency);
+        } else {
+            for (const char* key : {"energy_fraction", "synthesis_samples", "synthesize"})
+                if (signal.find(key)) fail(signal.where(key), "goes with a waveform (signal.harmonics or signal.samples)");
         }
     }
 
@@ -1397,6 +1540,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* de = sec.find("detection"))
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
+    if (spec.sweep) check_sweep_frequencies(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
     if (placement) spec.placement = read_placement(*placement, spec, candidate_rings);
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.layouts.empty())
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "each [[layout]] says how its sensors are read; remove readings");

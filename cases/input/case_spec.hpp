@@ -13,6 +13,7 @@
 #include "cases/input/layout_spec.hpp"
 #include "cases/input/placement_spec.hpp"
 #include "cases/input/sweep_spec.hpp"
+#include "cases/input/waveform.hpp"
 #include <string>
 #include <vector>
 
@@ -247,6 +248,9 @@ struct CaseSpec {
     std::string title;
     std::string description;
     std::optional<double> frequency_Hz;  // unset: direct current (omega = 0)
+    // [signal] with harmonics or samples: the emitter's periodic waveform (frequency_Hz
+    // then stays unset; murk run solves at the kept harmonics' frequencies).
+    std::optional<WaveformSpec> waveform;
     WaterSpec water;
     MeshSpec mesh;
     // At most one of fish and robot is set. Neither only when the case has at

@@ -39,7 +39,9 @@ struct SweepSpec {
     std::vector<std::string> alternatives;     // axis of alternative objects (shapes): at each point
                                                // only the one named is in the water
     std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
+    std::vector<double> frequency_Hz;          // axis; a fixed part per (water, frequency) pair
     std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
+    std::vector<double> permittivity_relative; // axis; the object's relative permittivity (needs a frequency)
     std::vector<double> size_m;                // axis; sphere radius, or the largest half-extent
     std::vector<double> distance_m;            // axis; clearance between object and body surfaces
     std::optional<std::array<double, 3>> direction;  // distance axis: unit direction of travel

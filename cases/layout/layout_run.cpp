@@ -27,6 +27,9 @@ QuadratureOptions quadrature_of(const CaseSpec& spec) {
 LayoutRun evaluate_layouts(const CaseSpec& spec, const QuadratureOptions& quad, bool quiet) {
     if (spec.layouts.empty())
         throw InputError(spec.path + ": layout: murk layout compares [[layout]] tables; the case has none");
+    if (spec.waveform)
+        throw InputError(spec.path + ":" + std::to_string(spec.waveform->line) + ": signal: murk layout computes at "
+                         "direct current; a waveform (harmonics or samples) is solved by murk run");
     if (case_needs_complex(spec))
         throw InputError(spec.path + ": murk layout computes in real arithmetic; this case has a permittivity or "
                                      "capacitance at a frequency (leave them out to compare layouts)");

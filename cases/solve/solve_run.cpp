@@ -282,6 +282,16 @@ void write_solved(const CaseSpec& spec, const SolveOptions& options, const Solve
 }  // namespace
 
 void run_solve(const CaseSpec& spec, const SolveOptions& options) {
+    if (spec.waveform) {
+        // One configuration at one frequency: a waveform's fundamental. murk run solves every kept harmonic.
+        CaseSpec at_fundamental = spec;
+        at_fundamental.frequency_Hz = spec.waveform->fundamental_Hz;
+        at_fundamental.waveform.reset();
+        if (!options.quiet)
+            std::fprintf(stderr, "murk: the case's waveform is solved at its fundamental, %g Hz (murk run solves every "
+                                 "harmonic and synthesizes the waveform)\n", spec.waveform->fundamental_Hz);
+        return run_solve(at_fundamental, options);
+    }
     if (case_needs_complex(spec)) solve_case<Complex>(spec, options);
     else solve_case<double>(spec, options);
 }

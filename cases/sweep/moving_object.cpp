@@ -83,12 +83,25 @@ MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : p
     const int size_axis = plan.axis(AxisKind::size), conductivity_axis = plan.axis(AxisKind::conductivity);
     sizes_ = size_axis >= 0 ? plan.axes[size_axis].values.size() : 1;
     conductivities_ = conductivity_axis >= 0 ? plan.axes[conductivity_axis].values.size() : 1;
-    waters_ = plan.waters.size();
-    const double forms = double(plan.moving.size()) * double(sizes_) * double(conductivities_) * double(waters_);
+    waters_ = plan.fixed_count();  // a form per (water, frequency) pair
+    const int permittivity_axis = plan.axis(AxisKind::permittivity);
+    permittivities_ = permittivity_axis >= 0 ? plan.axes[permittivity_axis].values.size() : 1;
+    const double forms =
+        double(plan.moving.size()) * double(sizes_) * double(conductivities_) * double(permittivities_) * double(waters_);
     if (forms > double(kMaxForms))
         throw InputError(plan.where + ": the sweep gives the object " + std::to_string(std::size_t(forms)) +
-                         " forms (objects x sizes x conductivities x water conductivities), more than " +
+                         " forms (objects x sizes x conductivities x permittivities x water conductivities x "
+                         "frequencies), more than " +
                          std::to_string(kMaxForms) + "; split it into several runs");
+    // The case at each fixed part's frequency (a copy of the few fields that matter, not the
+    // case's text): the water and the object take their admittivity from it.
+    std::vector<CaseSpec> at_frequency(waters_);
+    for (std::size_t w = 0; w < waters_; ++w) {
+        at_frequency[w].path = spec.path;
+        at_frequency[w].water = spec.water;
+        at_frequency[w].mesh = spec.mesh;
+        at_frequency[w].frequency_Hz = plan.fixed_frequency(w, spec.frequency_Hz);
+    }
     for (std::size_t m : plan.moving) {
         const ObjectSpec& original = spec.objects[m];
         const double original_size = size_axis >= 0 ? shape_size(original.shape) : 0.0;
@@ -108,15 +121,19 @@ MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : p
             }
             for (const Vec3& v : shape->mesh.vertices)
                 shape->half_extent = std::max(shape->half_extent, (v - shape->centre).norm());
-            for (std::size_t c = 0; c < conductivities_; ++c)
+            for (std::size_t c = 0; c < conductivities_ * permittivities_; ++c)
                 for (std::size_t w = 0; w < waters_; ++w) {
                     ObjectSpec material = shape->spec;
-                    if (conductivity_axis >= 0) set_material(material, plan.axes[conductivity_axis].values[c]);
+                    if (conductivity_axis >= 0)
+                        set_material(material, plan.axes[conductivity_axis].values[c / permittivities_]);
+                    if (permittivity_axis >= 0)
+                        material.permittivity_relative = plan.axes[permittivity_axis].values[c % permittivities_];
                     // The material as the scene builder makes it (a surface without panels):
                     // the water decides whether a contrast is solved as its limit.
                     Scene<S> holder;
-                    holder.water_conductivity = water_admittivity<S>(spec, plan.waters[w]);
-                    add_object_surface(holder, spec, material, TriangleMesh{});
+                    const CaseSpec& at = at_frequency[w];
+                    holder.water_conductivity = water_admittivity<S>(at, plan.fixed_water(w));
+                    add_object_surface(holder, at, material, TriangleMesh{});
                     const Surface<S>& built = holder.surfaces.front();
                     auto form = std::make_unique<MovingObject<S>>();
                     form->shape = shape.get();
@@ -140,8 +157,11 @@ const MovingObject<S>& MovingObjects<S>::at(const std::vector<std::size_t>& inde
     const SweepPlan& plan = *plan_;
     const int size_axis = plan.axis(AxisKind::size), conductivity_axis = plan.axis(AxisKind::conductivity);
     const std::size_t z = size_axis >= 0 ? index[size_axis] : 0;
-    const std::size_t c = conductivity_axis >= 0 ? index[conductivity_axis] : 0;
-    const std::size_t k = ((plan.moving_of(index) * sizes_ + z) * conductivities_ + c) * waters_ + plan.water_of(index);
+    const int permittivity_axis = plan.axis(AxisKind::permittivity);
+    const std::size_t c = (conductivity_axis >= 0 ? index[conductivity_axis] : 0) * permittivities_ +
+                          (permittivity_axis >= 0 ? index[permittivity_axis] : 0);
+    const std::size_t k =
+        ((plan.moving_of(index) * sizes_ + z) * conductivities_ * permittivities_ + c) * waters_ + plan.water_of(index);
     return *forms_.at(k);
 }
 

@@ -76,8 +76,9 @@ public:
 private:
     const SweepPlan* plan_;
     std::vector<std::unique_ptr<ObjectShape>> shapes_;     // C order over (moving, size)
-    std::vector<std::unique_ptr<MovingObject<S>>> forms_;  // C order over (moving, size, conductivity, water)
-    std::size_t sizes_ = 1, conductivities_ = 1, waters_ = 1;
+    std::vector<std::unique_ptr<MovingObject<S>>> forms_;  // C order over (moving, size, conductivity,
+                                                        // permittivity, water and frequency)
+    std::size_t sizes_ = 1, conductivities_ = 1, permittivities_ = 1, waters_ = 1;  // waters_: fixed parts
 };
 
 // A point's scene: the fixed part's scene with the object appended last, moved by

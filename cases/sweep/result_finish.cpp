@@ -3,6 +3,7 @@
 #include "cases/output/result_layout.hpp"
 #include "cases/output/surface_output.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
+#include "cases/sweep/waveform_synthesis.hpp"
 #include "geometry/input_error.hpp"
 
 #include <complex>
@@ -15,7 +16,8 @@ namespace {
 
 AxisKind kind_of(const std::string& name, const std::string& file) {
     static const std::pair<const char*, AxisKind> kinds[] = {
-        {"water_conductivity", AxisKind::water_conductivity}, {"alternative", AxisKind::alternative},
+        {"water_conductivity", AxisKind::water_conductivity}, {"frequency", AxisKind::frequency},
+        {"alternative", AxisKind::alternative},                {"permittivity", AxisKind::permittivity},
         {"conductivity", AxisKind::conductivity},             {"size", AxisKind::size},
         {"distance", AxisKind::distance},                     {"grid_u", AxisKind::grid_u},
         {"grid_v", AxisKind::grid_v}};
@@ -64,6 +66,7 @@ std::vector<XdmfSurface> finish_result(H5Group root) {
         detection->false_alarm_probability = pd.double_attribute("false_alarm_probability");
     }
     write_sweep_analysis(root, axes, detection);
+    write_waveform_synthesis(root, axes);  // with a [signal] waveform only
     if (!root.has_attribute("body")) return {};  // no surface to show
     const std::string body = root.string_attribute("body");
     const H5Group baseline = root.group("baseline/" + body);

@@ -10,12 +10,16 @@ std::vector<SweepAxis> sweep_axes(const SweepSpec& s) {
     };
     add(AxisKind::water_conductivity, "water_conductivity", "S m-1", "conductivity of the water",
         s.water_conductivity_S_per_m);
+    add(AxisKind::frequency, "frequency", "Hz", "frequency of the emitter's sinusoid (a fixed part per water and frequency)",
+        s.frequency_Hz);
     std::vector<double> object_index;
     for (std::size_t k = 0; k < s.alternatives.size(); ++k) object_index.push_back(double(k));
     add(AxisKind::alternative, "alternative", "1", "which alternative object is in the water (index into the attribute alternative_names)",
         object_index);
     add(AxisKind::conductivity, "conductivity", "S m-1",
         "conductivity of the object (0: insulator, inf: perfect conductor)", s.conductivity_S_per_m);
+    add(AxisKind::permittivity, "permittivity", "1", "relative permittivity of the object (conducting forms only)",
+        s.permittivity_relative);
     add(AxisKind::size, "size", "m", "object size (sphere radius, or largest half-extent)", s.size_m);
     add(AxisKind::distance, "distance", "m", "clearance between the object and the body surface", s.distance_m);
     if (s.grid) {

@@ -117,8 +117,9 @@ std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) 
     CaseSpec fixed_case = spec;  // once per run: the case with only the objects that stay
     fixed_case.objects = plan.still;
     std::vector<Scene<S>> scenes;
-    for (double sigma : plan.waters) {
-        fixed_case.water.conductivity_S_per_m = sigma;
+    for (std::size_t k = 0; k < plan.fixed_count(); ++k) {  // per (water, frequency) pair
+        fixed_case.water.conductivity_S_per_m = plan.fixed_water(k);
+        fixed_case.frequency_Hz = plan.fixed_frequency(k, spec.frequency_Hz);
         scenes.push_back(build_scene<S>(fixed_case, true));
     }
     return scenes;

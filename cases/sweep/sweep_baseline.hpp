@@ -40,7 +40,7 @@ struct SensorNoise {
 
 template <class S>
 struct SweepBaselines {
-    std::vector<WaterBaseline<S>> waters;  // in plan.waters order
+    std::vector<WaterBaseline<S>> waters;  // one per fixed part: (water, frequency) pairs, plan.fixed_count()
     SensorLayout sensors;
     std::optional<SensorNoise> noise;      // with [detection]
     double assembly_seconds = 0, factor_seconds = 0;
@@ -51,7 +51,7 @@ struct SweepBaselines {
     SystemSolverUsed solver_used;
 };
 
-// The fixed part's scene in each water of the plan (meshed and checked, not
+// The fixed part's scene for each (water, frequency) pair of the plan (meshed and checked, not
 // assembled): the body and the objects that stay.
 template <class S>
 std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan);

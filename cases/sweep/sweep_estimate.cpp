@@ -13,7 +13,7 @@ SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S
                        const SolverOptions& solver) {
     SweepSizes sizes;
     sizes.complex = std::is_same_v<S, Complex>;
-    sizes.waters = plan.waters.size();
+    sizes.waters = plan.fixed_count();  // fixed parts: (water, frequency) pairs
     const Scene<S>& scene = fixed.front();
     sizes.fixed_unknowns = std::size_t(system_layout(scene).size);
     for (const Surface<S>& s : scene.surfaces) sizes.fixed_panels += s.mesh.size();
@@ -74,7 +74,8 @@ std::string format_estimate(const SweepEstimate& e) {
                   e.points, e.exact, e.dipole, e.full, e.masked);
     out += buf;
     std::snprintf(buf, sizeof buf,
-                  "systems: %zu unknowns in the fixed part (%zu panels) per water, %zu water%s; %zu unknowns in the "
+                  "systems: %zu unknowns in the fixed part (%zu panels), %zu fixed part%s (one per water and "
+                  "frequency); %zu unknowns in the "
                   "largest moving object (%zu panels); %s arithmetic\n",
                   e.sizes.fixed_unknowns, e.sizes.fixed_panels, e.sizes.waters, e.sizes.waters == 1 ? "" : "s",
                   e.sizes.moving_unknowns, e.sizes.moving_panels, e.sizes.complex ? "complex" : "real");

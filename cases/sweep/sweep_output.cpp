@@ -9,6 +9,7 @@
 #include "cases/sweep/dipole_check.hpp"
 #include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
+#include "cases/sweep/waveform_synthesis.hpp"
 #include "geometry/input_error.hpp"
 
 #include <algorithm>
@@ -108,6 +109,7 @@ void SweepFile<S>::create_datasets() {
         write_mesh(root.group("mesh/" + body_name), body.mesh);
         write_surface_values(root.group("baseline/" + body_name), body, base.waters.front().solution.surfaces.front());
     }
+    if (spec.waveform) write_signal_group(root, *spec.waveform);
     // Every dimension of /sweep is a coordinate in /sweep (cases/output/coordinates.hpp).
     using namespace layout;
     H5Group sweep = root.group(kSweep);
@@ -163,13 +165,20 @@ void SweepFile<S>::create_datasets() {
     // of its own, so that baseline_reading has the same dimensions either way.
     if (plan.axis(AxisKind::water_conductivity) < 0)
         sweep.write_coordinate(kWater, plan.waters, "S m-1", "conductivity of the water");
+    // One baseline per fixed part: per water conductivity, and per frequency when there is a frequency axis.
     std::vector<std::vector<S>> readings;
     for (const WaterBaseline<S>& w : base.waters) readings.push_back(w.readings);
-    sweep.write("baseline_reading", flatten(readings), {hsize_t(readings.size()), hsize_t(sensors.size())},
-                sensors.units,
-                sensors.skin ? "baseline transdermal voltage per skin panel, per water conductivity"
-                             : "baseline sensor reading, per water conductivity")
-        .label_dimensions({kWater, kSensor});
+    const bool per_frequency = !plan.frequencies.empty();
+    H5Shape baseline_shape{hsize_t(plan.waters.size()), hsize_t(sensors.size())};
+    std::vector<std::string> baseline_dims{kWater, kSensor};
+    if (per_frequency) {
+        baseline_shape.insert(baseline_shape.begin() + 1, hsize_t(plan.frequencies.size()));
+        baseline_dims.insert(baseline_dims.begin() + 1, "frequency");
+    }
+    const std::string per = per_frequency ? "per water conductivity and frequency" : "per water conductivity";
+    sweep.write("baseline_reading", flatten(readings), baseline_shape, sensors.units,
+                sensors.skin ? "baseline transdermal voltage per skin panel, " + per : "baseline sensor reading, " + per)
+        .label_dimensions(baseline_dims);
 
     const std::vector<std::size_t>& shape = plan.shape;
     const H5Layout chunked = H5Layout::compressed(4);

@@ -8,8 +8,8 @@
 namespace murk {
 
 std::size_t SweepPlan::water_of(const std::vector<std::size_t>& index) const {
-    const int w = axis(AxisKind::water_conductivity);
-    return w >= 0 ? index[w] : 0;
+    const int w = axis(AxisKind::water_conductivity), f = axis(AxisKind::frequency);
+    return (w >= 0 ? index[w] : 0) * std::max<std::size_t>(frequencies.size(), 1) + (f >= 0 ? index[f] : 0);
 }
 
 std::size_t SweepPlan::moving_of(const std::vector<std::size_t>& index) const {
@@ -39,6 +39,21 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
                                       "sweeps a planar grid (remove w and w_direction)");
     if (!plan.sweep.distance_m.empty() && plan.sweep.grid)
         throw InputError(plan.where + ": a sweep moves the object either by distance or on a grid, not both");
+    if (spec.waveform) {
+        if (!plan.sweep.frequency_Hz.empty())
+            throw InputError(plan.where + ".frequency: the [signal] waveform sets the frequencies; remove this axis");
+        for (const Harmonic& h : kept_harmonics(*spec.waveform))
+            plan.sweep.frequency_Hz.push_back(h.order * spec.waveform->fundamental_Hz);
+    }
+    if (!plan.sweep.permittivity_relative.empty() && plan.sweep.conductivity_S_per_m.empty())
+        for (std::size_t m = 0; m < spec.objects.size(); ++m) {
+            const ObjectSpec& o = spec.objects[m];
+            const bool moves = plan.sweep.alternatives.empty() ? (plan.sweep.object.empty() ? m == 0 : o.name == plan.sweep.object)
+                                                               : std::find(plan.sweep.alternatives.begin(), plan.sweep.alternatives.end(), o.name) != plan.sweep.alternatives.end();
+            if (moves && o.material != Material::conducting)
+                throw InputError(plan.where + ".permittivity: object '" + o.name + "' is an insulator or a perfect "
+                                 "conductor, which a permittivity does not change");
+        }
     plan.axes = sweep_axes(plan.sweep);
     plan.shape = axis_shape(plan.axes);
     // The product of the axis lengths must fit in a point index.
@@ -63,6 +78,15 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
             plan.still.push_back(spec.objects[k]);
     const int w = plan.axis(AxisKind::water_conductivity);
     plan.waters = w >= 0 ? plan.axes[w].values : std::vector<double>{spec.water.conductivity_S_per_m};
+    plan.frequencies = plan.sweep.frequency_Hz;
+    if (spec.waveform) {  // the positions whose waveform is written must exist
+        const std::size_t positions = plan.total / plan.frequencies.size();
+        for (std::size_t p : spec.waveform->synthesize_points)
+            if (p >= positions)
+                throw InputError(spec.path + ":" + std::to_string(spec.waveform->line) + ": signal.synthesize: position " +
+                                 std::to_string(p) + " is beyond the map's " + std::to_string(positions) +
+                                 " positions (flat indices over the axes other than frequency, from 0)");
+    }
     return plan;
 }
 

@@ -4,7 +4,9 @@
 #include "cases/input/case_spec.hpp"
 #include "cases/sweep/sweep_axes.hpp"
 
+#include <algorithm>
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -23,11 +25,24 @@ struct SweepPlan {
     // fixed part, with the body.
     std::vector<ObjectSpec> still;
     std::vector<double> waters;  // water conductivities (S/m): the axis, or the case's one
+    // Frequencies (Hz) of the frequency axis (given, or a [signal] waveform's kept
+    // harmonics); empty: the case's one frequency, or none.
+    std::vector<double> frequencies;
+    // The fixed parts: one per (water, frequency) pair, water outer. Each is solved once
+    // and serves the points of its pair.
+    std::size_t fixed_count() const { return waters.size() * std::max<std::size_t>(frequencies.size(), 1); }
+    double fixed_water(std::size_t fixed) const { return waters[fixed / std::max<std::size_t>(frequencies.size(), 1)]; }
+    // The case with the frequency of a fixed part (the case's own when there is no axis).
+    std::optional<double> fixed_frequency(std::size_t fixed, const std::optional<double>& case_frequency) const {
+        if (frequencies.empty()) return case_frequency;
+        return frequencies[fixed % frequencies.size()];
+    }
 
     // Index of the axis of each kind, -1 when the sweep has none.
     int axis(AxisKind kind) const { return find_axis(axes, kind); }
     // Per-axis indices of a point (C order over the axes).
     std::vector<std::size_t> index_of(std::size_t point) const { return unflatten(point, axes); }
+    // The fixed part of a point: its (water, frequency) pair, index below fixed_count().
     std::size_t water_of(const std::vector<std::size_t>& index) const;
     // Index into `moving` of the object in the water at a point.
     std::size_t moving_of(const std::vector<std::size_t>& index) const;
@@ -35,7 +50,8 @@ struct SweepPlan {
 
 // Refuses, with one line naming the case file and line, a sweep that names no
 // object the case has, moves the object both by distance and on a grid, or has
-// more points than a machine can count.
+// more points than a machine can count. A [signal] waveform becomes the frequency
+// axis of its kept harmonics (cases/input/waveform.hpp).
 SweepPlan plan_sweep(const CaseSpec& spec);
 
 }  // namespace murk

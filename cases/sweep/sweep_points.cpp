@@ -56,7 +56,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
         if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre());
     });
     PointRoutes<S> routes;
-    std::vector<std::vector<PlacedPoint<S>>> exacts(plan.waters.size()), dipoles(plan.waters.size());
+    std::vector<std::vector<PlacedPoint<S>>> exacts(plan.fixed_count()), dipoles(plan.fixed_count());
     for (std::size_t p = 0; p < plan.total; ++p) {
         if (mask[p] != MaskReason::none) {
             routes.masked.push_back(masked_point<S>(p, mask[p]));

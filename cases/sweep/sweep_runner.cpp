@@ -8,6 +8,7 @@
 #include "cases/sweep/point_journal.hpp"
 #include "cases/sweep/sweep_estimate.hpp"
 #include "cases/sweep/sweep_points.hpp"
+#include "cases/sweep/waveform_synthesis.hpp"
 #include "cases/sweep/work_shares.hpp"
 #include "geometry/input_error.hpp"
 #include "solver/memory_budget.hpp"
@@ -58,6 +59,7 @@ public:
         require_point_memory(plan.total, memory_limit, plan.where);
         std::vector<Scene<S>> scenes = fixed_scenes<S>(spec_, plan);
         SensorLayout sensors = sensor_layout(spec_, scenes.front(), plan.where);
+        if (spec_.waveform) check_synthesis_size(spec_, plan.total / plan.frequencies.size(), sensors.size());
         const MovingObjects<S> objects(spec_, plan);
         const PointPlacement placement(spec_, plan, meshes_of(scenes.front()));
         const SweepSizes sizes = sweep_sizes(scenes, objects, plan, solver_options(spec_));
@@ -74,6 +76,7 @@ public:
         const std::vector<char> share = share_of(plan, routes, sizes);
         // output: the journal, this run's lock (point_journal.hpp).
         PointJournal journal = open_journal(plan, sensors.size());
+        if (!options_.quiet && spec_.waveform) std::fprintf(stderr, "%s", describe_kept_harmonics(*spec_.waveform).c_str());
         if (!options_.quiet && plan.sweep.method != SweepMethod::full)  // after the refusals, which are one line
             std::fprintf(stderr, "murk: system solver: %s\n",
                          solver_choice_text(solver_options(spec_), sizes.fixed_unknowns).c_str());
@@ -255,7 +258,10 @@ RunOutcome run_sweep(const CaseSpec& spec, const RunOptions& options, RunStats* 
         if (stats) *stats = run.stats_;
         return outcome;
     };
-    if (case_needs_complex(spec)) return go(SweepRun<Complex>(spec, options));
+    // A frequency axis (given, or a waveform's harmonics) and a permittivity axis are complex throughout.
+    const bool axes_complex = spec.waveform || (spec.sweep && (!spec.sweep->frequency_Hz.empty() ||
+                                                               !spec.sweep->permittivity_relative.empty()));
+    if (case_needs_complex(spec) || axes_complex) return go(SweepRun<Complex>(spec, options));
     return go(SweepRun<double>(spec, options));
 }
 
