@@ -27,11 +27,19 @@
 // electrodes gets), per point and with the lead fields' set-up.
 //
 // Usage: murk-bench [CASE]   (default: the shipped tools/bench/fish_grid.toml)
+//
+// murk-bench --harmonics K [CASE] instead times an emitter waveform of K harmonics
+// ([signal] harmonics, every one kept) against the one-frequency sweep at its fundamental,
+// both by the exact path on a 10 x 4 subset of the grid and in complex arithmetic (the
+// skin is given a membrane capacitance so that the one-frequency case is complex too). It
+// prints both wall times, their ratio (ideally at most K: K fixed parts and K times the
+// points) and the time of the synthesis alone (computed again on the finished file).
 
 #include "cases/input/case_reader.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/sweep_runner.hpp"
+#include "cases/sweep/waveform_synthesis.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/triangle_distance.hpp"
 #include "solver/coupled_solve.hpp"
@@ -42,6 +50,7 @@
 
 #include <chrono>
 #include <cmath>
+#include <cstdlib>
 #include <cstdio>
 #include <filesystem>
 #include <string>
@@ -86,10 +95,79 @@ RunStats run(const CaseSpec& spec, const std::string& output) {
     return stats;
 }
 
+// The waveform of K harmonics against one frequency (see the top of this file).
+int harmonics_bench(CaseSpec spec, int harmonics, const std::filesystem::path& dir) {
+    using Clock = std::chrono::steady_clock;
+    const double fundamental = 500.0;
+    spec.fish->skin_capacitance_F_per_m2 = 1e-2;  // invented; makes both runs complex
+    spec.sweep->method = SweepMethod::exact;
+    SweepGridSpec& grid = *spec.sweep->grid;
+    std::vector<double> u, v;
+    for (std::size_t k = 0; k < 10; ++k) u.push_back(grid.u_m[k * grid.u_m.size() / 10]);
+    for (std::size_t k = 0; k < 4; ++k) v.push_back(grid.v_m[k * grid.v_m.size() / 4]);
+    grid.u_m = u, grid.v_m = v;
+    CaseSpec one = spec;
+    one.frequency_Hz = fundamental;
+    CaseSpec wave = spec;
+    WaveformSpec w;
+    w.fundamental_Hz = fundamental;
+    for (int n = 1; n <= harmonics; ++n) w.harmonics.push_back({n, 1.0 / n, 0.0, 0.5 / (double(n) * n)});
+    w.energy_fraction = 1e-12;
+    w.synthesis_samples = std::max(64, 4 * harmonics);
+    w.synthesize_all = true;
+    wave.waveform = w;
+    std::printf("murk-bench --harmonics %d: %zu positions, exact path, %d threads\n", harmonics, u.size() * v.size(),
+                omp_get_max_threads());
+    std::fflush(stdout);
+    const RunStats t_one = run(one, (dir / "one.h5").string());
+    const RunStats t_wave = run(wave, (dir / "wave.h5").string());
+    // The synthesis alone, again on the finished file.
+    double synthesis_seconds = 0;
+    {
+        const H5File file = H5File::open_readwrite((dir / "wave.h5").string());
+        const H5Group root = file.root();
+        const H5Group sweep = root.open_group("sweep");
+        for (const char* name : {"fundamental_amplitude", "fundamental_phase", "fundamental_phase_shift",
+                                 "peak_ratio_change", "waveform_position", "time", "waveform_perturbation"})
+            sweep.remove(name);
+        const auto t0 = Clock::now();
+        SweepSpec with_frequency = *wave.sweep;
+        for (int n = 1; n <= harmonics; ++n) with_frequency.frequency_Hz.push_back(n * fundamental);
+        write_waveform_synthesis(root, sweep_axes(with_frequency));
+        synthesis_seconds = std::chrono::duration<double>(Clock::now() - t0).count();
+    }
+    std::filesystem::remove_all(dir);
+    std::printf("one frequency: %zu points, wall %.2f s (body %.2f s)\n", t_one.exact_points + t_one.full_points,
+                t_one.wall_seconds, t_one.assembly_seconds + t_one.factor_seconds);
+    std::printf("%d harmonics:  %zu points, wall %.2f s (bodies %.2f s), synthesis alone %.3f s\n", harmonics,
+                t_wave.exact_points + t_wave.full_points, t_wave.wall_seconds,
+                t_wave.assembly_seconds + t_wave.factor_seconds, synthesis_seconds);
+    std::printf("harmonics: ratio %.2f for K = %d (goal: at most K plus the synthesis)\n",
+                t_wave.wall_seconds / t_one.wall_seconds, harmonics);
+    return 0;
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
     try {
+        if (argc > 2 && std::string(argv[1]) == "--harmonics") {
+            const int k = std::atoi(argv[2]);
+            if (k < 1 || k > 64) {
+                std::fprintf(stderr, "murk-bench: --harmonics needs a count from 1 to 64\n");
+                return 2;
+            }
+            const std::string path = argc > 3 ? argv[3] : std::string(MURK_SOURCE_DIR) + "/tools/bench/fish_grid.toml";
+            const CaseSpec spec = read_case_file(path);
+            if (!spec.sweep || !spec.sweep->grid || !spec.fish) {
+                std::fprintf(stderr, "murk-bench: %s: needs a fish and a [sweep.grid]\n", path.c_str());
+                return 2;
+            }
+            const std::filesystem::path dir = std::filesystem::temp_directory_path() /
+                                              ("murk-bench-" + std::to_string(::getpid()));
+            std::filesystem::create_directories(dir);
+            return harmonics_bench(spec, k, dir);
+        }
         const std::string case_path = argc > 1 ? argv[1] : std::string(MURK_SOURCE_DIR) + "/tools/bench/fish_grid.toml";
         const CaseSpec spec = read_case_file(case_path);
         if (!spec.sweep || !spec.sweep->grid || !spec.fish || spec.objects.size() != 1 ||
