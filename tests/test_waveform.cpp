@@ -204,3 +204,19 @@ TEST_CASE("signal and sweep: bad waveforms and axes refused with file, line and 
     check_refused(with_signal("", "distance = [\"5 mm\"]\npermittivity = [2, 80]\n"), "permittivity = [",
                   "sweep.permittivity", "only at a frequency");
 }
+
+TEST_CASE("sweep: a permittivity axis refused for an insulating object") {
+    std::string text = with_signal("", "distance = [\"5 mm\"]\nfrequency = [\"1 kHz\"]\npermittivity = [2, 80]\n");
+    const std::string conducting = "conductivity = \"1 S/m\"\n";
+    text.replace(text.find(conducting), conducting.size(), "conductivity = \"insulator\"\n");
+    const CaseSpec c = read_case_text(text, "case.toml");
+    std::string m;
+    try {
+        plan_sweep(c);
+    } catch (const InputError& e) {
+        m = e.what();
+    }
+    INFO(m);
+    CHECK(m.find("case.toml:" + std::to_string(line_of(text, "[sweep]")) + ": sweep.permittivity") == 0);
+    CHECK(m.find("insulator") != std::string::npos);
+}

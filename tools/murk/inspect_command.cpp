@@ -228,7 +228,12 @@ void print_header(const H5File& file, const H5Group& root) {
     std::printf("  approximation:  %s\n", root.string_attribute("approximation").c_str());
     std::printf("  case SHA-256:   %s...%s\n", sha.substr(0, 12).c_str(),
                 root.has_attribute("case_path") ? (" (" + root.string_attribute("case_path") + ")").c_str() : "");
-    std::printf("  frequency:      %s\n", frequency == 0 ? "0 Hz (direct current)" : with_prefix(frequency, "Hz").c_str());
+    if (root.exists("sweep/frequency"))  // a frequency axis (or a waveform's harmonics): no one frequency
+        std::printf("  frequency:      swept, %zu values (/sweep/frequency)%s\n",
+                    std::size_t(root.dataset("sweep/frequency").shape()[0]),
+                    root.exists("signal") ? ", the harmonics of a waveform (/signal)" : "");
+    else
+        std::printf("  frequency:      %s\n", frequency == 0 ? "0 Hz (direct current)" : with_prefix(frequency, "Hz").c_str());
     if (root.has_attribute("system_solver")) {  // files written before murk recorded its solver have none
         std::string line = format("%s, dense_limit %lld unknowns", root.string_attribute("system_solver").c_str(),
                                   static_cast<long long>(root.int_attribute("dense_limit")));
