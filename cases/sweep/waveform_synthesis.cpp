@@ -193,10 +193,18 @@ void write_waveform_synthesis(const H5Group& root, const std::vector<SweepAxis>&
         }
         return true;
     };
+    // exp(2 pi i n_j k / N) once for all sensors and positions: the same numbers
+    // synthesize_period computes, a table instead of a sine per sample.
+    std::vector<C> turns(harmonics * std::size_t(n));
+    for (std::size_t j = 0; j < harmonics; ++j)
+        for (int k = 0; k < n; ++k)
+            turns[j * std::size_t(n) + std::size_t(k)] =
+                std::polar(1.0, 2.0 * M_PI * (double((long long)k * signal.orders[j] % n) / double(n)));
     auto period = [&](const std::vector<std::vector<C>>& x, std::size_t s) {
-        std::vector<C> at(harmonics);
-        for (std::size_t j = 0; j < harmonics; ++j) at[j] = x[j][s];
-        return synthesize_period(signal.orders, at, n);
+        std::vector<double> out(std::size_t(n), 0.0);
+        for (std::size_t j = 0; j < harmonics; ++j)
+            for (std::size_t k = 0; k < std::size_t(n); ++k) out[k] += (x[j][s] * turns[j * std::size_t(n) + k]).real();
+        return out;
     };
 
     std::vector<double> amplitude(positions * sensors, kNaN), phase(positions * sensors, kNaN),
