@@ -3,7 +3,8 @@
 # and [sweep]; cases/RESULT_LAYOUT.md, /signal and the synthesis datasets of /sweep), on a
 # small case without a body (two point sources, two probe points, a 3 mm sphere):
 #  1. a frequency axis gives, at each frequency, bit for bit the numbers of a case with that
-#     one frequency (perturbation and baseline, in two waters); shares merged equal the whole;
+#     one frequency (perturbation and baseline, in two waters); shares merged equal the whole,
+#     and so does a waveform run killed half-way and resumed;
 #  2. a permittivity axis gives, at each value, bit for bit the case with that permittivity;
 #  3. a purely resistive case: the synthesized perturbation at every sensor is a real multiple
 #     of the emitter's waveform, which the case gives as samples (exact to rounding), and that
@@ -168,6 +169,25 @@ run conv_0.01.toml -o wave-2.h5 --shard 2/2
 "$murk" merge wave-1.h5 wave-2.h5 -o wave-merged.h5 --quiet 2> err.txt || fail "merge: $(cat err.txt)"
 out=$("$py" "$src/tests/cli/compare_results.py" wave-merged.h5 conv_0.01.h5) || fail "merged waveform shares against the whole: $out"
 echo "waveform, merged shares = whole: $out"
+
+# A run killed half-way (SIGKILL) and resumed gives the same result as one uninterrupted run:
+# the journal keys points by their flat index, whose (water, frequency) pair picks the fixed part.
+sed 's/^distance = .*/distance = ["2 mm", "3 mm", "4 mm", "5 mm", "6 mm", "8 mm"]/' conv_0.01.toml > resume.toml
+t0=$(date +%s%N)
+run resume.toml -o resume-whole.h5
+half_ms=$(( ($(date +%s%N) - t0) / 2000000 ))
+"$murk" run resume.toml -o resumed.h5 --quiet --threads 1 > /dev/null 2>&1 & pid=$!
+sleep "$(printf '%d.%03d' $((half_ms / 1000)) $((half_ms % 1000)))"
+kill -9 "$pid" 2> /dev/null; wait "$pid" 2> /dev/null
+if [ -e resumed.h5.partial ]; then
+  echo "killed after $half_ms ms with a journal: resuming"
+  run resume.toml -o resumed.h5 --resume
+else
+  echo "the run finished or had not started its journal after $half_ms ms: running it whole"
+  rm -f resumed.h5; run resume.toml -o resumed.h5
+fi
+out=$("$py" "$src/tests/cli/compare_results.py" resumed.h5 resume-whole.h5) || fail "resumed against whole: $out"
+echo "waveform, killed and resumed = whole: $out"
 
 # ---- 5. bad input and xarray -----------------------------------------------------------
 write_case bad.toml "[signal]
