@@ -3,7 +3,7 @@
 # group of them with both its engines (h5netcdf and netCDF4), ncdump reads their headers, and
 # cases/RESULT_LAYOUT.md names everything they hold. Results: the demo (fish_detection), the
 # demo with two objects and method "auto", a robot sweep, a sweep without a body
-# (canonical_falloff), and murk solve on a fish (real numbers), a membrane at 100 Hz (complex
+# (canonical_falloff), a complex sweep with amplitude and phase channels (capacitive_prey), and murk solve on a fish (real numbers), a membrane at 100 Hz (complex
 # numbers) and a point emitter (probes). The checks themselves are in
 # check_netcdf_readers.py and check_layout_documented.py.
 # Needs Debian's python3-xarray, python3-h5netcdf, python3-netcdf4 and netcdf-bin (tools/test.sh).
@@ -27,7 +27,8 @@ sed -e 's/^object = "prey"/alternatives = ["prey", "stone"]\nmethod = "auto"/' \
     -e 's/^\[sweep\]/[[object]]\nname = "stone"\nshape = "sphere"\nradius = "3 mm"\nposition = ["3 cm", "2 cm", "0 cm"]\nconductivity = "insulator"\n\n[sweep]/' \
     "$examples/fish_detection.toml" > "$dir/two_objects.toml"
 grep -q '^alternatives = \["prey", "stone"\]' "$dir/two_objects.toml" || { echo "could not write the two-object case"; exit 1; }
-for case in "$examples/fish_detection" "$examples/robot_detection" "$examples/canonical_falloff" "$dir/two_objects"; do
+for case in "$examples/fish_detection" "$examples/robot_detection" "$examples/canonical_falloff" "$dir/two_objects" \
+            "$examples/capacitive_prey"; do
   "$murk" run "$case.toml" -o "$dir/run_$(basename "$case").h5" --quiet --threads 1 2> "$dir/err.txt" \
     || { cat "$dir/err.txt"; echo "murk run $case failed"; exit 1; }
 done
