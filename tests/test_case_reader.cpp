@@ -1126,3 +1126,42 @@ TEST_CASE("case reader: bad refinement zones") {
     CHECK(m.find("an imported mesh keeps its own panels") != std::string::npos);
     fs::remove_all(dir);
 }
+
+TEST_CASE("case reader: [detection] amplitude and phase channels") {
+    const std::string ac = "frequency = \"1 kHz\"\n" + kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n";
+    // Default: both quadratures, no phase noise.
+    const CaseSpec plain = read_case_text(ac + kReceptors, "case.toml");
+    CHECK(plain.detection->channels == DetectionSpec::Channels::quadratures);
+    CHECK(plain.detection->phase_noise_rad == 0.0);
+    const CaseSpec amplitude = read_case_text(ac + kReceptors + "channels = \"amplitude\"\n", "case.toml");
+    CHECK(amplitude.detection->channels == DetectionSpec::Channels::amplitude);
+    // Degrees become radians (2 deg = pi/90), a jitter stays a time.
+    const CaseSpec phase =
+        read_case_text(ac + kReceptors + "channels = \"amplitude_and_phase\"\nphase_noise = \"2 deg\"\n", "case.toml");
+    CHECK(phase.detection->channels == DetectionSpec::Channels::amplitude_and_phase);
+    CHECK(phase.detection->phase_noise_rad == doctest::Approx(M_PI / 90));
+    const CaseSpec jitter =
+        read_case_text(ac + kReceptors + "channels = \"amplitude_and_phase\"\ntiming_jitter = \"400 ns\"\n", "case.toml");
+    CHECK(jitter.detection->timing_jitter_s == doctest::Approx(4e-7));
+    CHECK(jitter.detection->phase_noise_rad == 0.0);
+
+    check_error(ac + kReceptors + "channels = \"phase\"\n", "channels", "detection.channels",
+                "expected one of");
+    check_error(ac + kReceptors + "channels = \"amplitude_and_phase\"\n", "channels", "detection.channels",
+                "needs exactly one of phase_noise");
+    check_error(ac + kReceptors + "channels = \"amplitude_and_phase\"\nphase_noise = \"1 deg\"\ntiming_jitter = \"1 us\"\n",
+                "channels", "detection.channels", "needs exactly one of phase_noise");
+    check_error(ac + kReceptors + "phase_noise = \"1 deg\"\n", "phase_noise", "detection.phase_noise",
+                "give channels = \"amplitude_and_phase\" too");
+    check_error(ac + kReceptors + "channels = \"amplitude\"\ntiming_jitter = \"1 us\"\n", "timing_jitter",
+                "detection.timing_jitter", "give channels = \"amplitude_and_phase\" too");
+    check_error(ac + kReceptors + "channels = \"amplitude_and_phase\"\nphase_noise = \"-1 deg\"\n", "phase_noise",
+                "detection.phase_noise", "must be positive");
+    check_error(ac + kReceptors + "channels = \"amplitude_and_phase\"\nphase_noise = \"1 us\"\n", "phase_noise",
+                "detection.phase_noise", "expected an angle");
+    check_error(ac + kReceptors + "channels = \"amplitude_and_phase\"\ntiming_jitter = \"1 deg\"\n", "timing_jitter",
+                "detection.timing_jitter", "expected a time");
+    // Without a frequency there is no phase to read.
+    check_error(kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n" + kReceptors + "channels = \"amplitude_and_phase\"\n"
+                "phase_noise = \"1 deg\"\n", "[detection]", "detection.channels", "the case has no frequency");
+}

@@ -321,3 +321,107 @@ TEST_CASE("detectability: bad inputs") {
     check_one_line_error([] { detection_range({1, 2}, {-0.1, 0.1}, 0.5); });
     check_one_line_error([] { detection_range({1, 2, 3}, {0.9, 0.1}, 0.5); });
 }
+
+// ---- amplitude and phase channels ------------------------------------------------
+
+namespace {
+
+using Cx = std::complex<double>;
+
+NoiseModel with_channels(NoiseModel m, murk::NoiseChannels channels, double phase_noise_rad = 0.0) {
+    m.channels = channels;
+    m.phase_noise_rad = phase_noise_rad;
+    return m;
+}
+
+}  // namespace
+
+TEST_CASE("detectability: amplitude and phase change of a reading") {
+    // Hand values from the polar form of V0 and V0 + dV.
+    // A quarter turn of a small change: |1 + 1e-3 i| - 1 = sqrt(1 + 1e-6) - 1 and arg = atan(1e-3).
+    murk::ReadingChange c = murk::reading_change(Cx(1.0, 0.0), Cx(0.0, 1e-3));
+    CHECK(c.amplitude == doctest::Approx(std::sqrt(1.0 + 1e-6) - 1.0).epsilon(1e-9));
+    CHECK(c.phase_rad == doctest::Approx(std::atan(1e-3)).epsilon(1e-14));
+    CHECK(c.phase_defined);
+    // A change in phase with the reading: amplitude only (2i -> 2.2i).
+    c = murk::reading_change(Cx(0.0, 2.0), Cx(0.0, 0.2));
+    CHECK(c.amplitude == doctest::Approx(0.2).epsilon(1e-14));
+    CHECK(std::abs(c.phase_rad) < 1e-16);
+    // A sign flip: same amplitude, half a turn.
+    c = murk::reading_change(Cx(1.0, 0.0), Cx(-2.0, 0.0));
+    CHECK(std::abs(c.amplitude) < 1e-16);
+    CHECK(c.phase_rad == doctest::Approx(M_PI).epsilon(1e-15));
+    // Tiny changes keep their digits: 1e-12 on 1 is 1e-12 (a plain difference of the
+    // two amplitudes would keep about 4 of its 16 digits).
+    c = murk::reading_change(Cx(1.0, 0.0), Cx(1e-12, 0.0));
+    CHECK(c.amplitude == doctest::Approx(1e-12).epsilon(1e-12));
+    // No baseline: the phase is undefined, the amplitude change is |dV| = 5.
+    c = murk::reading_change(Cx(0.0, 0.0), Cx(3.0, -4.0));
+    CHECK(!c.phase_defined);
+    CHECK(c.amplitude == doctest::Approx(5.0).epsilon(1e-15));
+}
+
+TEST_CASE("detectability: a purely capacitive change is seen by the phase channel only") {
+    // dV = i 1e-3 V0 (a phase shift of 1 mrad, no amplitude change to first order) on a
+    // 1 mV reading; receptors of 1 uV amplitude noise and 1 mrad phase noise, one each.
+    const std::vector<Cx> v0{{1e-3, 0.0}}, dv{{0.0, 1e-6}};
+    const NoiseModel amplitude_only = with_channels(receptors(1e-6), murk::NoiseChannels::amplitude);
+    const NoiseModel both = with_channels(receptors(1e-6), murk::NoiseChannels::amplitude_and_phase, 1e-3);
+    const murk::ChannelIndex a = murk::channel_detectability(amplitude_only, dv, v0, {1.0});
+    const murk::ChannelIndex b = murk::channel_detectability(both, dv, v0, {1.0});
+    // Amplitude: |V0| (sqrt(1 + 1e-6) - 1) / 1 uV = 1e-3 * 5e-7 / 1e-6 = 5e-4 (second order only).
+    CHECK(a.amplitude == doctest::Approx(5e-4).epsilon(1e-6));
+    CHECK(a.phase == 0.0);
+    // Phase: atan(1e-3) / 1e-3 = 1 - 1e-6 / 3 (Taylor series of atan).
+    CHECK(b.phase == doctest::Approx(1.0 - 1e-6 / 3).epsilon(1e-12));
+    CHECK(b.total() == doctest::Approx(std::hypot(5e-4, 1.0 - 1e-6 / 3)).epsilon(1e-12));
+    // Detection: amplitude alone stays at the false-alarm rate; the phase raises P_D to
+    // Q(Q^-1(1e-3) - 1) = Q(3.0902 - 1) (Kay 1998, section 4.3.2).
+    const double pfa = 1e-3;
+    CHECK(murk::detection_probability(a.total(), pfa) < 1.01 * pfa);
+    CHECK(murk::detection_probability(b.total(), pfa) == doctest::Approx(q_ref(3.090232306167813 - b.total())).epsilon(1e-9));
+    CHECK(murk::detection_probability(b.total(), pfa) > 10 * pfa);
+}
+
+TEST_CASE("detectability: phase noise sigma/|V0| reproduces the two-quadrature model") {
+    // Plain additive noise sigma on both quadratures puts sigma on the amplitude and
+    // sigma/|V0| on the phase (small-noise polar form, common practice); to first order
+    // in dV the two models then give the same d' = |dV| / sigma = |3 + 4i| nV / 1 nV = 5.
+    const std::vector<Cx> v0{{0.0, 1e-3}}, dv{{-4e-9, 3e-9}};  // dV in phase (3 nV) and in quadrature (4 nV)
+    const NoiseModel quad = voltage_amp(1e-9, 1.0);
+    CHECK(murk::detectability_index(quad, dv) == doctest::Approx(5.0).epsilon(1e-14));
+    const NoiseModel polar = with_channels(quad, murk::NoiseChannels::amplitude_and_phase, 1e-9 / 1e-3);
+    const murk::ChannelIndex c = murk::channel_detectability(polar, dv, v0);
+    CHECK(c.amplitude == doctest::Approx(3.0).epsilon(1e-5));
+    CHECK(c.phase == doctest::Approx(4.0).epsilon(1e-5));
+    CHECK(c.total() == doctest::Approx(5.0).epsilon(1e-5));
+}
+
+TEST_CASE("detectability: channels add over receptors and skip an undefined phase") {
+    // Two panels, 4 and 0 receptors: only the first counts, with weight 4 (d' doubles).
+    const std::vector<Cx> v0{{1.0, 0.0}, {1.0, 0.0}}, dv{{0.0, 1e-3}, {0.0, 1.0}};
+    const NoiseModel m = with_channels(receptors(1.0), murk::NoiseChannels::amplitude_and_phase, 1e-3);
+    CHECK(murk::channel_detectability(m, dv, v0, {4.0, 0.0}).phase == doctest::Approx(2 * std::atan(1e-3) / 1e-3).epsilon(1e-12));
+    // A sensor with no baseline adds its |dV| to the amplitude channel and nothing to the phase.
+    const std::vector<Cx> zero{{0.0, 0.0}}, change{{0.0, 2.0}};
+    const murk::ChannelIndex c = murk::channel_detectability(m, change, zero, {1.0});
+    CHECK(c.amplitude == doctest::Approx(2.0).epsilon(1e-15));
+    CHECK(c.phase == 0.0);
+}
+
+TEST_CASE("detectability: channel models refuse bad inputs") {
+    const std::vector<Cx> v0{{1.0, 0.0}}, dv{{0.0, 1e-3}};
+    // Both quadratures is not a channel model.
+    check_one_line_error([&] { murk::channel_detectability(voltage_amp(1e-9, 1.0), dv, v0); });
+    // The phase channel needs a positive, finite phase noise.
+    for (double bad : {0.0, -1.0, kNaN, std::numeric_limits<double>::infinity()})
+        check_one_line_error([&] {
+            murk::channel_detectability(with_channels(voltage_amp(1e-9, 1.0), murk::NoiseChannels::amplitude_and_phase, bad),
+                                        dv, v0);
+        });
+    // Sizes must match, values must be finite.
+    const NoiseModel m = with_channels(voltage_amp(1e-9, 1.0), murk::NoiseChannels::amplitude);
+    check_one_line_error([&] { murk::channel_detectability(m, dv, std::vector<Cx>{}); });
+    check_one_line_error([&] { murk::channel_detectability(m, std::vector<Cx>{{kNaN, 0.0}}, v0); });
+    check_one_line_error([&] { murk::channel_detectability(m, dv, std::vector<Cx>{{1.0, kNaN}}); });
+}

@@ -50,3 +50,60 @@ TEST_CASE("Schwan's equation: impermeable-membrane limit 1.5 E R") {
     // Leaky membrane: lower than the limit.
     CHECK(membrane_voltage_amplitude(100.0, 1e-2, 0.1, 0.3, 1.0) < 1.5 * 100.0 * 1e-2);
 }
+
+TEST_CASE("Maxwell-Wagner dipole factor: conductive and dielectric limits and the relaxation") {
+    // Low frequency: the conductivities alone; high frequency: the permittivities alone
+    // (Morgan & Green 2003, the Clausius-Mossotti factor's two limits).
+    const double eps0 = 8.8541878128e-12;  // F/m, CODATA 2018
+    const double s_in = 1e-3, s_out = 1e-2, e_in = 2e5 * eps0, e_out = 80 * eps0;
+    const double tau = maxwell_wagner_relaxation_time(s_in, e_in, s_out, e_out);
+    const Complex low = maxwell_wagner_dipole_factor(s_in, e_in, s_out, e_out, 1e-6 / tau);
+    const Complex high = maxwell_wagner_dipole_factor(s_in, e_in, s_out, e_out, 1e6 / tau);
+    CHECK(low.real() == doctest::Approx((s_in - s_out) / (s_in + 2 * s_out)).epsilon(1e-5));
+    CHECK(std::abs(low.imag()) < 1e-5);
+    CHECK(high.real() == doctest::Approx((2e5 - 80) / (2e5 + 160)).epsilon(1e-5));
+    CHECK(std::abs(high.imag()) < 1e-5);
+    // A hand value: insulator (s_in = 0) of permittivity 4 in a medium s = 1, e = 1:
+    // K_0 = -1/2, K_inf = 1/2, tau = 3, and at omega = 1/3: 1/2 - 1/(1 + i) = i/2.
+    const Complex hand = maxwell_wagner_dipole_factor(0.0, 4.0, 1.0, 1.0, 1.0 / 3);
+    CHECK(hand.real() == doctest::Approx(0.0).epsilon(1e-15));
+    CHECK(hand.imag() == doctest::Approx(0.5).epsilon(1e-15));
+    // The relaxation form equals the Jackson form with complex conductivities.
+    for (double w_tau : {0.01, 0.3, 1.0, 3.0, 100.0}) {
+        const double w = w_tau / tau;
+        const Complex jackson = sphere_dipole_factor(Complex(s_in, w * e_in), Complex(s_out, w * e_out));
+        CHECK(std::abs(maxwell_wagner_dipole_factor(s_in, e_in, s_out, e_out, w) - jackson) < 1e-14);
+    }
+}
+
+TEST_CASE("membrane voltage at a frequency: direct-current value, capacitive roll-off and its corner") {
+    // Grosse & Schwan 1992: below the corner the DC Schwan value, above it the membrane
+    // capacitance shorts the membrane: omega |dV| -> 1.5 E / (C_m (1/s_in + 1/(2 s_out))),
+    // with the phase -> -pi/2; at omega tau_m = 1 the amplitude is 1/sqrt(2) of DC at -pi/4.
+    const double E = 1.0, R = 0.01, g = 1.0, C = 1e-2, s_in = 0.5, s_out = 0.01;
+    const double access = 1 / s_in + 1 / (2 * s_out);
+    const double direct = 1.5 * E * R / (1 + R * g * access);
+    const double tau = membrane_charging_time(R, g, C, s_in, s_out);
+    const Complex low = membrane_voltage_at_frequency(E, R, g, C, s_in, s_out, 1e-6 / tau);
+    CHECK(std::abs(low) == doctest::Approx(direct).epsilon(1e-9));
+    CHECK(std::abs(std::arg(low)) < 1e-5);
+    // The same DC value from Schwan's equation with a purely resistive membrane.
+    CHECK(std::abs(low) == doctest::Approx(membrane_voltage_amplitude(E, R, 1 / g, s_in, s_out)).epsilon(1e-9));
+    const double w_high = 1e6 / tau;
+    const Complex high = membrane_voltage_at_frequency(E, R, g, C, s_in, s_out, w_high);
+    CHECK(w_high * std::abs(high) == doctest::Approx(1.5 * E / (C * access)).epsilon(1e-5));
+    CHECK(std::arg(high) == doctest::Approx(-M_PI / 2).epsilon(1e-5));
+    const Complex corner = membrane_voltage_at_frequency(E, R, g, C, s_in, s_out, 1 / tau);
+    CHECK(std::abs(corner) == doctest::Approx(direct / std::sqrt(2.0)).epsilon(1e-12));
+    CHECK(std::arg(corner) == doctest::Approx(-M_PI / 4).epsilon(1e-12));
+    // An impermeable membrane (g_m = 0): Schwan's 1.5 E R at DC.
+    CHECK(std::abs(membrane_voltage_at_frequency(E, R, 0.0, C, s_in, s_out, 1e-9)) ==
+          doctest::Approx(1.5 * E * R).epsilon(1e-6));
+    // The relaxation form equals Schwan's equation with the complex membrane impedance.
+    for (double w_tau : {0.01, 1.0, 100.0}) {
+        const double w = w_tau / tau;
+        const Complex rho_m = 1.0 / Complex(g, w * C);
+        const Complex schwan = membrane_voltage_amplitude(E, R, rho_m, Complex(s_in), Complex(s_out));
+        CHECK(std::abs(membrane_voltage_at_frequency(E, R, g, C, s_in, s_out, w) - schwan) < 1e-12 * std::abs(schwan));
+    }
+}

@@ -61,4 +61,6 @@ void check_reciprocity(const VerifyOptions&, const std::function<void(CheckResul
 void check_insulating_plane(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_ring_pair_resistance(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_compressed_sphere(const VerifyOptions&, const std::function<void(CheckResult)>& add);
+void check_maxwell_wagner_sphere(const VerifyOptions&, const std::function<void(CheckResult)>& add);
+void check_membrane_capacitance(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 }  // namespace murk

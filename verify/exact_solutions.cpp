@@ -21,6 +21,29 @@ S sphere_point_source_perturbation(double a, double d, S sigma_in, S sigma_out, 
 template double sphere_point_source_perturbation(double, double, double, double, double);
 template Complex sphere_point_source_perturbation(double, double, Complex, Complex, Complex);
 
+double maxwell_wagner_relaxation_time(double sigma_in, double eps_in, double sigma_out, double eps_out) {
+    return (eps_in + 2.0 * eps_out) / (sigma_in + 2.0 * sigma_out);
+}
+
+Complex maxwell_wagner_dipole_factor(double sigma_in, double eps_in, double sigma_out, double eps_out, double omega) {
+    const double k_low = (sigma_in - sigma_out) / (sigma_in + 2.0 * sigma_out);
+    const double k_high = (eps_in - eps_out) / (eps_in + 2.0 * eps_out);
+    const double tau = maxwell_wagner_relaxation_time(sigma_in, eps_in, sigma_out, eps_out);
+    return k_high + (k_low - k_high) / Complex(1.0, omega * tau);
+}
+
+double membrane_charging_time(double R, double g_m, double C_m, double sigma_in, double sigma_out) {
+    const double access = 1.0 / sigma_in + 1.0 / (2.0 * sigma_out);  // ohm m: the two media in series
+    return R * C_m * access / (1.0 + R * g_m * access);
+}
+
+Complex membrane_voltage_at_frequency(double E, double R, double g_m, double C_m, double sigma_in,
+                                      double sigma_out, double omega) {
+    const double access = 1.0 / sigma_in + 1.0 / (2.0 * sigma_out);
+    const double direct = 1.5 * E * R / (1.0 + R * g_m * access);
+    return direct / Complex(1.0, omega * membrane_charging_time(R, g_m, C_m, sigma_in, sigma_out));
+}
+
 double spheroid_axial_depolarization(double polar, double equatorial) {
     if (std::abs(polar - equatorial) < 1e-12 * polar) return 1.0 / 3.0;
     if (polar > equatorial) {  // prolate

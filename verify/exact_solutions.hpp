@@ -40,6 +40,35 @@ S membrane_voltage_amplitude(double E, double R, S rho_m, S sigma_in, S sigma_ou
     return S(1.5 * E * R) / (S(1) + S(R) / rho_m * (S(1) / sigma_in + S(1) / (S(2) * sigma_out)));
 }
 
+// Maxwell-Wagner relaxation of a sphere's dipole factor. A sphere of conductivity
+// sigma_in and permittivity eps_in (F/m, absolute) in a medium sigma_out, eps_out,
+// at angular frequency omega (time factor exp(i omega t), complex conductivities
+// sigma + i omega eps): K(omega) = K_inf + (K_0 - K_inf) / (1 + i omega tau), with the
+// low-frequency (conductive) factor K_0 = (s_in - s_out) / (s_in + 2 s_out), the
+// high-frequency (dielectric) factor K_inf = (e_in - e_out) / (e_in + 2 e_out) and the
+// Maxwell-Wagner relaxation time tau = (e_in + 2 e_out) / (s_in + 2 s_out).
+// Morgan & Green 2003, "AC Electrokinetics: Colloids and Nanoparticles" (Research
+// Studies Press), ch. 3, the Clausius-Mossotti factor and its relaxation time; the same
+// single-pole form follows from sphere_dipole_factor with complex conductivities,
+// whose one pole is at 1 + i omega tau = 0.
+double maxwell_wagner_relaxation_time(double sigma_in, double eps_in, double sigma_out, double eps_out);
+Complex maxwell_wagner_dipole_factor(double sigma_in, double eps_in, double sigma_out, double eps_out, double omega);
+
+// Induced transmembrane voltage (inside minus outside, at theta = 0) of a
+// membrane-covered sphere of radius R in a uniform field E at angular frequency
+// omega, membrane conductance g_m (S/m^2) and capacitance C_m (F/m^2), interior and
+// exterior conductivities s_in, s_out: the first-order (thin membrane) form of
+// Schwan's equation,
+//   dV = dV_0 / (1 + i omega tau_m),
+//   dV_0  = 1.5 E R / (1 + R g_m (1/s_in + 1/(2 s_out)))   (the direct-current value),
+//   tau_m = R C_m (1/s_in + 1/(2 s_out)) / (1 + R g_m (1/s_in + 1/(2 s_out))).
+// Grosse & Schwan 1992, "Cellular membrane potentials induced by alternating fields",
+// Biophys. J. 63:1632-1642 (the thin-membrane relaxation with membrane conductance);
+// equal to membrane_voltage_amplitude with rho_m = 1 / (g_m + i omega C_m).
+double membrane_charging_time(double R, double g_m, double C_m, double sigma_in, double sigma_out);
+Complex membrane_voltage_at_frequency(double E, double R, double g_m, double C_m, double sigma_in,
+                                      double sigma_out, double omega);
+
 // Depolarization factors of a spheroid (Osborn 1945, "Demagnetizing factors of the
 // general ellipsoid", Phys. Rev. 67:351; Stoner 1945, Phil. Mag. 36:803).
 // polar = semi-axis along the symmetry axis, equatorial = the other two.

@@ -12,8 +12,10 @@ std::vector<CheckResult> run_verification(const VerifyOptions& options,
         rows.push_back(std::move(row));
     };
     check_sphere_in_uniform_field(options, add);
+    check_maxwell_wagner_sphere(options, add);
     check_sphere_beside_point_source(options, add);
     check_membrane_sphere(options, add);
+    check_membrane_capacitance(options, add);
     check_spheroids(options, add);
     check_reciprocity(options, add);
     check_insulating_plane(options, add);

@@ -20,6 +20,23 @@
 // d'^2 = (Re^2 + Im^2)/sigma^2). Signal and noise must use the same convention: noise
 // figures here are rms, so sinusoidal signals must be rms amplitudes (a peak phasor
 // divided by sqrt(2)); a direct-current signal is its value.
+//
+// Amplitude and phase channels ([detection] channels, cases/README.md). A fish's
+// tuberous receptors come in two classes, amplitude coders (P-units) and time coders
+// (T-units) (Scheich, Bullock & Hamstra 1973, "Coding properties of two classes of
+// afferent nerve fibers: high-frequency electroreceptors in the electric fish,
+// Eigenmannia", J. Neurophysiol. 36:39-60); a robot's lock-in can report magnitude and
+// phase, whose noise need not be that of two equal quadratures (a reference that
+// jitters adds phase noise only). Relative to each sensor's baseline reading V0, the
+// object changes the reading's amplitude by dA = |V0 + dV| - |V0| and its phase by
+// dphi = arg((V0 + dV) / V0) (to first order in dV: Re(dV conj V0) / |V0| and
+// Im(dV conj V0) / |V0|^2). With independent Gaussian noise sigma on the amplitude and
+// sigma_phi (rad) on the phase of every receptor or channel, the same generalized
+// matched filter gives d'^2 = sum n_k ((dA_k / sigma)^2 + (dphi_k / sigma_phi)^2). An
+// object that differs from the water only in permittivity changes mostly the phase,
+// so only the phase channel sees it. With sigma_phi = sigma / |V0| the sum equals the
+// two-quadrature model above to first order: the phase noise that plain additive
+// noise causes.
 #include <complex>
 #include <cstdint>
 #include <vector>
@@ -42,8 +59,18 @@ enum class NoiseKind {
     current_amplifier,
 };
 
+// Which parts of each sensor's perturbation the observer reads.
+enum class NoiseChannels {
+    quadratures,          // both quadratures of dV with the sensor noise: |dV| / sigma (the model above)
+    amplitude,            // only the amplitude change dA, with the sensor noise; the phase is not read
+    amplitude_and_phase,  // dA with the sensor noise and the phase change dphi with phase_noise_rad
+};
+
 struct NoiseModel {
     NoiseKind kind = NoiseKind::receptors;
+    NoiseChannels channels = NoiseChannels::quadratures;
+    double phase_noise_rad = 0.0;                    // amplitude_and_phase: rms phase noise of one
+                                                     // receptor or channel (rad)
     double receptor_noise_V = 0.0;                   // receptors: rms noise of one receptor
     double voltage_noise_density_V_per_rtHz = 0.0;   // voltage_amplifier: e_n
     double current_noise_density_A_per_rtHz = 0.0;   // current_amplifier: i_n
@@ -83,6 +110,34 @@ double detectability_index(const NoiseModel& noise, const std::vector<double>& p
 double detectability_index(const NoiseModel& noise,
                            const std::vector<std::complex<double>>& perturbation,
                            const std::vector<double>& receptors_per_sensor = {});
+
+// ---- amplitude and phase channels ----------------------------------------------
+
+// How a sensor's reading changes from its baseline v0 to v0 + perturbation: the change
+// of its amplitude (same unit as the reading) and of its phase (rad, in (-pi, pi]),
+// both exact (not linearized), computed without cancellation for small changes. When
+// v0 is zero the phase is undefined: phase_defined is false, phase_rad 0, and the
+// amplitude change is |perturbation|.
+struct ReadingChange {
+    double amplitude = 0.0;
+    double phase_rad = 0.0;
+    bool phase_defined = true;
+};
+ReadingChange reading_change(std::complex<double> baseline, std::complex<double> perturbation);
+
+// The two parts of d' for a model whose channels are amplitude or amplitude_and_phase:
+// d'^2 = amplitude^2 + phase^2 (phase is 0 for the amplitude channel alone, and a
+// sensor with an undefined phase adds nothing to it). Throws InputError for a
+// quadratures model, a phase noise that is not positive and finite (with
+// amplitude_and_phase), mismatched sizes, non-finite values, and what
+// detectability_index refuses.
+struct ChannelIndex {
+    double amplitude = 0.0, phase = 0.0;
+    double total() const;  // sqrt(amplitude^2 + phase^2), without overflow
+};
+ChannelIndex channel_detectability(const NoiseModel& noise, const std::vector<std::complex<double>>& perturbation,
+                                   const std::vector<std::complex<double>>& baseline,
+                                   const std::vector<double>& receptors_per_sensor = {});
 
 // ---- Gaussian tail and detection probability -----------------------------------
 

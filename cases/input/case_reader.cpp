@@ -1240,12 +1240,35 @@ SweepSpec read_sweep(const Section& sec) {
     return s;
 }
 
+// [detection] channels, with the phase noise (or timing jitter) that the phase channel needs.
+void read_detection_channels(const Section& sec, DetectionSpec& d) {
+    using Channels = DetectionSpec::Channels;
+    if (const toml::node* n = sec.find("channels")) {
+        const std::string c = read_choice(sec, "channels", *n, {"quadratures", "amplitude", "amplitude_and_phase"});
+        d.channels = c == "amplitude" ? Channels::amplitude
+                     : c == "amplitude_and_phase" ? Channels::amplitude_and_phase : Channels::quadratures;
+    }
+    const toml::node* phase = sec.find("phase_noise");
+    const toml::node* jitter = sec.find("timing_jitter");
+    if (d.channels != Channels::amplitude_and_phase) {
+        for (const char* key : {"phase_noise", "timing_jitter"})
+            if (sec.find(key)) fail(sec.where(key), "is the noise of the phase channel; give channels = \"amplitude_and_phase\" too");
+        return;
+    }
+    if ((phase != nullptr) == (jitter != nullptr))
+        fail(sec.where("channels"), "\"amplitude_and_phase\" needs exactly one of phase_noise (an angle, e.g. "
+                                    "\"0.5 deg\") or timing_jitter (a time, e.g. \"100 ns\")");
+    if (phase) d.phase_noise_rad = required_positive(sec, "phase_noise", Dimension::angle);
+    if (jitter) d.timing_jitter_s = required_positive(sec, "timing_jitter", Dimension::time);
+}
+
 DetectionSpec read_detection(const Section& sec) {
     check_keys(sec, {"receptor_noise", "receptor_density", "receptor_zones", "amplifier_noise", "amplifier_current_noise",
                      "integration_time", "false_alarm_probability", "probability_level", "localization_accuracy",
-                     "localization_size"});
+                     "localization_size", "channels", "phase_noise", "timing_jitter"});
     DetectionSpec d;
     d.line = sec.line;
+    read_detection_channels(sec, d);
     const bool receptors = sec.find("receptor_noise") != nullptr;
     const bool voltage = sec.find("amplifier_noise") != nullptr;
     const bool current = sec.find("amplifier_current_noise") != nullptr;
@@ -1554,6 +1577,9 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
                                                      "ellipsoid, capsule or box); an imported mesh keeps its own panels");
     if (spec.detection && !spec.detection->receptor_zones.empty() && !spec.fish)
         fail(sec.where("detection"), "receptor_zones describe a fish's skin; the case has no [fish]");
+    if (spec.detection && spec.detection->channels == DetectionSpec::Channels::amplitude_and_phase && !spec.frequency_Hz)
+        fail(at(ctx, spec.detection->line, "detection.channels"), "the phase channel reads the phase of an alternating "
+                                                                  "signal; the case has no frequency");
     if (spec.sweep) {
         const Section sw{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx};
         std::vector<std::string> names = spec.sweep->alternatives;

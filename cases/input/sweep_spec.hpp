@@ -70,6 +70,12 @@ struct DetectionSpec {
     std::vector<ReceptorZone> receptor_zones; // fish: densities that replace it along stretches
     double noise_density = 0.0;               // robot: V/sqrt(Hz) or A/sqrt(Hz)
     double integration_time_s = 0.0;          // robot: lock-in averaging time
+    // Which parts of each sensor's perturbation are read (cases/detection/detectability.hpp):
+    // both quadratures (default), the amplitude change alone, or amplitude and phase changes.
+    enum class Channels { quadratures, amplitude, amplitude_and_phase };
+    Channels channels = Channels::quadratures;
+    double phase_noise_rad = 0.0;             // amplitude_and_phase: rms phase noise, or
+    double timing_jitter_s = 0.0;             // an rms timing jitter (phase noise 2 pi f jitter)
     double false_alarm_probability = 1e-3;
     double probability_level = 0.5;           // detection range: where P_D crosses this
     double localization_accuracy_m = 0.0;     // murk layout: the position error wanted (0: no bound computed)

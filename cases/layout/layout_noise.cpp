@@ -13,6 +13,10 @@ NoiseModel layout_noise(const CaseSpec& spec, const LayoutSpec& layout) {
     if (d.noise == DetectionSpec::Noise::receptors)
         throw InputError(spec.path + ":" + std::to_string(d.line) +
                          ": detection: a robot's layouts need an amplifier noise, not receptor_noise");
+    if (d.channels != DetectionSpec::Channels::quadratures)
+        throw InputError(spec.path + ":" + std::to_string(d.line) +
+                         ": detection.channels: murk layout rates layouts by both quadratures; amplitude and phase "
+                         "channels are read by murk run only");
     const bool current = layout.reading == LayoutReading::current;
     NoiseModel m;
     m.kind = current ? NoiseKind::current_amplifier : NoiseKind::voltage_amplifier;

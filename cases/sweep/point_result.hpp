@@ -21,6 +21,16 @@ struct PointResult {
     PathCode path = PathCode::none;
 };
 
+// How detectable a perturbation is under the noise model: d' and P_D, and for a
+// model that reads amplitude (and phase) changes, the d' of each channel (zero for a
+// model that reads both quadratures). `baseline` is the sensors' baseline reading.
+struct PointRating {
+    double snr = 0, detection_probability = 0;
+    ChannelIndex channels;
+};
+template <class S>
+PointRating rate_perturbation(const SensorNoise& noise, const std::vector<S>& change, const std::vector<S>& baseline);
+
 // A computed point: the readings with the object, less the water's baseline
 // readings, summarized (peak, image width) and, with a noise model, rated.
 template <class S>
@@ -36,6 +46,8 @@ PointResult<S> masked_point(std::size_t point, MaskReason reason) {
     return r;
 }
 
+extern template PointRating rate_perturbation(const SensorNoise&, const std::vector<double>&, const std::vector<double>&);
+extern template PointRating rate_perturbation(const SensorNoise&, const std::vector<Complex>&, const std::vector<Complex>&);
 extern template PointResult<double> computed_point(std::size_t, const Vec3&, std::vector<double>, PathCode,
                                                    const SweepBaselines<double>&, std::size_t);
 extern template PointResult<Complex> computed_point(std::size_t, const Vec3&, std::vector<Complex>, PathCode,

@@ -4,6 +4,8 @@
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
 
+#include <cmath>
+
 namespace murk {
 
 namespace {
@@ -36,6 +38,15 @@ NoiseModel noise_model(const DetectionSpec& d) {
     return m;
 }
 
+NoiseChannels noise_channels(const DetectionSpec& d) {
+    switch (d.channels) {
+        case DetectionSpec::Channels::quadratures: return NoiseChannels::quadratures;
+        case DetectionSpec::Channels::amplitude: return NoiseChannels::amplitude;
+        case DetectionSpec::Channels::amplitude_and_phase: return NoiseChannels::amplitude_and_phase;
+    }
+    return NoiseChannels::quadratures;
+}
+
 // Receptors on each skin panel: density times area, the density taken from the
 // zone (fraction of the length from the nose) that holds the centroid.
 std::vector<double> receptors_per_panel(const CaseSpec& spec, const SensorLayout& sensors) {
@@ -62,6 +73,10 @@ SensorNoise sensor_noise(const CaseSpec& spec, const SweepPlan& plan, const Sens
     const DetectionSpec& d = *spec.detection;
     SensorNoise noise;
     noise.model = noise_model(d);
+    noise.model.channels = noise_channels(d);
+    // The reader requires a frequency with the phase channel: a jitter t shifts the phase by 2 pi f t.
+    noise.model.phase_noise_rad =
+        d.timing_jitter_s > 0.0 ? 2.0 * M_PI * spec.frequency_Hz.value_or(0.0) * d.timing_jitter_s : d.phase_noise_rad;
     noise.false_alarm_probability = d.false_alarm_probability;
     noise.probability_level = d.probability_level;
     if (sensors.skin) {

@@ -28,7 +28,8 @@ struct Part {
 // result has; the perturbation is copied apart, point by point).
 const char* const kPointDatasets[] = {"status", "mask_reason", "path", "peak_perturbation", "peak_sensor",
                                       "peak_position", "object_position", "image_width", "snr",
-                                      "detection_probability"};
+                                      "detection_probability", "amplitude_change", "phase_change",
+                                      "snr_amplitude", "snr_phase"};
 
 Part open_part(const std::string& path) {
     Part p{path, H5File::open_readonly(path), 0, 0, {}};

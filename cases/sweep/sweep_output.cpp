@@ -224,6 +224,17 @@ void SweepFile<S>::create_datasets() {
         pd.set_attribute("probability_level", base.noise->probability_level);
         pd.set_attribute("false_alarm_probability", base.noise->false_alarm_probability);
     }
+    if (spec.frequency_Hz) {
+        per_point(double{}, "amplitude_change", with(shape), sensors.units,
+                  "change of the amplitude of the peak sensor's reading, |V0 + dV| - |V0|", chunked, axis_names);
+        per_point(double{}, "phase_change", with(shape), "rad",
+                  "change of the phase of the peak sensor's reading, arg((V0 + dV) / V0)", chunked, axis_names);
+    }
+    if (base.noise && base.noise->model.channels != NoiseChannels::quadratures) {
+        per_point(double{}, "snr_amplitude", with(shape), "1", "d' of the amplitude channel", chunked, axis_names);
+        per_point(double{}, "snr_phase", with(shape), "1", "d' of the phase channel (0 when the phase is not read)",
+                  chunked, axis_names);
+    }
     coded(kPath, "path that computed the point", flags_of<PathCode>());
     status_.assign(plan.total, PointStatus::not_computed);
     // As the datasets are filled: NaN, -1 for the peak sensor, 0 for the codes.
@@ -234,6 +245,9 @@ void SweepFile<S>::create_datasets() {
     values_.peak_position.assign(3 * n, nan);
     if (sensors.skin) values_.image_width.assign(n, nan);
     if (base.noise) values_.snr.assign(n, nan), values_.detection_probability.assign(n, nan);
+    if (spec.frequency_Hz) values_.amplitude_change.assign(n, nan), values_.phase_change.assign(n, nan);
+    if (base.noise && base.noise->model.channels != NoiseChannels::quadratures)
+        values_.snr_amplitude.assign(n, nan), values_.snr_phase.assign(n, nan);
     values_.peak_sensor.assign(n, -1);
     values_.mask_reason.assign(n, 0);
     values_.path.assign(n, 0);
@@ -256,6 +270,10 @@ void SweepFile<S>::write_point_values() {
     whole("image_width", values_.image_width);
     whole("snr", values_.snr);
     whole("detection_probability", values_.detection_probability);
+    whole("amplitude_change", values_.amplitude_change);
+    whole("phase_change", values_.phase_change);
+    whole("snr_amplitude", values_.snr_amplitude);
+    whole("snr_phase", values_.snr_phase);
     whole("mask_reason", values_.mask_reason);
     whole("path", values_.path);
     whole("status", status);
@@ -287,9 +305,28 @@ void SweepFile<S>::write_point(const PointResult<S>& r) {
             values_.snr[p] = r.snr;
             values_.detection_probability[p] = r.detection_probability;
         }
+        write_channel_values(r, index);
     }
     status_[p] = status;
     values_.path[p] = std::uint8_t(r.path);
+}
+
+template <class S>
+void SweepFile<S>::write_channel_values(const PointResult<S>& r, const std::vector<std::size_t>& index) {
+    const std::vector<S>& base = baselines_->waters[plan_->water_of(index)].readings;
+    const std::size_t p = r.point;
+    if (!values_.amplitude_change.empty()) {
+        const std::size_t k = r.image.peak_sensor;
+        const ReadingChange c = reading_change(Complex(base[k]), Complex(r.change[k]));
+        values_.amplitude_change[p] = c.amplitude;
+        values_.phase_change[p] = c.phase_defined ? c.phase_rad : std::numeric_limits<double>::quiet_NaN();
+    }
+    if (!values_.snr_amplitude.empty()) {
+        // The same arithmetic as the point's own rating (computed_point), so the parts match its d'.
+        const PointRating rating = rate_perturbation(*baselines_->noise, r.change, base);
+        values_.snr_amplitude[p] = rating.channels.amplitude;
+        values_.snr_phase[p] = rating.channels.phase;
+    }
 }
 
 template <class S>

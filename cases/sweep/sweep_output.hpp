@@ -55,6 +55,8 @@ public:
 private:
     void create_datasets();
     void write_point_values();
+    // amplitude_change, phase_change and the channels' d' of a computed point, where the file has them.
+    void write_channel_values(const PointResult<S>& result, const std::vector<std::size_t>& index);
 
     // The small per-point datasets, held until commit and then written whole: a
     // value at a time, each write would inflate and deflate a shared compressed
@@ -62,6 +64,8 @@ private:
     // chunk per point, are written as the points come.
     struct PointValues {
         std::vector<double> object_position, peak, peak_position, image_width, snr, detection_probability;
+        std::vector<double> amplitude_change, phase_change;  // at the peak sensor; with a frequency
+        std::vector<double> snr_amplitude, snr_phase;        // with amplitude (and phase) channels
         std::vector<std::int32_t> peak_sensor;
         std::vector<std::uint8_t> mask_reason, path;
     };
