@@ -274,3 +274,41 @@ TEST_CASE("image series: meshed insulating slabs approach the two-plane series a
     CHECK(differences[2] < differences[1]);
     CHECK(differences[2] < 0.1);
 }
+
+TEST_CASE("image series: a meshed block of sediment approaches the sediment bottom's image as it grows") {
+    // A bottom of conductivity 0.05 S/m under water of 0.01 S/m (r = -2/3) at
+    // z = -4.5 cm as one image, against a block of that conductivity (a contact
+    // surface) below the same plane, of growing width and depth (half the width):
+    // the difference falls as the block grows, down to its discretization error.
+    const double sigma_b = 0.05, top = -0.045;
+    Scene<double> scene = sphere_between_sources();
+    WaterLayer layer;
+    layer.bottom_z = top;
+    scene.images = layer_images(layer, reflection_coefficient(scene.water_conductivity, sigma_b));
+    const Eigen::VectorXd imaged = outer_potential(scene);
+    scene.images = {};
+    const double effect = (imaged - outer_potential(scene)).cwiseAbs().maxCoeff();
+    std::vector<double> differences;
+    for (double width : {0.06, 0.12, 0.24}) {
+        Scene<double> meshed = sphere_between_sources();
+        const std::vector<double> xy = graded_lines(0.5 * width, 0.01);
+        // depths graded from the top face down to half the width, increasing z
+        const std::vector<double> depth = graded_lines(0.5 * width, 0.01);
+        std::vector<double> z;
+        for (auto it = depth.rbegin(); it != depth.rend(); ++it)
+            if (*it >= 0.0) z.push_back(top - *it);
+        Surface<double> block;
+        block.mesh = make_box_on_lines({xy, xy, z});
+        block.mesh.name = "sediment";
+        block.kind = InterfaceKind::contact;
+        block.inner_conductivity = sigma_b;
+        meshed.surfaces.push_back(block);
+        const double d = (outer_potential(meshed) - imaged).cwiseAbs().maxCoeff() / effect;
+        MESSAGE("block " << width << " m wide (" << block.mesh.size() << " panels): difference " << d
+                         << " of the bottom's effect");
+        differences.push_back(d);
+    }
+    CHECK(differences[1] < 0.7 * differences[0]);
+    CHECK(differences[2] < differences[1]);
+    CHECK(differences[2] < 0.2);
+}

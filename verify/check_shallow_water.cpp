@@ -44,8 +44,8 @@ double drive_resistance(const Scene<double>& scene, const QuadratureOptions& qua
 
 void check_shallow_water(const VerifyOptions& options, const std::function<void(CheckResult)>& add) {
     CheckResult row;
-    row.name = "shallow water, two planes' share of a drive resistance";
-    row.source = "slab Green's function as a Bessel-function series (Morse & Feshbach 1953)";
+    row.name = "shallow water, drive resistance";
+    row.source = "slab Bessel series, Morse & Feshbach 1953";
     row.quantity = "R(slab) - R(unbounded) (ohm)";
     row.tolerance = 0.005;
     add(refine(row, options, [&](int level) {
