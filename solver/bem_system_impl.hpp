@@ -15,19 +15,61 @@
 #include <cmath>
 #include <limits>
 #include <string>
+#include <type_traits>
 
 namespace murk {
 
 namespace detail {
 
-inline Vec3 mirror_point(const InsulatingPlane& plane, const Vec3& x) {
-    return x - 2.0 * (x - plane.point).dot(plane.normal) * plane.normal;
+// The points x moved by an image's isometry (the field points of its layers).
+template <class S>
+Eigen::Matrix3Xd image_points(const FieldImage<S>& image, const Eigen::Matrix3Xd& x) {
+    Eigen::Matrix3Xd m = image.linear * x;
+    m.colwise() += image.shift;
+    return m;
 }
 
-inline Eigen::Matrix3Xd mirror_points(const InsulatingPlane& plane, const Eigen::Matrix3Xd& x) {
-    Eigen::Matrix3Xd m(3, x.cols());
-    for (Eigen::Index i = 0; i < x.cols(); ++i) m.col(i) = mirror_point(plane, x.col(i));
-    return m;
+// Whether some image weight (or the constant) has an imaginary part: the water
+// rows' layers then need an imaginary part of their own.
+template <class S>
+bool has_complex_weights(const ImageSeries<S>& series) {
+    if (std::imag(series.constant) != 0.0) return true;
+    for (const FieldImage<S>& t : series.terms)
+        if (std::imag(t.weight) != 0.0) return true;
+    return false;
+}
+
+template <class S>
+S with_imaginary(double re, double im) {
+    if constexpr (std::is_same_v<S, double>) return (void)im, re;
+    else return S(re, im);
+}
+
+// Adds the images' layers at the points x to single and dbl (real parts of the
+// weights) and single_im, dbl_im (imaginary parts; null when all weights are
+// real), with the series' constant in the single layer (a constant kernel adds
+// nothing to a double layer). scratch_*: storage of the same size.
+template <class S>
+void add_image_layers(const ImageSeries<S>& series, const Eigen::Matrix3Xd& x, const PanelSet& panels,
+                      const QuadratureOptions& options, Eigen::Ref<Eigen::MatrixXd> single,
+                      Eigen::Ref<Eigen::MatrixXd> dbl, Eigen::Ref<Eigen::MatrixXd> scratch_single,
+                      Eigen::Ref<Eigen::MatrixXd> scratch_dbl, Eigen::Map<Eigen::MatrixXd>* single_im,
+                      Eigen::Map<Eigen::MatrixXd>* dbl_im) {
+    for (const FieldImage<S>& t : series.terms) {
+        assemble_layer_blocks(image_points(t, x), panels, options, false, 0, scratch_single, scratch_dbl);
+        const double re = std::real(t.weight), im = std::imag(t.weight);
+        single += re * scratch_single;
+        dbl += re * scratch_dbl;
+        if (single_im && im != 0.0) {
+            *single_im += im * scratch_single;
+            *dbl_im += im * scratch_dbl;
+        }
+    }
+    const double c_re = std::real(series.constant) / (4.0 * M_PI), c_im = std::imag(series.constant) / (4.0 * M_PI);
+    for (Eigen::Index k = 0; k < panels.size(); ++k) {
+        if (c_re != 0.0) single.col(k).array() -= c_re * panels.area(k);
+        if (single_im && c_im != 0.0) single_im->col(k).array() -= c_im * panels.area(k);
+    }
 }
 
 // Free-space potential of a point source of current I in conductivity sigma.
@@ -97,8 +139,8 @@ bool is_layout_of(const SystemLayout& layout, const Scene<S>& scene) {
 template <class S>
 void check_scene(const Scene<S>& scene) {
     if (scene.surfaces.empty()) throw InputError("scene: no surfaces to solve for");
-    if (scene.plane && scene.uniform_field.norm() > 0)
-        throw InputError("scene: a uniform far field cannot be combined with an insulating plane");
+    if (!scene.images.bounds.empty() && scene.uniform_field.norm() > 0)
+        throw InputError("scene: a uniform far field cannot be combined with a plane bounding the water");
     for (const auto& surface : scene.surfaces) {
         if (surface.mesh.size() == 0) throw InputError("surface '" + surface.mesh.name + "': no panels");
         if (surface.kind != InterfaceKind::sealed) continue;
@@ -290,21 +332,23 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
     // cost more in page faults than filling them. The full system allocates.
     thread_local std::vector<double> kept;
     Eigen::MatrixXd own;
-    const int layers = scene.plane ? 4 : 2;  // single, double (and their images)
+    const bool imaged = scene.images.has_terms();
+    const bool complex_weights = has_complex_weights(scene.images);
+    const int layers = !imaged ? 2 : complex_weights ? 4 : 3;  // pairs: direct, image scratch, imaginary parts
     auto layer_buffers = [&](Eigen::Index m, Eigen::Index n) {
         const std::size_t size = std::size_t(m) * std::size_t(n);
         double* data;
         if (rows) {
-            if (kept.size() < layers * size) kept.resize(layers * size);
+            if (kept.size() < 2 * layers * size) kept.resize(2 * layers * size);
             data = kept.data();
         } else {
-            own.resize(std::max<Eigen::Index>(1, layers * m), std::max<Eigen::Index>(1, n));
+            own.resize(std::max<Eigen::Index>(1, 2 * layers * m), std::max<Eigen::Index>(1, n));
             data = own.data();
         }
         using Block = Eigen::Map<Eigen::MatrixXd>;
-        const std::size_t image = layers == 4 ? 2 * size : 0;
-        return std::array<Block, 4>{Block(data, m, n), Block(data + size, m, n), Block(data + image, m, n),
-                                    Block(data + image + size, m, n)};
+        auto at = [&](int j) { return data + (j < 2 * layers ? j : 0) * size; };
+        return std::array<Block, 6>{Block(at(0), m, n), Block(at(1), m, n), Block(at(2), m, n),
+                                    Block(at(3), m, n), Block(at(4), m, n), Block(at(5), m, n)};
     };
     // Rows of a surface go in strips: the layer blocks of a strip are all its
     // temporary storage (a few tens of MB), not a second copy of the system.
@@ -318,11 +362,11 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
         for (Eigen::Index i0 = 0; i0 < block.panels; i0 += kStrip) {
             const Eigen::Index strip = std::min(kStrip, block.panels - i0);
             const Eigen::Matrix3Xd xs = x.middleCols(i0, strip);
-            const Eigen::Matrix3Xd xs_image = scene.plane ? mirror_points(*scene.plane, xs) : Eigen::Matrix3Xd();
             for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
                 if (!has_cols[b] || (!water_rows && a != b)) continue;
                 auto buffers = layer_buffers(strip, panels[b].size());
                 auto &single = buffers[0], &dbl = buffers[1], &single_image = buffers[2], &dbl_image = buffers[3];
+                auto &single_im = buffers[4], &dbl_im = buffers[5];
                 assemble_layer_blocks(xs, panels[b], options, a == b, i0, single, dbl);
                 const auto& col = columns[b];
 
@@ -346,17 +390,22 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
 
                 // Exterior (water) equation on surface a:
                 // 1/2 phi_w - sum_b Kw phi_w - sum_b Vw q = incident + water sources.
-                if (scene.plane) {
-                    assemble_layer_blocks(xs_image, panels[b], options, false, 0, single_image, dbl_image);
-                    single += single_image;
-                    dbl += dbl_image;
+                if (imaged) {
+                    if (complex_weights) single_im.setZero(), dbl_im.setZero();
+                    add_image_layers(scene.images, xs, panels[b], options, single, dbl, single_image, dbl_image,
+                                     complex_weights ? &single_im : nullptr, complex_weights ? &dbl_im : nullptr);
                 }
                 const Eigen::Index r0 = block.offset + i0;
                 for (Eigen::Index k = 0; k < layout.surfaces[b].panels; ++k) {
                     const Eigen::Index cphi = col.phi[k], cq = col.q[k];
                     for (Eigen::Index i = 0; i < strip; ++i) {
-                        add(r0 + i, cphi, -dbl(i, k));
-                        if (cq >= 0) add(r0 + i, cq, -single(i, k));
+                        if (complex_weights) {
+                            add(r0 + i, cphi, with_imaginary<S>(-dbl(i, k), -dbl_im(i, k)));
+                            if (cq >= 0) add(r0 + i, cq, with_imaginary<S>(-single(i, k), -single_im(i, k)));
+                        } else {
+                            add(r0 + i, cphi, -dbl(i, k));
+                            if (cq >= 0) add(r0 + i, cq, -single(i, k));
+                        }
                     }
                 }
                 if (a == b)
@@ -543,7 +592,6 @@ VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, cons
                                                          scene.surfaces[region[i]].inner_conductivity,
                                                          scene.sources[p].position, xi);
     }
-    const Eigen::Matrix3Xd images = scene.plane ? detail::mirror_points(*scene.plane, points) : Eigen::Matrix3Xd();
     Eigen::MatrixXd single, dbl, single_image, dbl_image;
     for (std::size_t b = 0; b < scene.surfaces.size(); ++b) {
         const PanelSet panels(scene.surfaces[b].mesh);
@@ -556,10 +604,17 @@ VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, cons
             scattered_q(k) = sol.current_density(k) / scene.water_conductivity + incident.normal_derivative(c, nk);
         }
         assemble_layer_blocks(points, panels, options, false, single, dbl);
-        if (scene.plane) assemble_layer_blocks(images, panels, options, false, single_image, dbl_image);
-        // water: phi_s = sum_b (Kw u_s + Vw q_s); interior: phi = src - K phi_in - V j / sigma_in
+        // water: phi_s = sum_b (Kw u_s + Vw q_s), images included; interior: phi = src - K phi_in - V j / sigma_in
         VectorX<S> water = dbl.cast<S>() * scattered_u + single.cast<S>() * scattered_q;
-        if (scene.plane) water += dbl_image.cast<S>() * scattered_u + single_image.cast<S>() * scattered_q;
+        for (const FieldImage<S>& t : scene.images.terms) {
+            assemble_layer_blocks(detail::image_points(t, points), panels, options, false, single_image, dbl_image);
+            water += t.weight * (dbl_image.cast<S>() * scattered_u + single_image.cast<S>() * scattered_q);
+        }
+        if (scene.images.constant != S(0)) {
+            S total = S(0);  // sum of area q: the constant kernel's single layer
+            for (Eigen::Index k = 0; k < n; ++k) total += panels.area(k) * scattered_q(k);
+            water.array() -= scene.images.constant / S(4.0 * M_PI) * total;
+        }
         VectorX<S> inner;
         if (scene.surfaces[b].kind != InterfaceKind::sealed)
             inner = -(dbl.cast<S>() * sol.inner_potential +

@@ -15,9 +15,9 @@ namespace {
 // The dipole's potential (with its image) at every water-row point, in water-row order.
 template <class S>
 VectorX<S> dipole_potential_at_rows(const FixedPart<S>& fixed, const PointDipole<S>& dipole) {
-    Scene<S> alone;  // only what IncidentField reads: the water, its plane, the dipole
+    Scene<S> alone;  // only what IncidentField reads: the water, its bounds' images, the dipole
     alone.water_conductivity = fixed.scene().water_conductivity;
-    alone.plane = fixed.scene().plane;
+    alone.images = fixed.scene().images;
     alone.dipoles = {dipole};
     const IncidentField<S> incident(alone, {});
     const Eigen::Matrix3Xd& x = fixed.water_row_points();

@@ -11,27 +11,25 @@ IncidentField<S>::IncidentField(const Scene<S>& scene, std::vector<std::size_t> 
         const auto& src = scene.sources[i];
         const S strength = src.current / (S(4.0 * M_PI) * scene.water_conductivity);
         poles_.push_back({src.position, strength});
-        if (scene.plane) {  // image source: the same current mirrored across the plane
-            const Vec3 n = scene.plane->normal;
-            const Vec3 image = src.position - 2.0 * (src.position - scene.plane->point).dot(n) * n;
-            poles_.push_back({image, strength});
-        }
+        // Image sources: |T x - y| = |x - T^-1 y|; the series' constant shifts the potential.
+        for (const FieldImage<S>& t : scene.images.terms) poles_.push_back({t.source_of(src.position), strength * t.weight});
+        pole_constant_ += strength * scene.images.constant;
     }
     for (const PointDipole<S>& d : scene.dipoles) {
         const Eigen::Matrix<S, 3, 1> m = d.moment / S(4.0 * M_PI);
         dipoles_.push_back({d.position, m});
-        if (scene.plane) {  // image: mirrored position, moment reflected (normal part reversed)
-            const Vec3 n = scene.plane->normal;
-            const Vec3 image = d.position - 2.0 * (d.position - scene.plane->point).dot(n) * n;
-            const Eigen::Matrix<S, 3, 1> nn = n.cast<S>();
-            dipoles_.push_back({image, m - S(2.0) * nn.dot(m) * nn});
+        // Image dipoles: m . (T x - c) = (L^T m) . (x - T^-1 c) for T x = L x + shift
+        // (a reflection reverses the normal part of the moment).
+        for (const FieldImage<S>& t : scene.images.terms) {
+            const Eigen::Matrix<S, 3, 3> lt = t.linear.transpose().template cast<S>();
+            dipoles_.push_back({t.source_of(d.position), Eigen::Matrix<S, 3, 1>(lt * m * t.weight)});
         }
     }
 }
 
 template <class S>
 S IncidentField<S>::potential(const Vec3& x) const {
-    S phi = -x.cast<S>().dot(field_);  // (Eigen conjugates the left operand)
+    S phi = -x.cast<S>().dot(field_) - pole_constant_;  // (Eigen conjugates the left operand)
     for (const Pole& p : poles_) phi += p.strength / (x - p.position).norm();
     for (const Dipole& d : dipoles_) {
         const Vec3 r = x - d.position;

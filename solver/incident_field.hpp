@@ -1,7 +1,7 @@
 #pragma once
 // The incident potential in the water: what the water sources, the point
 // dipoles and the imposed uniform field would produce with no surfaces present (including the image
-// sources of an insulating plane). It is harmonic inside every closed surface,
+// sources of the planes bounding the water, Scene::images). It is harmonic inside every closed surface,
 // which is what lets the representation formula be applied to the scattered
 // part alone (see potential_at).
 #include "solver/scene.hpp"
@@ -28,6 +28,7 @@ private:
     struct Dipole { Vec3 position; Eigen::Matrix<S, 3, 1> moment; };  // moment / (4 pi), V m^2
     Eigen::Matrix<S, 3, 1> field_;
     std::vector<Pole> poles_;
+    S pole_constant_{};  // the image series' constant times the water sources' strengths
     std::vector<Dipole> dipoles_;
 };
 

@@ -66,17 +66,51 @@ struct PointDipole {
     Eigen::Matrix<S, 3, 1> moment = Eigen::Matrix<S, 3, 1>::Zero();
 };
 
-// An insulating plane (water surface or bottom): the water lies on the side
-// opposite to `normal`. Handled exactly by the image Green's function.
-struct InsulatingPlane {
+// A plane bounding the water (water surface or bottom): the water lies on the
+// side opposite to `normal`. Whether it insulates or conducts is in the weights
+// of its images (ImageSeries).
+struct BoundingPlane {
     Vec3 point = Vec3::Zero();
     Vec3 normal = Vec3::UnitZ();  // unit, pointing out of the water
+};
+using InsulatingPlane = BoundingPlane;
+
+// One image of the field point in the Green's function of bounded water: the
+// isometry x -> linear x + shift (a reflection across a plane, a translation
+// along its normal, or both) and the image's weight (1 for an insulating plane,
+// the reflection coefficient of a conducting bottom, its powers for repeated
+// reflections; complex at a frequency).
+template <class S>
+struct FieldImage {
+    Eigen::Matrix3d linear = Eigen::Matrix3d::Identity();  // orthogonal
+    Vec3 shift = Vec3::Zero();
+    S weight{1};
+    Vec3 of(const Vec3& x) const { return linear * x + shift; }
+    // Where the image of a source at y sits: |of(x) - y| = |x - source_of(y)|.
+    Vec3 source_of(const Vec3& y) const { return linear.transpose() * (y - shift); }
+};
+
+// The Green's function of the water as images (solver/image_series.hpp builds them):
+//   4 pi G(x, y) = 1/|x - y| + sum_k weight_k / |T_k x - y| - constant.
+// Empty: unbounded water. One image: one plane (exact). Two parallel planes: a
+// series truncated at `tolerance` over the horizontal `reach` (its far images
+// folded into one equivalent pair per family), and for two insulating planes a
+// constant subtracted so that the series converges (image_series.hpp says which
+// reference the potential then has). `constant` adds nothing to a double layer.
+template <class S>
+struct ImageSeries {
+    std::vector<BoundingPlane> bounds;  // the planes bounding the water
+    std::vector<FieldImage<S>> terms;   // images of weight zero are left out
+    S constant{};            // 1/m, subtracted from 4 pi G
+    double tolerance = 0.0;  // relative truncation error aimed at; 0: exact (no truncation)
+    double reach = 0.0;      // m, horizontal extent over which the tolerance was checked
+    bool has_terms() const { return !terms.empty(); }
 };
 
 template <class S>
 struct Scene {
     S water_conductivity{};
-    std::optional<InsulatingPlane> plane;
+    ImageSeries<S> images;  // the water's bounds (empty: unbounded water)
     std::vector<Surface<S>> surfaces;
     std::vector<Electrode<S>> electrodes;
     std::vector<PointSource<S>> sources;

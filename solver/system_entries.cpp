@@ -8,9 +8,6 @@
 namespace murk {
 
 namespace {
-Vec3 mirrored(const InsulatingPlane& plane, const Vec3& x) {
-    return x - 2.0 * (x - plane.point).dot(plane.normal) * plane.normal;
-}
 // Interior potential coefficient of q on a membrane: phi_in = u + rho_s * sigma_w * q
 // (as in bem_system_impl.hpp).
 template <class S>
@@ -39,10 +36,13 @@ SystemEntries<S>::SystemEntries(const Scene<S>& scene, const QuadratureOptions& 
             }
         // Gauss's law closes each row of the surface's own double layer (layer_blocks.hpp).
         gauss_diagonal_.push_back((-0.5 - double_layer_row_sums(p, options).array()).matrix());
-        Eigen::Matrix3Xd m(3, p.size());
-        if (scene.plane)
-            for (Eigen::Index k = 0; k < p.size(); ++k) m.col(k) = mirrored(*scene.plane, p.centroid.col(k));
-        mirrored_.push_back(std::move(m));
+        std::vector<Eigen::Matrix3Xd> moved;
+        for (const FieldImage<S>& t : scene.images.terms) {
+            Eigen::Matrix3Xd m = t.linear * p.centroid;
+            m.colwise() += t.shift;
+            moved.push_back(std::move(m));
+        }
+        imaged_.push_back(std::move(moved));
     }
     // The right-hand side: the rows of the whole system against no columns.
     std::vector<Eigen::Index> all(std::size_t(layout_.size));
@@ -68,12 +68,16 @@ S SystemEntries<S>::entry(Eigen::Index row, Eigen::Index col) const {
     // Water equation on surface a.
     LayerValues v = layer_pair(panels_[a].centroid.col(i), src, k, options_, self);
     if (self) v.dbl = gauss_diagonal_[a](i);
-    if (scene_->plane) {
-        const LayerValues w = layer_pair(mirrored_[a].col(i), src, k, options_, false);
-        v.single += w.single, v.dbl += w.dbl;
+    S single = v.single, dbl = v.dbl;
+    const ImageSeries<S>& images = scene_->images;
+    for (std::size_t t = 0; t < images.terms.size(); ++t) {
+        const LayerValues w = layer_pair(imaged_[a][t].col(i), src, k, options_, false);
+        single += images.terms[t].weight * w.single, dbl += images.terms[t].weight * w.dbl;
     }
-    if (q_column_[col]) return S(-v.single);
-    return S(-v.dbl + (self ? 0.5 : 0.0));
+    // The series' constant: a constant kernel, in the single layer only.
+    if (images.constant != S(0)) single -= images.constant * S(src.area(k) / (4.0 * M_PI));
+    if (q_column_[col]) return -single;
+    return -dbl + S(self ? 0.5 : 0.0);
 }
 
 template <class S>
@@ -110,8 +114,12 @@ MatrixX<S> SystemEntries<S>::electrode_columns() const {
             const bool self = site.surface == a && site.panel == i;
             LayerValues v = layer_pair(panels_[a].centroid.col(i), panels_[site.surface], site.panel, options_, self);
             if (self) v.dbl = gauss_diagonal_[a](i);
-            if (scene_->plane) v.dbl += layer_pair(mirrored_[a].col(i), panels_[site.surface], site.panel, options_, false).dbl;
-            out(row, site.electrode) += S(-v.dbl + (self ? 0.5 : 0.0));
+            S dbl = v.dbl;
+            const ImageSeries<S>& images = scene_->images;
+            for (std::size_t t = 0; t < images.terms.size(); ++t)
+                dbl += images.terms[t].weight *
+                       layer_pair(imaged_[a][t].col(i), panels_[site.surface], site.panel, options_, false).dbl;
+            out(row, site.electrode) += -dbl + S(self ? 0.5 : 0.0);
         }
     }
     return out;

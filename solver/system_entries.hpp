@@ -53,7 +53,8 @@ private:
     std::vector<Eigen::Index> panel_of_;
     std::vector<char> interior_row_, q_column_;
     Eigen::Matrix3Xd points_;
-    std::vector<Eigen::Matrix3Xd> mirrored_;       // per surface: centroids mirrored in the plane
+    // Per surface, per image of Scene::images: the centroids moved by the image's isometry.
+    std::vector<std::vector<Eigen::Matrix3Xd>> imaged_;
     VectorX<S> rhs_;
 };
 

@@ -90,13 +90,6 @@ void layer_derivatives(const LayerPoints<S>& lp, const Vec3& x, Eigen::Matrix<S,
     hess *= S(kInv4Pi);
 }
 
-Eigen::Matrix3d mirror_matrix(const InsulatingPlane& plane) {
-    return Eigen::Matrix3d::Identity() - 2.0 * plane.normal * plane.normal.transpose();
-}
-
-Vec3 mirror(const InsulatingPlane& plane, const Vec3& x) {
-    return x - 2.0 * (x - plane.point).dot(plane.normal) * plane.normal;
-}
 
 }  // namespace
 
@@ -113,18 +106,18 @@ BaselineFieldGradient<S> baseline_field_gradient(const FixedPart<S>& fixed, cons
     out.field.resize(3, m);
     out.gradient.resize(9, m);
     out.clearance.resize(m);
-    const std::optional<InsulatingPlane>& plane = scene.plane;
-    const Eigen::Matrix3d p = plane ? mirror_matrix(*plane) : Eigen::Matrix3d::Identity();
+    const std::vector<FieldImage<S>>& images = scene.images.terms;
 #pragma omp parallel for schedule(dynamic, 16)
     for (Eigen::Index i = 0; i < m; ++i) {
         const Vec3 x = points.col(i);
         Eigen::Matrix<S, 3, 1> grad, g_image;
         Eigen::Matrix<S, 3, 3> hess, h_image;
         layer_derivatives(lp, x, grad, hess);
-        if (plane) {  // phi_image(x) = f(P x + c): gradient P grad f, Hessian P H P
-            layer_derivatives(lp, mirror(*plane, x), g_image, h_image);
-            grad += p.cast<S>() * g_image;
-            hess += p.cast<S>() * h_image * p.cast<S>();
+        for (const FieldImage<S>& t : images) {  // w f(L x + shift): gradient w L^T grad f, Hessian w L^T H L
+            layer_derivatives(lp, t.of(x), g_image, h_image);
+            const Eigen::Matrix<S, 3, 3> l = t.linear.template cast<S>();
+            grad += t.weight * (l.transpose() * g_image);
+            hess += t.weight * (l.transpose() * h_image * l);
         }
         for (int j = 0; j < 3; ++j) grad(j) += incident.normal_derivative(x, Vec3::Unit(j));
         hess += incident.hessian(x);
@@ -166,9 +159,7 @@ TargetResponse<S> target_response(const LeadFields<S>& lead, const Eigen::Matrix
     const MatrixX<S>& l = lead.water_rows_lead();
     MURK_CHECK(l.cols() == rows.cols(), "the lead fields cover every water row");
     const BaselineFieldGradient<S> bg = baseline_field_gradient(fixed, points);
-    const std::optional<InsulatingPlane>& plane = fixed.scene().plane;
-    const Eigen::Matrix3d p = plane ? mirror_matrix(*plane) : Eigen::Matrix3d::Identity();
-    const Eigen::Matrix<S, 3, 3> ps = p.cast<S>();
+    const std::vector<FieldImage<S>>& images = fixed.scene().images.terms;
 
     const Eigen::Index m = points.cols(), extra = static_cast<Eigen::Index>(polarization_derivatives.size());
     const Eigen::Index per_point = 4 + extra;  // value, d/dx, d/dy, d/dz, extras
@@ -185,15 +176,23 @@ TargetResponse<S> target_response(const LeadFields<S>& lead, const Eigen::Matrix
         for (Eigen::Index t = 0; t < count; ++t) {
             const Eigen::Index i = first + t;
             const Vec3 x = points.col(i);
-            const Vec3 xi = plane ? mirror(*plane, x) : x;
             const Eigen::Matrix<S, 3, 3> de = Eigen::Map<const Eigen::Matrix<S, 3, 3>>(bg.gradient.col(i).data());
             const Eigen::Matrix<S, 3, 1> e = bg.field.col(i);
             const Eigen::Matrix<S, 3, 1> moment = polarization * e;
             Eigen::Matrix<S, 3, Eigen::Dynamic> dm(3, 3 + extra);  // moment derivatives of every parameter
             dm.leftCols(3) = polarization * de;
             for (Eigen::Index k = 0; k < extra; ++k) dm.col(3 + k) = polarization_derivatives[std::size_t(k)] * e;
-            const Eigen::Matrix<S, 3, 1> moment_image = ps * moment;
-            const Eigen::Matrix<S, 3, Eigen::Dynamic> dm_image = ps * dm;
+            // Each image of the dipole sits at T^-1 x = L^T (x - shift) with moment w L^T p,
+            // so it moves by L^T dx (FieldImage::source_of).
+            std::vector<Vec3> at_image;
+            std::vector<Eigen::Matrix<S, 3, 1>> moment_image;
+            std::vector<Eigen::Matrix<S, 3, Eigen::Dynamic>> dm_image;
+            for (const FieldImage<S>& im : images) {
+                const Eigen::Matrix<S, 3, 3> lt = im.linear.transpose().template cast<S>() * im.weight;
+                at_image.push_back(im.source_of(x));
+                moment_image.push_back(lt * moment);
+                dm_image.push_back(lt * dm);
+            }
             const Eigen::Index c0 = t * per_point;
             for (Eigen::Index r = 0; r < rows.cols(); ++r) {
                 const Vec3 d = rows.col(r) - x;
@@ -202,12 +201,12 @@ TargetResponse<S> target_response(const LeadFields<S>& lead, const Eigen::Matrix
                 Eigen::Matrix<S, 3, 1> move = -dipole_gradient<S>(moment, d);
                 for (Eigen::Index k = 0; k < 3 + extra; ++k)
                     b(r, c0 + 1 + k) = dipole_potential<S>(Eigen::Matrix<S, 3, 1>(dm.col(k)), d);
-                if (plane) {  // the image sits at P x + c with moment P p, so it moves by P dx
-                    const Vec3 di = rows.col(r) - xi;
-                    value += dipole_potential<S>(moment_image, di);
-                    move -= ps * dipole_gradient<S>(moment_image, di);
+                for (std::size_t q = 0; q < images.size(); ++q) {  // d value / dx = L (d value / d image position)
+                    const Vec3 di = rows.col(r) - at_image[q];
+                    value += dipole_potential<S>(moment_image[q], di);
+                    move -= images[q].linear.template cast<S>() * dipole_gradient<S>(moment_image[q], di);
                     for (Eigen::Index k = 0; k < 3 + extra; ++k)
-                        b(r, c0 + 1 + k) += dipole_potential<S>(Eigen::Matrix<S, 3, 1>(dm_image.col(k)), di);
+                        b(r, c0 + 1 + k) += dipole_potential<S>(Eigen::Matrix<S, 3, 1>(dm_image[q].col(k)), di);
                 }
                 b(r, c0) = value;
                 for (Eigen::Index j = 0; j < 3; ++j) b(r, c0 + 1 + j) += move(j);

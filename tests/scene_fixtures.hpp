@@ -2,6 +2,7 @@
 // Scenes shared by the solver tests of the dense and the compressed paths.
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
+#include "solver/image_series.hpp"
 #include "solver/scene.hpp"
 
 #include <cmath>
@@ -50,7 +51,7 @@ Scene<S> mixed_scene(S skin_resistance, S object_conductivity, double body_panel
     scene.electrodes = {{"drive", ElectrodeDrive::current, S(1e-3)},
                         {"ground", ElectrodeDrive::voltage, S(0.0)},
                         {"sense", ElectrodeDrive::floating, S(0.0)}};
-    scene.plane = InsulatingPlane{Vec3(0, 0, 0.03), Vec3::UnitZ()};
+    scene.images = plane_images<S>(InsulatingPlane{Vec3(0, 0, 0.03), Vec3::UnitZ()});
     return scene;
 }
 

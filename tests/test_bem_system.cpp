@@ -5,7 +5,8 @@
 #include "geometry/internal_check.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
-#include "solver/bem_system.hpp"
+#include "solver/image_series.hpp"
+#include "solver//bem_system.hpp"
 
 #include <doctest/doctest.h>
 
@@ -71,7 +72,7 @@ TEST_CASE("an electrode below an insulating plane sees its image") {
     const double a = 0.005, h = 0.05, current = 1e-3;
     Scene<double> scene;
     scene.water_conductivity = kWater;
-    scene.plane = InsulatingPlane{Vec3(0, 0, h), Vec3(0, 0, 1)};
+    scene.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, h), Vec3(0, 0, 1)});
     scene.surfaces.push_back(electrode_sphere(a, 3));
     scene.electrodes.push_back({"e", ElectrodeDrive::current, current});
     const auto sol = solve_scene(scene, kQuad);

@@ -133,9 +133,10 @@ membrane_capacitance = "2 uF/cm^2"
     CHECK(*s.frequency_Hz == doctest::Approx(2000.0));
     CHECK(s.water.conductivity_S_per_m == doctest::Approx(5e-3));  // 50e-6 S / 1e-2 m
     CHECK(*s.water.permittivity_relative == 80.0);
-    REQUIRE(s.water.plane);
-    CHECK(s.water.plane->height_m == doctest::Approx(0.1));
-    CHECK(s.water.plane->water_below);
+    REQUIRE(s.water.surface);
+    CHECK(!s.water.bottom);
+    CHECK(s.water.surface->height_m == doctest::Approx(0.1));
+    CHECK(s.water.surface->water_below);
     CHECK(*s.mesh.panel_size_m == doctest::Approx(4e-3));
     CHECK(s.mesh.near_ratio == 2.5);
     CHECK(s.mesh.far_ratio == 12.0);
@@ -186,7 +187,8 @@ membrane_capacitance = "2 uF/cm^2"
 TEST_CASE("case reader: defaults of a minimal fish case") {
     const CaseSpec s = read_case_text(kFish, "case.toml");
     CHECK(!s.frequency_Hz);
-    CHECK(!s.water.plane);
+    CHECK(!s.water.surface);
+    CHECK(!s.water.bottom);
     CHECK(!s.mesh.panel_size_m);
     CHECK(s.mesh.near_ratio == 3.0);
     CHECK(s.mesh.far_ratio == 10.0);
@@ -479,8 +481,8 @@ TEST_CASE("case reader: conflicts between parts") {
     check_error(kFish + "[robot]\nshape = \"sphere\"\n", "[robot]", "robot", "[fish] or [robot], not both");
     check_error("frequency = \"1 kHz\"\n" + kFish + "[signal]\nfrequency = \"2 kHz\"\n", "frequency = \"2",
                 "signal.frequency", "already given");
-    check_error(fish_with("[water]", "surface_z = \"1 m\"\nbottom_z = \"-1 m\""), "bottom_z", "water.bottom_z",
-                "only one insulating plane");
+    check_error(fish_with("[water]", "surface_z = \"-1 m\"\nbottom_z = \"1 m\""), "bottom_z", "water.bottom_z",
+                "must lie below the water surface");
     const std::string sphere = "shape = \"sphere\"\nradius = \"1 mm\"\nposition = [\"0 m\", \"1 m\", \"0 m\"]\n";
     check_error(kFish + "[[object]]\nname = \"a\"\n" + sphere + "conductivity = \"insulator\"\n" +
                     "[[object]]\nname = \"a\"\n" + sphere + "conductivity = \"insulator\"\n",
@@ -1164,4 +1166,40 @@ TEST_CASE("case reader: [detection] amplitude and phase channels") {
     // Without a frequency there is no phase to read.
     check_error(kFishPrey + "[sweep]\nsize = [\"1 mm\"]\n" + kReceptors + "channels = \"amplitude_and_phase\"\n"
                 "phase_noise = \"1 deg\"\n", "[detection]", "detection.channels", "the case has no frequency");
+}
+
+TEST_CASE("case reader: water between a surface and a bottom, and a sediment bottom") {
+    const CaseSpec s = read_case_text(
+        fish_with("[water]", "surface_z = \"10 cm\"\nbottom_z = \"-20 cm\"\nbottom_conductivity = \"20 uS/cm\"\n"
+                             "image_tolerance = 1e-8"),
+        "case.toml");
+    REQUIRE(s.water.surface);
+    REQUIRE(s.water.bottom);
+    CHECK(s.water.surface->height_m == doctest::Approx(0.1));
+    CHECK(s.water.bottom->height_m == doctest::Approx(-0.2));
+    CHECK(!s.water.bottom->water_below);
+    REQUIRE(s.water.bottom_conductivity_S_per_m);
+    CHECK(*s.water.bottom_conductivity_S_per_m == doctest::Approx(2e-3));
+    CHECK(s.water.image_tolerance == 1e-8);
+    CHECK(s.water.planes().size() == 2);
+    // the default tolerance
+    CHECK(read_case_text(fish_with("[water]", "surface_z = \"1 m\"\nbottom_z = \"-1 m\""), "case.toml")
+              .water.image_tolerance == 1e-6);
+
+    check_error(fish_with("[water]", "surface_z = \"-1 m\"\nbottom_z = \"1 m\""), "bottom_z", "water.bottom_z",
+                "must lie below the water surface");
+    check_error(fish_with("[water]", "surface_z = \"1 m\"\nbottom_z = \"1 m\""), "bottom_z", "water.bottom_z",
+                "must lie below the water surface");
+    check_error(fish_with("[water]", "bottom_z = \"-1 m\"\nbottom_conductivity = \"0 S/m\""), "bottom_conductivity",
+                "water.bottom_conductivity", "must be positive");
+    check_error(fish_with("[water]", "bottom_z = \"-1 m\"\nbottom_conductivity = \"-1 S/m\""), "bottom_conductivity",
+                "water.bottom_conductivity", "must be positive");
+    check_error(fish_with("[water]", "bottom_z = \"-1 m\"\nbottom_conductivity = \"inf S/m\""), "bottom_conductivity",
+                "water.bottom_conductivity", "");
+    check_error(fish_with("[water]", "bottom_conductivity = \"1 S/m\""), "bottom_conductivity",
+                "water.bottom_conductivity", "needs bottom_z");
+    check_error(fish_with("[water]", "surface_z = \"1 m\"\nimage_tolerance = 1e-6"), "image_tolerance",
+                "water.image_tolerance", "applies only to water between");
+    check_error(fish_with("[water]", "surface_z = \"1 m\"\nbottom_z = \"-1 m\"\nimage_tolerance = 0"),
+                "image_tolerance", "water.image_tolerance", "must lie between");
 }

@@ -5,7 +5,8 @@
 #include "geometry/internal_check.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
-#include "solver/coupled_solve.hpp"
+#include "solver/image_series.hpp"
+#include "solver//coupled_solve.hpp"
 
 #include <doctest/doctest.h>
 
@@ -146,7 +147,7 @@ TEST_CASE("the exact path handles electrodes, a conducting object, an insulator 
     robot.electrodes = {{"emitter", ElectrodeDrive::current, 1e-3},
                         {"return", ElectrodeDrive::voltage, 0.0},
                         {"sensor", ElectrodeDrive::floating, 0.0}};
-    robot.plane = InsulatingPlane{Vec3(0, 0, 0.1), Vec3::UnitZ()};
+    robot.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.1), Vec3::UnitZ()});
 
     SUBCASE("a perfectly conducting sphere (a floating electrode of its own)") {
         const FixedPart<double> fixed(robot, kQuad);

@@ -4,7 +4,8 @@
 // sphere moves away.
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
-#include "solver/coupled_solve.hpp"
+#include "solver/image_series.hpp"
+#include "solver//coupled_solve.hpp"
 #include "solver/dipole_path.hpp"
 #include "solver/incident_field.hpp"
 #include "solver/polarization.hpp"
@@ -66,7 +67,7 @@ TEST_CASE("a point dipole in the water: potential p.r/(4 pi r^3), its gradient, 
     CHECK(field.normal_derivative(x, n) == doctest::Approx(fd).epsilon(1e-7));
 
     SUBCASE("an insulating plane takes no current: the normal derivative vanishes on it") {
-        scene.plane = InsulatingPlane{Vec3(0, 0, 0.05), Vec3::UnitZ()};
+        scene.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.05), Vec3::UnitZ()});
         const IncidentField<double> bounded(scene, {});
         for (const Vec3& on : {Vec3(0, 0, 0.05), Vec3(0.03, -0.04, 0.05)}) {
             CHECK(std::abs(bounded.normal_derivative(on, Vec3::UnitZ())) <
@@ -130,7 +131,7 @@ TEST_CASE("lead fields by reciprocity give the readings of the blocked solve") {
                         {"return", ElectrodeDrive::voltage, 0.0},
                         {"sensor", ElectrodeDrive::floating, 0.0},
                         {"held", ElectrodeDrive::fixed_potential, 0.0}};
-    robot.plane = InsulatingPlane{Vec3(0, 0, 0.1), Vec3::UnitZ()};
+    robot.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.1), Vec3::UnitZ()});
     const FixedPart<double> fixed(robot, kQuad);
     // Readout: the floating sensor's potential, the held sensor's current.
     Eigen::MatrixXd readout = Eigen::MatrixXd::Zero(2, fixed.size());

@@ -107,3 +107,29 @@ TEST_CASE("membrane voltage at a frequency: direct-current value, capacitive rol
         CHECK(std::abs(membrane_voltage_at_frequency(E, R, g, C, s_in, s_out, w) - schwan) < 1e-12 * std::abs(schwan));
     }
 }
+
+TEST_CASE("the slab's Bessel-function series: symmetric, 1/r near the source, two-dimensional far away") {
+    const double h = 0.1;
+    // Reciprocity: the same for source and field point exchanged.
+    CHECK(insulating_slab_kernel(h, 0.03, 0.02, 0.07) == doctest::Approx(insulating_slab_kernel(h, 0.03, 0.07, 0.02)));
+    // Near the source it is 1/r plus a smooth part: K - 1/rho settles as rho falls
+    // (the images' potential at the source, finite).
+    const double z = 0.04;
+    const double a = insulating_slab_kernel(h, 1e-3 * h, z, z) - 1.0 / (1e-3 * h);
+    const double b = insulating_slab_kernel(h, 1e-4 * h, z, z) - 1.0 / (1e-4 * h);
+    CHECK(std::abs(a - b) < 1e-4 * std::abs(b));
+    // Far away (rho >> h) the current spreads in two dimensions: the difference
+    // between two distances is (2/h) ln(rho2/rho1) (the potential of a line source,
+    // any electrostatics text), the K0 modes having died out as exp(-pi rho/h).
+    const double far = insulating_slab_kernel(h, 2.0, 0.01, 0.09) - insulating_slab_kernel(h, 4.0, 0.03, 0.05);
+    CHECK(far == doctest::Approx(2.0 / h * std::log(2.0)).epsilon(1e-12));
+    // The method of images for one plane in the limit: near the lower plane and far
+    // from the upper, K tends to 1/r + 1/r' (Jackson 1999 §2.1) up to a constant
+    // and the distant plane's slowly varying part; compare differences at close range.
+    const double big = 10.0;
+    auto two_images = [](double rho, double z1, double z2) {
+        return 1.0 / std::hypot(rho, z1 - z2) + 1.0 / std::hypot(rho, z1 + z2);
+    };
+    const double slab = insulating_slab_kernel(big, 0.01, 0.01, 0.02) - insulating_slab_kernel(big, 0.02, 0.01, 0.02);
+    CHECK(slab == doctest::Approx(two_images(0.01, 0.01, 0.02) - two_images(0.02, 0.01, 0.02)).epsilon(1e-4));
+}

@@ -625,9 +625,10 @@ TEST_CASE("scene builder: everything must lie in the water") {
     text = kFish + sphere_object("stone", "[\"0 cm\", \"5 cm\", \"-3 cm\"]", "5 mm", "\"insulator\"");
     text.insert(text.find("[mesh]"), "bottom_z = \"-5 cm\"\n");
     const Scene<double> scene = build_scene<double>(spec_of(text), true);
-    REQUIRE(scene.plane);
-    CHECK(scene.plane->point.z() == doctest::Approx(-0.05));
-    CHECK(scene.plane->normal.z() == doctest::Approx(-1.0));
+    REQUIRE(scene.images.bounds.size() == 1);
+    CHECK(scene.images.terms.size() == 1);
+    CHECK(scene.images.bounds[0].point.z() == doctest::Approx(-0.05));
+    CHECK(scene.images.bounds[0].normal.z() == doctest::Approx(-1.0));
 }
 
 TEST_CASE("scene builder: panel sizes, imported meshes and accuracy switches") {
@@ -1216,4 +1217,43 @@ current = "1 mA"
     REQUIRE(cap.size() == 1);
     CHECK(cap[0].exact_m2 == doctest::Approx(M_PI * 4e-4).epsilon(1e-12));
     CHECK(std::abs(cap[0].mesh_m2 / (M_PI * 4e-4) - 1.0) < 1e-3);
+}
+
+TEST_CASE("scene builder: water between a surface and a bottom") {
+    // fish half height 11.7 mm about z = 0
+    std::string text = kFish;
+    text.insert(text.find("[mesh]"), "surface_z = \"5 cm\"\nbottom_z = \"-5 cm\"\n");
+    const Scene<double> scene = build_scene<double>(spec_of(text), true);
+    REQUIRE(scene.images.bounds.size() == 2);
+    CHECK(scene.images.terms.size() > 2);
+    CHECK(scene.images.tolerance == 1e-6);
+    CHECK(scene.images.reach >= 0.15);  // at least the fish's length
+    CHECK(scene.images.constant > 0.0);  // two insulating planes
+
+    // the bottom cutting the fish: refused naming the fish and the bottom
+    text = kFish;
+    text.insert(text.find("[mesh]"), "surface_z = \"5 cm\"\nbottom_z = \"-1 cm\"\n");
+    std::string m = build_error(text);
+    CAPTURE(m);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[fish]")) + ": fish: the fish reaches", 0) == 0);
+    CHECK(m.find("below the bottom") != std::string::npos);
+    CHECK(m.find('\n') == std::string::npos);
+    // an object crossing the surface, with a bottom too
+    text = kFish + sphere_object("float", "[\"0 cm\", \"5 cm\", \"4.8 cm\"]", "5 mm", "\"insulator\"");
+    text.insert(text.find("[mesh]"), "surface_z = \"5 cm\"\nbottom_z = \"-5 cm\"\nbottom_conductivity = \"50 uS/cm\"\n");
+    m = build_error(text);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[object]]")) + ": object[1]: object 'float'", 0) == 0);
+    CHECK(m.find("above the water surface") != std::string::npos);
+    // a source below a sediment bottom is not in the water
+    text = kFish + "[[source]]\nform = \"point\"\nposition = [\"0 cm\", \"5 cm\", \"-6 cm\"]\ncurrent = \"1 uA\"\n";
+    text.insert(text.find("[mesh]"), "surface_z = \"5 cm\"\nbottom_z = \"-5 cm\"\nbottom_conductivity = \"50 uS/cm\"\n");
+    m = build_error(text);
+    CHECK(m.rfind("case.toml:" + std::to_string(line_with(text, "[[source]]")) + ": source[1]:", 0) == 0);
+    CHECK(m.find("below the bottom") != std::string::npos);
+    // a sediment bottom alone: one image of weight r = (100 - 50) / (100 + 50)
+    text = kFish;
+    text.insert(text.find("[mesh]"), "bottom_z = \"-5 cm\"\nbottom_conductivity = \"50 uS/cm\"\n");
+    const Scene<double> sediment = build_scene<double>(spec_of(text), true);
+    REQUIRE(sediment.images.terms.size() == 1);
+    CHECK(sediment.images.terms[0].weight == doctest::Approx(1.0 / 3.0));
 }

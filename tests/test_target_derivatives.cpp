@@ -5,7 +5,8 @@
 // differences of exact solves of the meshed sphere moved by +-h.
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
-#include "solver/coupled_solve.hpp"
+#include "solver/image_series.hpp"
+#include "solver//coupled_solve.hpp"
 #include "solver/target_derivatives.hpp"
 
 #include <doctest/doctest.h>
@@ -35,7 +36,7 @@ Scene<double> robot_scene(bool with_plane) {
     }
     scene.surfaces.push_back(hull);
     scene.electrodes = {{"emitter", ElectrodeDrive::current, 1e-3}, {"return", ElectrodeDrive::voltage, 0.0}};
-    if (with_plane) scene.plane = InsulatingPlane{Vec3(0, 0, 0.06), Vec3::UnitZ()};
+    if (with_plane) scene.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.06), Vec3::UnitZ()});
     return scene;
 }
 
@@ -225,7 +226,7 @@ TEST_CASE("target derivatives: complex conductivities (a lossy dielectric target
     const Scene<double> real_scene = robot_scene(true);
     Scene<Complex> scene;
     scene.water_conductivity = real_scene.water_conductivity;
-    scene.plane = real_scene.plane;
+    scene.images = plane_images<Complex>(real_scene.images.bounds.at(0));
     Surface<Complex> hull;
     hull.mesh = real_scene.surfaces[0].mesh;
     hull.kind = InterfaceKind::sealed;

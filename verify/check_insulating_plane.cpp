@@ -3,6 +3,7 @@
 // plane and solved in unbounded water (method of images; Jackson 1999 §2.1-2.2).
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
+#include "solver/image_series.hpp"
 #include "verify/check_support.hpp"
 
 namespace murk {
@@ -29,12 +30,12 @@ void check_insulating_plane(const VerifyOptions& options, const std::function<vo
 
         Scene<double> imaged;
         imaged.water_conductivity = kWater;
-        imaged.plane = InsulatingPlane{plane_point, up};
+        imaged.images = plane_images<double>(InsulatingPlane{plane_point, up});
         imaged.surfaces.push_back(contact_surface<double>(sphere, kObject));
         imaged.sources.push_back({source, 1e-3});
 
         Scene<double> doubled = imaged;
-        doubled.plane.reset();
+        doubled.images = {};
         TriangleMesh twin = sphere;
         twin.name = "mirrored sphere";
         mirror(twin, plane_point, up);

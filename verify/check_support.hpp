@@ -59,6 +59,7 @@ void check_membrane_sphere(const VerifyOptions&, const std::function<void(CheckR
 void check_spheroids(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_reciprocity(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_insulating_plane(const VerifyOptions&, const std::function<void(CheckResult)>& add);
+void check_shallow_water(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_ring_pair_resistance(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_compressed_sphere(const VerifyOptions&, const std::function<void(CheckResult)>& add);
 void check_maxwell_wagner_sphere(const VerifyOptions&, const std::function<void(CheckResult)>& add);

@@ -55,3 +55,19 @@ double spheroid_axial_depolarization(double polar, double equatorial) {
 }
 
 }  // namespace murk::exact
+
+#include <boost/math/special_functions/bessel.hpp>
+
+namespace murk::exact {
+
+double insulating_slab_kernel(double h, double rho, double z, double z0) {
+    double sum = -std::log(rho);
+    for (int n = 1; n < 1000000; ++n) {
+        const double k = boost::math::cyl_bessel_k(0, n * M_PI * rho / h);
+        sum += 2.0 * std::cos(n * M_PI * z / h) * std::cos(n * M_PI * z0 / h) * k;
+        if (k < 1e-18 * std::abs(sum) + 1e-300) break;
+    }
+    return 2.0 / h * sum;
+}
+
+}  // namespace murk::exact

@@ -85,3 +85,17 @@ S ellipsoid_polarizability(double volume, double L, S sigma_in, S sigma_out) {
 }
 
 }  // namespace murk::exact
+
+namespace murk::exact {
+
+// 4 pi times the Green's function of a point source between two insulating
+// planes a depth h apart (a slab), at horizontal distance rho > 0, heights z and
+// z0 above the lower plane: (2/h) [-ln(rho) + 2 sum_n cos(n pi z/h) cos(n pi z0/h)
+// K0(n pi rho/h)], defined up to a constant. The eigenfunction expansion of the
+// Neumann problem across the layer (cosine modes) with each mode's
+// two-dimensional Green's function radially (Morse & Feshbach 1953, Methods of
+// Theoretical Physics, ch. 7; written here from memory). Converges like
+// exp(-pi rho / h) per term.
+double insulating_slab_kernel(double h, double rho, double z, double z0);
+
+}  // namespace murk::exact

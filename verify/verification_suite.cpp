@@ -19,6 +19,7 @@ std::vector<CheckResult> run_verification(const VerifyOptions& options,
     check_spheroids(options, add);
     check_reciprocity(options, add);
     check_insulating_plane(options, add);
+    check_shallow_water(options, add);
     check_ring_pair_resistance(options, add);
     check_compressed_sphere(options, add);
     return rows;

@@ -339,22 +339,38 @@ std::vector<std::string> concat(std::vector<std::string> a, const std::vector<st
 // ---- sections -------------------------------------------------------------
 
 WaterSpec read_water(const Section& sec) {
-    check_keys(sec, {"conductivity", "permittivity", "surface_z", "bottom_z"});
+    check_keys(sec, {"conductivity", "permittivity", "surface_z", "bottom_z", "bottom_conductivity", "image_tolerance"});
     WaterSpec w;
     w.source = source_line(sec);
     w.conductivity_S_per_m = required_positive(sec, "conductivity", Dimension::conductivity);
     w.permittivity_relative = optional_permittivity(sec, "permittivity");
-    const toml::node* surface = sec.find("surface_z");
-    const toml::node* bottom = sec.find("bottom_z");
-    if (surface && bottom)
-        fail(sec.where("bottom_z"), "only one insulating plane is supported; give surface_z or bottom_z, not both");
-    if (surface || bottom) {
-        const std::string key = surface ? "surface_z" : "bottom_z";
+    auto plane = [&](const std::string& key, bool water_below) -> std::optional<PlaneSpec> {
+        const toml::node* n = sec.find(key);
+        if (!n) return std::nullopt;
         PlaneSpec p;
-        p.height_m = read_quantity(sec, key, *sec.find(key), Dimension::length);
-        p.water_below = surface != nullptr;
-        p.source = SourceLine{printable(sec.ctx.file), line_of(*sec.find(key)), sec.key_path(key)};
-        w.plane = p;
+        p.height_m = read_quantity(sec, key, *n, Dimension::length);
+        p.water_below = water_below;
+        p.source = SourceLine{printable(sec.ctx.file), line_of(*n), sec.key_path(key)};
+        return p;
+    };
+    w.surface = plane("surface_z", true);
+    w.bottom = plane("bottom_z", false);
+    if (w.surface && w.bottom && !(w.surface->height_m > w.bottom->height_m))
+        fail(sec.where("bottom_z"), "the bottom at z = " + format_number(w.bottom->height_m) +
+                                        " m must lie below the water surface at z = " +
+                                        format_number(w.surface->height_m) + " m (surface_z)");
+    if (const toml::node* n = sec.find("bottom_conductivity")) {
+        if (!w.bottom) fail(sec.where("bottom_conductivity"), "needs bottom_z: the bottom it belongs to");
+        w.bottom_conductivity_S_per_m = positive_quantity(sec, "bottom_conductivity", *n, Dimension::conductivity);
+        w.bottom_conductivity_source = SourceLine{printable(sec.ctx.file), line_of(*n), sec.key_path("bottom_conductivity")};
+    }
+    if (const toml::node* n = sec.find("image_tolerance")) {
+        if (!w.surface || !w.bottom)
+            fail(sec.where("image_tolerance"), "applies only to water between surface_z and bottom_z (an image series)");
+        w.image_tolerance = read_quantity(sec, "image_tolerance", *n, Dimension::dimensionless);
+        if (!(w.image_tolerance >= 1e-12 && w.image_tolerance <= 0.1))
+            fail(sec.where("image_tolerance"), "must lie between 1e-12 and 0.1, got " + describe(*n));
+        w.image_tolerance_source = SourceLine{printable(sec.ctx.file), line_of(*n), sec.key_path("image_tolerance")};
     }
     return w;
 }

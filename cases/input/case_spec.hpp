@@ -48,11 +48,26 @@ struct PlaneSpec {
     SourceLine source;
 };
 
+// The water's bounds: an insulating surface, a bottom (insulating, or of finite
+// conductivity: a sediment), or both (shallow water: an image series truncated
+// at image_tolerance, solver/image_series.hpp).
 struct WaterSpec {
     double conductivity_S_per_m = 0.0;
     std::optional<double> permittivity_relative;  // 1; only matters with a frequency
-    std::optional<PlaneSpec> plane;
+    std::optional<PlaneSpec> surface;             // [water] surface_z
+    std::optional<PlaneSpec> bottom;              // [water] bottom_z
+    std::optional<double> bottom_conductivity_S_per_m;  // none: an insulating bottom
+    SourceLine bottom_conductivity_source;
+    double image_tolerance = 1e-6;  // relative truncation error of the two-plane image series
+    SourceLine image_tolerance_source;
     SourceLine source;
+    // The planes given, surface first.
+    std::vector<PlaneSpec> planes() const {
+        std::vector<PlaneSpec> out;
+        if (surface) out.push_back(*surface);
+        if (bottom) out.push_back(*bottom);
+        return out;
+    }
 };
 
 // A refinement zone of [[mesh.zone]]: a ball in which the sensing body's panels

@@ -7,7 +7,7 @@
 namespace murk {
 
 SensitivityMap::SensitivityMap(const FixedPart<double>& fixed, const Eigen::MatrixXd& readout)
-    : rows_(fixed.water_row_points()), plane_(fixed.scene().plane) {
+    : rows_(fixed.water_row_points()), images_(fixed.scene().images) {
     MURK_CHECK(readout.cols() == fixed.size(), "a readout row acts on the fixed part's unknowns");
     const Eigen::MatrixXd lt = fixed.solve_transposed(readout.transpose());  // A^-T R^T: unknowns x readings
     leads_.resize(readout.rows(), static_cast<Eigen::Index>(fixed.water_rows().size()));
@@ -22,9 +22,9 @@ namespace {
 constexpr Eigen::Index kBlock = 64;
 
 // Potential at the rows of unit dipoles along x, y, z at each point of the block:
-// column 3 j + k. With a plane, the image dipole: mirrored position, moment reflected.
+// column 3 j + k. With images of the water's bounds, each image dipole: at T^-1 c, moment w L^T e_k.
 void unit_dipole_potentials(const Eigen::Matrix3Xd& rows, const Eigen::Matrix3Xd& points, Eigen::Index first,
-                            Eigen::Index count, const std::optional<InsulatingPlane>& plane, Eigen::MatrixXd& phi) {
+                            Eigen::Index count, const ImageSeries<double>& images, Eigen::MatrixXd& phi) {
     constexpr double k4pi = 1.0 / (4.0 * M_PI);
     phi.resize(rows.cols(), 3 * count);
     for (Eigen::Index j = 0; j < count; ++j) {
@@ -37,16 +37,15 @@ void unit_dipole_potentials(const Eigen::Matrix3Xd& rows, const Eigen::Matrix3Xd
             phi(i, 3 * j + 1) = dy * w;
             phi(i, 3 * j + 2) = dz * w;
         }
-        if (!plane) continue;
-        const Eigen::Vector3d n = plane->normal;
-        const Eigen::Vector3d image = c - 2.0 * (c - plane->point).dot(n) * n;
-        // The image of a unit moment e_k is e_k - 2 n_k n; its potential is linear in the moment.
-        for (Eigen::Index i = 0; i < rows.cols(); ++i) {
-            const Eigen::Vector3d r = rows.col(i) - image;
-            const double r2 = r.squaredNorm();
-            const Eigen::Vector3d g = r * (k4pi / (r2 * std::sqrt(r2)));
-            const double gn = g.dot(n);
-            for (int k = 0; k < 3; ++k) phi(i, 3 * j + k) += g(k) - 2.0 * n(k) * gn;
+        for (const FieldImage<double>& t : images.terms) {
+            const Eigen::Vector3d image = t.source_of(c);
+            // The potential of the image of e_k is w g . (L^T e_k) = w (L g)_k.
+            for (Eigen::Index i = 0; i < rows.cols(); ++i) {
+                const Eigen::Vector3d r = rows.col(i) - image;
+                const double r2 = r.squaredNorm();
+                const Eigen::Vector3d g = t.linear * (r * (t.weight * k4pi / (r2 * std::sqrt(r2))));
+                for (int k = 0; k < 3; ++k) phi(i, 3 * j + k) += g(k);
+            }
         }
     }
 }
@@ -63,7 +62,7 @@ Eigen::MatrixXd SensitivityMap::at(const Eigen::Matrix3Xd& points) const {
 #pragma omp for schedule(dynamic, 4)
         for (Eigen::Index b = 0; b < blocks; ++b) {
             const Eigen::Index first = b * kBlock, count = std::min(kBlock, n - first);
-            unit_dipole_potentials(rows_, points, first, count, plane_, phi);
+            unit_dipole_potentials(rows_, points, first, count, images_, phi);
             out.middleCols(3 * first, 3 * count).noalias() = leads_ * phi;
         }
     }

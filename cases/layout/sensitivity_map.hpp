@@ -36,7 +36,7 @@ public:
 private:
     Eigen::MatrixXd leads_;
     Eigen::Matrix3Xd rows_;
-    std::optional<InsulatingPlane> plane_;
+    ImageSeries<double> images_;
 };
 
 }  // namespace murk

@@ -50,9 +50,9 @@ std::vector<std::uint8_t> blocked_points(const TargetGrid& grid, const Scene<dou
             if (index.contains(x) || index.distance_to(x) < gap) blocked[static_cast<std::size_t>(k)] = 1;
         }
     }
-    if (scene.plane)
+    for (const BoundingPlane& plane : scene.images.bounds)
         for (Eigen::Index k = 0; k < grid.points.cols(); ++k)
-            if (-(grid.points.col(k) - scene.plane->point).dot(scene.plane->normal) < reach)
+            if (-(grid.points.col(k) - plane.point).dot(plane.normal) < reach)
                 blocked[static_cast<std::size_t>(k)] = 1;
     return blocked;
 }

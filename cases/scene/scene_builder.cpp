@@ -15,6 +15,7 @@
 #include "geometry/transform.hpp"
 #include "geometry/triangle_distance.hpp"
 #include "geometry/zone_refinement.hpp"
+#include "solver/image_series.hpp"
 
 #include <algorithm>
 #include <cassert>
@@ -503,12 +504,13 @@ struct PointClearance {
 // a surface other than the fish, or closer to a surface than a quarter of its
 // panel size (where piecewise-constant panel values are not accurate).
 // `where` is "file:line: key", `what` names the point in words.
-void require_free_point(const std::vector<PointClearance>& parts, const std::optional<PlaneSpec>& plane,
+void require_free_point(const std::vector<PointClearance>& parts, const std::vector<PlaneSpec>& planes,
                         const Vec3& x, const std::string& where, const std::string& what, const std::string& allowed) {
     const std::string head = where + ": " + what + " at " + format_point(x);
-    if (plane && (plane->water_below ? x.z() > plane->height_m : x.z() < plane->height_m))
-        throw InputError(head + " lies " + (plane->water_below ? "above the water surface" : "below the bottom") +
-                         " at z = " + format_length(plane->height_m) + " (" + plane->source.key + "); " + allowed);
+    for (const PlaneSpec& plane : planes)
+        if (plane.water_below ? x.z() > plane.height_m : x.z() < plane.height_m)
+            throw InputError(head + " lies " + (plane.water_below ? "above the water surface" : "below the bottom") +
+                             " at z = " + format_length(plane.height_m) + " (" + plane.source.key + "); " + allowed);
     for (const PointClearance& c : parts) {
         if (!bg::covered_by(to_bg(x), c.box)) continue;
         if (!c.part->may_enclose && contains_point(*c.part->mesh, x))
@@ -536,7 +538,7 @@ void add_free_sources(Scene<S>& scene, const CaseSpec& spec, const std::vector<P
             const std::string what = src.form == SourceForm::point
                                          ? std::string("the source")
                                          : "source point " + std::to_string(k + 1) + " of " + std::to_string(points.size());
-            require_free_point(parts, spec.water.plane, points[k].position, src.source.where(), what,
+            require_free_point(parts, spec.water.planes(), points[k].position, src.source.where(), what,
                                "a source may lie in the water or inside the fish");
             scene.sources.push_back(PointSource<S>{points[k].position, S(points[k].current)});
         }
@@ -552,7 +554,7 @@ void check_probes(const Scene<S>& scene, const CaseSpec& spec, const std::vector
         const std::string what =
             "probe " + in_quotes(probe.name) + (probe.form == ProbeForm::point ? "" : " point " + pt.label);
         const Vec3 x = to_vec(pt.position_m);
-        require_free_point(parts, spec.water.plane, x, probe.source.where(), what,
+        require_free_point(parts, spec.water.planes(), x, probe.source.where(), what,
                            "a probe may lie in the water or inside the fish");
         for (const PointSource<S>& src : scene.sources)
             if ((src.position - x).norm() < kCoincidentDistance)
@@ -711,6 +713,49 @@ QuadratureOptions quadrature_options(const CaseSpec& spec) {
 
 SolverOptions solver_options(const CaseSpec& spec) { return spec.mesh.solver; }
 
+double horizontal_reach(const CaseSpec& spec, const TriangleMesh* body) {
+    double lo[2] = {std::numeric_limits<double>::infinity(), std::numeric_limits<double>::infinity()};
+    double hi[2] = {-lo[0], -lo[1]};
+    auto extend = [&](double x, double y, double by) {
+        lo[0] = std::min(lo[0], x - by), lo[1] = std::min(lo[1], y - by);
+        hi[0] = std::max(hi[0], x + by), hi[1] = std::max(hi[1], y + by);
+    };
+    if (body)
+        for (const Vec3& v : body->vertices) extend(v.x(), v.y(), 0.0);
+    for (const ObjectSpec& o : spec.objects) {
+        const ShapeSpec& s = o.shape;
+        const double size = std::max({s.radius_m, 0.5 * s.overall_length_m, s.semi_axes_m[0], s.semi_axes_m[1],
+                                      s.semi_axes_m[2], 0.5 * std::hypot(s.size_m[0], s.size_m[1], s.size_m[2])});
+        extend(o.position_m[0], o.position_m[1], size);
+    }
+    for (const SourceSpec& src : spec.sources)
+        for (const PointSource<double>& p : source_points(src)) extend(p.position.x(), p.position.y(), 0.0);
+    for (const ProbePoint& p : spec.probe_points) extend(p.position_m[0], p.position_m[1], 0.0);
+    return lo[0] > hi[0] ? 0.0 : std::hypot(hi[0] - lo[0], hi[1] - lo[1]);
+}
+
+template <class S>
+ImageSeries<S> water_images(const CaseSpec& spec, const Scene<S>& scene) {
+    const WaterSpec& w = spec.water;
+    const bool body = spec.fish || spec.robot;
+    WaterLayer layer;
+    if (w.surface) layer.surface_z = w.surface->height_m;
+    if (w.bottom) layer.bottom_z = w.bottom->height_m;
+    layer.tolerance = w.image_tolerance;
+    layer.reach = horizontal_reach(spec, body && !scene.surfaces.empty() ? &scene.surfaces[0].mesh : nullptr);
+    const S r = w.bottom_conductivity_S_per_m
+                    ? reflection_coefficient(scene.water_conductivity, S(*w.bottom_conductivity_S_per_m))
+                    : S(1);
+    const SourceLine& at = w.bottom_conductivity_S_per_m ? w.bottom_conductivity_source
+                           : w.image_tolerance_source.line > 0 ? w.image_tolerance_source
+                           : w.bottom ? w.bottom->source
+                                      : w.surface->source;
+    return with_place(at.where(), [&] { return layer_images(layer, r); });
+}
+
+template ImageSeries<double> water_images(const CaseSpec&, const Scene<double>&);
+template ImageSeries<Complex> water_images(const CaseSpec&, const Scene<Complex>&);
+
 template <class S>
 Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     if constexpr (std::is_same_v<S, double>) {
@@ -723,12 +768,6 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     const double omega = angular_frequency(spec);
     Scene<S> scene;
     scene.water_conductivity = water_admittivity<S>(spec, spec.water.conductivity_S_per_m);
-    if (spec.water.plane) {
-        InsulatingPlane plane;
-        plane.point = Vec3(0.0, 0.0, spec.water.plane->height_m);
-        plane.normal = Vec3(0.0, 0.0, spec.water.plane->water_below ? 1.0 : -1.0);
-        scene.plane = plane;
-    }
 
     if (spec.fish) {
         add_fish(scene, spec, omega, default_panel_size(spec, nullptr));
@@ -769,13 +808,14 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     for (std::size_t i = bodies; i < scene.surfaces.size(); ++i)
         parts.push_back({&scene.surfaces[i].mesh, spec.objects[i - bodies].source,
                          "object " + in_quotes(spec.objects[i - bodies].name), false});
-    if (spec.water.plane)
-        for (const Part& p : parts) require_in_water(p, *spec.water.plane);
+    for (const PlaneSpec& plane : spec.water.planes())
+        for (const Part& p : parts) require_in_water(p, plane);
     require_apart(parts);
 
     const std::vector<PointClearance> clearance = prepare_clearance(parts);
     add_free_sources(scene, spec, clearance);
     check_probes(scene, spec, clearance);
+    if (!spec.water.planes().empty()) scene.images = water_images<S>(spec, scene);
     return scene;
 }
 

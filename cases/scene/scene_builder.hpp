@@ -43,6 +43,18 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects);
 extern template Scene<double> build_scene<double>(const CaseSpec&, bool);
 extern template Scene<Complex> build_scene<Complex>(const CaseSpec&, bool);
 
+// The images of the water's bounds (Scene::images): one plane exactly; surface
+// and bottom as a series truncated at [water] image_tolerance over the scene's
+// horizontal reach (horizontal_reach); a bottom of [water] bottom_conductivity
+// weighted by its reflection coefficient against the water's admittivity (the
+// bottom's own permittivity is not modelled). InputError names the [water] key.
+template <class S>
+ImageSeries<S> water_images(const CaseSpec& spec, const Scene<S>& scene);
+// The horizontal diameter (m) of what the case places: the body's mesh, each
+// object at its case position (a ball of its largest dimension), sources and
+// probe points. Sweep grids and layout targets are not included.
+double horizontal_reach(const CaseSpec& spec, const TriangleMesh* body);
+
 // The pieces build_scene makes an object from, for a sweep that builds an object
 // once and moves it. object_mesh: the object's mesh (shape, panel size,
 // orientation, position), checked valid (InputError naming the object's table).

@@ -2,6 +2,8 @@
 // objects, and with them), assemble, solve, write, summarize.
 #include "cases/solve/solve_run.hpp"
 
+#include "cases/output/image_attributes.hpp"
+
 #include "cases/output/result_metadata.hpp"
 #include "cases/output/solver_attributes.hpp"
 #include "cases/output/stop_request.hpp"
@@ -218,6 +220,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     if (!options.quiet) {
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
                     quad.near_ratio, quad.far_ratio);
+        std::printf("water bounds: %s\n", water_bounds_text(water_bounds_summary(solved.perturbed.images)).c_str());
         std::printf("system solver: %s\n",
                     solver_choice_text(solver, std::size_t(system_layout(solved.perturbed).size)).c_str());
     }
@@ -247,6 +250,7 @@ void write_solved(const CaseSpec& spec, const SolveOptions& options, const Solve
     H5Output output(options.output_path, options.force, "pass --force to replace it");
     write_result_metadata(output.root(), spec, options.command_line,
                           "full boundary-element solve: flat panels, piecewise-constant values, collocation", quad);
+    write_image_attributes(output.root(), water_bounds_summary(solved.perturbed.images));
     write_solve_result(output.root(), solved);
     write_solver_used(output.root().group("baseline"), base_used);
     write_solver_used(output.root().group("perturbed"), pert_used);

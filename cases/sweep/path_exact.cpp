@@ -36,9 +36,9 @@ public:
             scenes.push_back(point_scene(c_, p));
             const Scene<S>& scene = scenes.back();
             const std::size_t moving = scene.surfaces.size() - 1;
-            // The object's own block moves with it, unless a plane's images move
-            // differently: then it is the point's own.
-            blocks.push_back(scene.plane
+            // The object's own block moves with it, unless images of the water's
+            // bounds move differently: then it is the point's own.
+            blocks.push_back(scene.images.has_terms()
                                  ? std::make_shared<const MovingBlock<S>>(factor_moving_block(scene, {moving}, c_.quad))
                                  : c_.objects->block(*p.object, c_.quad));
             problems.push_back({&scene, {moving}, blocks.back().get()});

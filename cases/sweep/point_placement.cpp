@@ -62,7 +62,7 @@ void require_resolvable(const TriangleMesh& object, const Vec3& at, const std::s
 }  // namespace
 
 PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed)
-    : plan_(&plan), has_body_(spec.fish || spec.robot), plane_(spec.water.plane) {
+    : plan_(&plan), has_body_(spec.fish || spec.robot), planes_(spec.water.planes()) {
     for (TriangleMesh& m : fixed) fixed_.emplace_back(std::move(m));
     for (const SourceSpec& src : spec.sources)
         for (const auto& p : source_points(src)) free_points_.push_back(p.position);
@@ -127,8 +127,8 @@ MaskReason PointPlacement::check(const TriangleMesh& object) const {
         if (box_inside(object, f.box()) && f.contains(object.corner(0, 0))) return reason;
         if (box_inside(f.mesh(), mesh_box(object)) && contains_point(object, f.mesh().corner(0, 0))) return reason;
     }
-    if (plane_ && reach_beyond_plane(object, *plane_) > -kMinGapInPanels * typical_edge(object))
-        return MaskReason::beyond_plane;
+    for (const PlaneSpec& plane : planes_)
+        if (reach_beyond_plane(object, plane) > -kMinGapInPanels * typical_edge(object)) return MaskReason::beyond_plane;
     if (!free_points_.empty()) {
         const double depth = kMinSourceDepthInPanels * typical_edge(object);
         const SurfaceIndex index(object);

@@ -51,7 +51,7 @@ private:
     const SweepPlan* plan_;
     std::vector<SurfaceIndex> fixed_;  // body first when has_body_
     bool has_body_ = false;
-    std::optional<PlaneSpec> plane_;
+    std::vector<PlaneSpec> planes_;  // the water surface and bottom given
     std::vector<Vec3> free_points_;    // [[source]] points and probe points
     Vec3 reference_point_ = Vec3::Zero();  // without a body: the first source point
     std::vector<Vec3> start_;          // per moving object: its position in the case

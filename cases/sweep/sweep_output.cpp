@@ -1,5 +1,6 @@
 #include "cases/sweep/sweep_output.hpp"
 
+#include "cases/output/image_attributes.hpp"
 #include "cases/output/coordinates.hpp"
 #include "cases/output/result_layout.hpp"
 #include "cases/output/result_metadata.hpp"
@@ -95,6 +96,10 @@ void SweepFile<S>::create_datasets() {
     H5Group root = output_->root();
     write_result_metadata(root, spec, options_.command_line, method_description(plan.sweep.method),
                           quadrature_options(spec));
+    // The water's bounds: the first water's images (with a sediment bottom and a
+    // water axis each water has its own reflection coefficient, and may need
+    // another count of images for the same tolerance).
+    if (!base.waters.empty()) write_image_attributes(root, water_bounds_summary(base.waters.front().scene().images));
     root.set_attribute("sweep_method", std::string(method_name(plan.sweep.method)));
     if (plan.sweep.method != SweepMethod::full) root.set_attribute("coupling_tolerance", plan.sweep.coupling_tolerance);
     if (plan.sweep.method == SweepMethod::automatic) root.set_attribute("dipole_accuracy", plan.sweep.dipole_accuracy);

@@ -9,6 +9,7 @@
 // up by the words of cases/output/result_layout.hpp, never by numbers written in here.
 // Anything the layout requires that is missing or malformed is an InputError naming the
 // file and the dataset, never a guess.
+#include "cases/output/image_attributes.hpp"
 #include "cases/output/hdf5_file.hpp"
 #include "cases/output/result_layout.hpp"
 #include "geometry/input_error.hpp"
@@ -241,6 +242,14 @@ void print_header(const H5File& file, const H5Group& root) {
             line += format(", compression_tolerance %g, iteration_tolerance %g",
                            root.double_attribute("compression_tolerance"), root.double_attribute("iteration_tolerance"));
         std::printf("  system solver:  %s\n", line.c_str());
+    }
+    if (root.has_attribute("water_images")) {  // files written before murk recorded the water's bounds have none
+        WaterBoundsSummary w;
+        w.planes = static_cast<int>(root.int_attribute("water_planes"));
+        w.images = static_cast<int>(root.int_attribute("water_images"));
+        w.tolerance = root.double_attribute("water_image_tolerance");
+        w.reach_m = root.double_attribute("water_image_reach_m");
+        std::printf("  water bounds:   %s\n", water_bounds_text(w).c_str());
     }
 }
 
