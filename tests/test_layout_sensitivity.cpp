@@ -117,6 +117,10 @@ TEST_CASE("layout sensitivity: reciprocity equals direct dipole solves (held cur
     check_reciprocity(hull_case("surface_z = \"10 cm\"\n", kHeld));
 }
 
+TEST_CASE("layout sensitivity: reciprocity equals direct dipole solves (held currents, surface and bottom)") {
+    check_reciprocity(hull_case("surface_z = \"10 cm\"\nbottom_z = \"-8 cm\"\n", kHeld));
+}
+
 TEST_CASE("layout readout: baseline readings equal the solved electrode values") {
     const CaseSpec spec = read_case_text(hull_case("", kReference + kHeld), "case.toml");
     for (std::size_t l = 0; l < 2; ++l) {

@@ -21,7 +21,9 @@ const QuadratureOptions kQuad{};
 
 // A small robot: a sealed box hull, a current-driven emitter at +x and a
 // grounded return at -x (two electrodes).
-Scene<double> robot_scene(bool with_plane) {
+// planes: 0 unbounded water, 1 an insulating surface, 2 a surface and a bottom
+// (an image series: solver/image_series.hpp).
+Scene<double> robot_scene(int planes) {
     Scene<double> scene;
     scene.water_conductivity = 0.05;
     Surface<double> hull;
@@ -36,7 +38,12 @@ Scene<double> robot_scene(bool with_plane) {
     }
     scene.surfaces.push_back(hull);
     scene.electrodes = {{"emitter", ElectrodeDrive::current, 1e-3}, {"return", ElectrodeDrive::voltage, 0.0}};
-    if (with_plane) scene.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.06), Vec3::UnitZ()});
+    if (planes == 1) scene.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.06), Vec3::UnitZ()});
+    if (planes == 2) {
+        WaterLayer layer;
+        layer.surface_z = 0.06, layer.bottom_z = -0.07, layer.reach = 0.15;
+        scene.images = layer_images(layer, 1.0);
+    }
     return scene;
 }
 
@@ -90,8 +97,11 @@ Surface<double> sphere(const Vec3& centre, double radius, double conductivity) {
 }  // namespace
 
 TEST_CASE("target derivatives: closed form against finite differences of the same dipole model") {
-    // With an insulating plane, so the image's derivatives are checked too.
-    const FixedPart<double> fixed(robot_scene(true), kQuad);
+    // With an insulating plane, or a surface and a bottom, so the images' derivatives are checked too.
+    int planes = 1;
+    SUBCASE("one plane") { planes = 1; }
+    SUBCASE("surface and bottom") { planes = 2; }
+    const FixedPart<double> fixed(robot_scene(planes), kQuad);
     const LeadFields<double> lead(fixed, readout_of(fixed));
     const double a = 0.003, sigma = 0.5, sigma_w = 0.05;
     const Eigen::Vector3d axes(a, a, a);
@@ -138,7 +148,10 @@ TEST_CASE("target derivatives: closed form against finite differences of the sam
 }
 
 TEST_CASE("target derivatives: the baseline field and its gradient by the point rule against field_at") {
-    const FixedPart<double> fixed(robot_scene(true), kQuad);
+    int planes = 1;
+    SUBCASE("one plane") { planes = 1; }
+    SUBCASE("surface and bottom") { planes = 2; }
+    const FixedPart<double> fixed(robot_scene(planes), kQuad);
     for (const Vec3& x : {Vec3(0.01, 0.045, 0.005), Vec3(-0.02, 0.035, 0.035), Vec3(0.0, 0.0, -0.05)}) {
         CAPTURE(x.transpose());
         const BaselineFieldGradient<double> g = baseline_field_gradient(fixed, one_point(x));
@@ -177,7 +190,7 @@ TEST_CASE("target derivatives: the dipole model's gradient against finite differ
     // twice as large, so the tolerance is 2 x 0.12 a/r, plus 1 % for the finite
     // differences (h = 2 % of r: truncation ~5 (h/r)^2 = 0.2 %) and for the
     // quadrature of the baseline field near the hull.
-    const FixedPart<double> fixed(robot_scene(false), kQuad);
+    const FixedPart<double> fixed(robot_scene(0), kQuad);
     const Eigen::MatrixXd readout = readout_of(fixed);
     const LeadFields<double> lead(fixed, readout);
     const double a = 0.003, sigma = 0.5;
@@ -223,7 +236,7 @@ TEST_CASE("target derivatives: the dipole model's gradient against finite differ
 TEST_CASE("target derivatives: complex conductivities (a lossy dielectric target)") {
     // The complex instantiation: with real inputs it equals the real one; with a
     // target of complex conductivity its gradient matches finite differences.
-    const Scene<double> real_scene = robot_scene(true);
+    const Scene<double> real_scene = robot_scene(1);
     Scene<Complex> scene;
     scene.water_conductivity = real_scene.water_conductivity;
     scene.images = plane_images<Complex>(real_scene.images.bounds.at(0));

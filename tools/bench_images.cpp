@@ -60,7 +60,7 @@ int main(int argc, char** argv) {
         {"surface + insulating bottom, 6 cm deep", layer_images(layer, 1.0)},
         {"surface + sediment bottom (r = 0.5)", layer_images(layer, 0.5)},
     };
-    std::printf("dense assembly of a %zu-panel membrane ellipsoid (15 x 2.4 x 3 cm), one thread per OpenMP setting\n",
+    std::printf("dense assembly of a %zu-panel membrane ellipsoid (15 x 2.4 x 3 cm), threads as OMP_NUM_THREADS\n",
                 body.mesh.size());
     std::printf("  %-40s %7s %9s %12s %8s\n", "water", "images", "unknowns", "assembly s", "ratio");
     double base = 0.0;
