@@ -68,7 +68,7 @@ void check_maxwell_wagner_sphere(const VerifyOptions& options, const std::functi
         amplitude.name = std::string("Maxwell-Wagner sphere, ") + at + ", |K|";
         amplitude.source = "Morgan & Green 2003, Maxwell-Wagner relaxation";
         amplitude.quantity = "|dipole factor K|";
-        amplitude.tolerance = options.quick ? 0.03 : 0.01;
+        amplitude.tolerance = options.quick ? 0.01 : 0.005;
         add(refine(amplitude, options, [&](int level) {
             LevelValue v;
             v.computed = std::abs(factor_at(level, omega, v.panels));
@@ -80,7 +80,7 @@ void check_maxwell_wagner_sphere(const VerifyOptions& options, const std::functi
         phase.name = std::string("Maxwell-Wagner sphere, ") + at + ", arg K (rad)";
         phase.quantity = "phase of K (rad)";
         phase.absolute = true;
-        phase.tolerance = options.quick ? 0.03 : 0.01;  // rad
+        phase.tolerance = options.quick ? 0.01 : 0.005;  // rad
         add(refine(phase, options, [&](int level) {
             LevelValue v;
             v.computed = std::arg(factor_at(level, omega, v.panels));

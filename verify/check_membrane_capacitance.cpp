@@ -75,7 +75,7 @@ void check_membrane_capacitance(const VerifyOptions& options, const std::functio
         amplitude.name = std::string("membrane sphere with C_m, ") + at + ", |dV|";
         amplitude.source = "Grosse & Schwan 1992, Schwan eq. with C_m, g_m";
         amplitude.quantity = "amplitude of dV cos(theta) (V)";
-        amplitude.tolerance = options.quick ? 0.03 : 0.01;
+        amplitude.tolerance = options.quick ? 0.01 : 0.005;
         add(refine(amplitude, options, [&](int level) {
             LevelValue v;
             v.computed = std::abs(amplitude_at(level, omega, v.panels));
@@ -87,7 +87,7 @@ void check_membrane_capacitance(const VerifyOptions& options, const std::functio
         phase.name = std::string("membrane sphere with C_m, ") + at + ", arg dV";
         phase.quantity = "phase of dV (rad)";
         phase.absolute = true;
-        phase.tolerance = options.quick ? 0.03 : 0.01;  // rad
+        phase.tolerance = options.quick ? 0.01 : 0.005;  // rad
         add(refine(phase, options, [&](int level) {
             LevelValue v;
             v.computed = std::arg(amplitude_at(level, omega, v.panels));
