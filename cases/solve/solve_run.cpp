@@ -15,6 +15,7 @@
 #include "solver/fixed_part.hpp"
 #include "solver/memory_budget.hpp"
 #include "solver/system_cost.hpp"
+#include "solver/tank.hpp"
 
 #include <chrono>
 #include <cmath>
@@ -220,6 +221,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
                     quad.near_ratio, quad.far_ratio);
         std::printf("system solver: %s\n",
                     solver_choice_text(solver, std::size_t(system_layout(solved.perturbed).size)).c_str());
+        if (spec.tank) std::printf("reference: %s (closed insulating tank)\n", tank_reference_text());
     }
 
     StageTimes base, pert;
