@@ -1,7 +1,9 @@
 // A tank: closed insulating walls around the water (solver/tank.hpp), checked
 // against exact solutions of the interior Neumann problem and against open water
 // and the insulating plane's image solution as the tank grows.
+#include "geometry/cylinder_mesh.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/mesh_quality.hpp"
 #include "geometry/shapes.hpp"
 #include "geometry/transform.hpp"
 #include "solver/coupled_solve.hpp"
@@ -312,4 +314,25 @@ TEST_CASE("the tank's one-time cost: the fixed part with and without it (printed
                                         << " s, LU " << open.factor_seconds() << " s");
     MESSAGE("fixed part with tank (" << walls.size() << " wall panels): " << closed.size() << " unknowns, assembly "
                                      << closed.assembly_seconds() << " s, LU " << closed.factor_seconds() << " s");
+}
+
+TEST_CASE("a cylindrical tank's walls: closed, valid, outward, the volume of the inscribed polygon") {
+    const double radius = 0.2, height = 0.15, edge = 0.03;
+    const TriangleMesh m = make_cylinder(radius, height, edge);
+    CHECK_NOTHROW(require_valid_mesh(m, "cylinder"));
+    // The side's vertices lie on the circle, so the mesh encloses the prism on the
+    // inscribed n-gon: n/2 sin(2 pi/n) r^2 h (elementary geometry), below pi r^2 h.
+    int around = 0;
+    for (const Vec3& v : m.vertices)
+        if (std::abs(v.z() + 0.5 * height) < 1e-12 && std::abs(Eigen::Vector2d(v.x(), v.y()).norm() - radius) < 1e-12)
+            ++around;
+    const double polygon = 0.5 * around * std::sin(2 * M_PI / around) * radius * radius * height;
+    CHECK(mesh_volume(m) == doctest::Approx(polygon).epsilon(1e-12));
+    CHECK(polygon < M_PI * radius * radius * height);
+    CHECK(around >= int(2 * M_PI * radius / edge));
+    double longest = 0;
+    for (std::size_t t = 0; t < m.size(); ++t)
+        for (int k = 0; k < 3; ++k) longest = std::max(longest, (m.corner(t, k) - m.corner(t, (k + 1) % 3)).norm());
+    MESSAGE("cylinder: " << m.size() << " panels, longest edge " << longest << " m for a target of " << edge << " m");
+    CHECK(longest < 2.0 * edge);
 }
