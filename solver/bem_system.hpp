@@ -35,6 +35,10 @@ struct SystemLayout {
     };
     std::vector<Block> surfaces;
     Eigen::Index electrode_offset = 0;  // one unknown / row per electrode from here
+    // With a tank, the last unknown and row (solver/tank.hpp): the row sets the
+    // reference (mean water-side potential over the tank walls is zero), the
+    // unknown borders the otherwise singular system. -1 without a tank.
+    Eigen::Index reference = -1;
     Eigen::Index size = 0;
 };
 

@@ -8,6 +8,7 @@
 #include "solver/incident_field.hpp"
 #include "solver/layer_blocks.hpp"
 #include "solver/panel_set.hpp"
+#include "solver/tank.hpp"
 #include "solver/triangle_integrals.hpp"
 
 #include <Eigen/LU>
@@ -117,6 +118,7 @@ SystemLayout make_layout(const Scene<S>& scene) {
     }
     layout.electrode_offset = offset;
     layout.size = offset + static_cast<Eigen::Index>(scene.electrodes.size());
+    if (tank_index(scene) >= 0) layout.reference = layout.size++;
     return layout;
 }
 
@@ -126,7 +128,7 @@ SystemLayout make_layout(const Scene<S>& scene) {
 template <class S>
 bool is_layout_of(const SystemLayout& layout, const Scene<S>& scene) {
     const SystemLayout own = make_layout(scene);
-    if (own.size != layout.size || own.electrode_offset != layout.electrode_offset ||
+    if (own.size != layout.size || own.electrode_offset != layout.electrode_offset || own.reference != layout.reference ||
         own.surfaces.size() != layout.surfaces.size())
         return false;
     for (std::size_t s = 0; s < own.surfaces.size(); ++s)
@@ -151,6 +153,15 @@ void check_scene(const Scene<S>& scene) {
                 throw InputError("surface '" + surface.mesh.name + "': panel tagged with unknown electrode " +
                                  std::to_string(e));
     }
+    check_tank(scene);
+}
+
+// What a point outside the water is inside of (for messages).
+template <class S>
+std::string not_water_text(const Scene<S>& scene, int region) {
+    const Surface<S>& surface = scene.surfaces[std::size_t(region)];
+    return surface.encloses_water ? "lies outside the tank '" + surface.mesh.name + "'"
+                                  : "lies inside '" + surface.mesh.name + "', whose interior is not modelled";
 }
 
 // Interior potential coefficient of q on a membrane: phi_in = u + rho_s * sigma_w * q.
@@ -168,11 +179,16 @@ int enclosing_surface(const Scene<S>& scene, const Vec3& x) {
         const TriangleMesh& mesh = scene.surfaces[s].mesh;
         Vec3 lo = Vec3::Constant(std::numeric_limits<double>::infinity()), hi = -lo;
         for (const Vec3& v : mesh.vertices) lo = lo.cwiseMin(v), hi = hi.cwiseMax(v);
-        if ((x.array() < lo.array()).any() || (x.array() > hi.array()).any()) continue;  // outside its box
+        const bool tank = scene.surfaces[s].encloses_water;
+        if ((x.array() < lo.array()).any() || (x.array() > hi.array()).any()) {  // outside its box
+            if (tank) return static_cast<int>(s);
+            continue;
+        }
         double winding = 0.0;  // sum of -double_layer = Omega / (4 pi); 1 inside, 0 outside
         for (std::size_t t = 0; t < mesh.size(); ++t)
             winding -= double_layer_triangle(x, mesh.corner(t, 0), mesh.corner(t, 1), mesh.corner(t, 2));
-        if (winding > 0.5) return static_cast<int>(s);
+        // A tank's normals point inward: -1 in the water it holds, 0 outside it.
+        if (tank ? winding > -0.5 : winding > 0.5) return static_cast<int>(s);
     }
     return -1;
 }
@@ -186,8 +202,7 @@ std::vector<int> source_regions(const Scene<S>& scene) {
         if (r >= 0 && scene.surfaces[r].kind == InterfaceKind::sealed)
             throw InputError("point source at (" + std::to_string(src.position.x()) + ", " +
                              std::to_string(src.position.y()) + ", " + std::to_string(src.position.z()) +
-                             ") m lies inside '" + scene.surfaces[r].mesh.name +
-                             "', whose interior is not modelled");
+                             ") m " + detail::not_water_text(scene, r));
         region.push_back(r);
     }
     return region;
@@ -229,6 +244,9 @@ std::vector<Eigen::Index> part_unknowns(const Scene<S>& scene, const SystemLayou
                 if (e >= 0 && e < static_cast<int>(scene.electrodes.size())) electrode_chosen[e] = 1;
     for (std::size_t e = 0; e < scene.electrodes.size(); ++e)
         if (electrode_chosen[e]) out.push_back(layout.electrode_offset + static_cast<Eigen::Index>(e));
+    // The reference unknown belongs to the part that holds the tank.
+    const int tank = tank_index(scene);
+    if (tank >= 0 && chosen[std::size_t(tank)]) out.push_back(layout.reference);
     return out;
 }
 
@@ -276,6 +294,34 @@ inline bool is_coupling_block(const SystemLayout& layout, const std::vector<Pane
         if (col_of[c] >= 0 && (panels_of_column[c] != 1 || row_surface[std::size_t(surface_of_column[c])]))
             return false;
     return true;
+}
+
+// The tank's border (solver/tank.hpp): the reference row, mean of the wall's
+// water-side potential weighted by area = 0, and the reference unknown's column.
+// With voltage-driven or potential-held electrodes the column shifts all their
+// potentials together (in a closed tank only their differences are imposed);
+// otherwise it enters every wall row with coefficient 1, where it absorbs the
+// part of the right-hand side outside the range of the singular operator (zero
+// for the continuous problem when the net current is zero; a small
+// discretization residue here).
+template <class S, class Add>
+void add_reference_border(const Scene<S>& scene, const SystemLayout& layout, const std::vector<PanelSet>& panels,
+                          const std::vector<Eigen::Index>& row_of, VectorX<S>& rhs, Add& add) {
+    const auto tank = std::size_t(tank_index(scene));
+    const auto& block = layout.surfaces[tank];
+    const double wall_area = panels[tank].area.sum();
+    const Eigen::Index ref = layout.reference;
+    for (Eigen::Index k = 0; k < block.panels; ++k) add(ref, block.offset + k, panels[tank].area(k) / wall_area);
+    if (row_of[ref] >= 0) rhs(row_of[ref]) = S(0);
+    bool held = false;
+    for (std::size_t e = 0; e < scene.electrodes.size(); ++e) {
+        const ElectrodeDrive d = scene.electrodes[e].drive;
+        if (d != ElectrodeDrive::voltage && d != ElectrodeDrive::fixed_potential) continue;
+        add(layout.electrode_offset + static_cast<Eigen::Index>(e), ref, -1.0);
+        held = true;
+    }
+    if (!held)
+        for (Eigen::Index k = 0; k < block.panels; ++k) add(block.offset + k, ref, 1.0);
 }
 
 // The rows `rows` and columns `cols` of the system (null: all of them). Surface
@@ -368,6 +414,10 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
                 auto &single = buffers[0], &dbl = buffers[1], &single_image = buffers[2], &dbl_image = buffers[3];
                 auto &single_im = buffers[4], &dbl_im = buffers[5];
                 assemble_layer_blocks(xs, panels[b], options, a == b, i0, single, dbl);
+                // Seen from a point of a tank's wall, the wall's inward-oriented
+                // double layer sums to +1/2 (Gauss's law from inside), not -1/2.
+                if (a == b && scene.surfaces[a].encloses_water)
+                    for (Eigen::Index i = 0; i < strip; ++i) dbl(i, i0 + i) += 1.0;
                 const auto& col = columns[b];
 
                 // Interior equation of surface a (only its own panels bound its interior):
@@ -455,6 +505,7 @@ void assemble_selection(const Scene<S>& scene, const SystemLayout& layout, const
         rhs(row_of[row]) =
             electrode.drive == ElectrodeDrive::current ? electrode.value / (sigma_w * total_area) : S(0);
     }
+    if (layout.reference >= 0) add_reference_border(scene, layout, panels, row_of, rhs, add);
     // Between the centroids of checked, separated meshes every panel integral is
     // finite; a pass over the whole block is left to builds with assertions.
     MURK_ASSERT(matrix.allFinite(), "every entry of an assembled block is finite");
@@ -579,8 +630,7 @@ VectorX<S> potential_at(const Scene<S>& scene, const Solution<S>& solution, cons
         region[i] = enclosing_surface(scene, xi);
         if (region[i] >= 0 && scene.surfaces[region[i]].kind == InterfaceKind::sealed)
             throw InputError("point (" + std::to_string(xi.x()) + ", " + std::to_string(xi.y()) + ", " +
-                             std::to_string(xi.z()) + ") m lies inside '" + scene.surfaces[region[i]].mesh.name +
-                             "', whose interior is not modelled");
+                             std::to_string(xi.z()) + ") m " + detail::not_water_text(scene, region[i]));
         if (induced_only) continue;
         if (region[i] < 0) {
             phi(i) = incident.potential(xi);

@@ -5,6 +5,10 @@
 // Every surface bounds one interior region and sits in the water; surfaces are
 // not nested. The normal current density j on a surface is the current per area
 // leaving the interior (outward normal), and it is the same on both sides.
+// One exception, a tank (Surface::encloses_water): a closed insulating surface
+// around the water and everything in it; its mesh is oriented with the normals
+// pointing into the water (inward), like every other surface's, so that the
+// water's representation formula is the same sum over all surfaces.
 #include "geometry/eigen_core.hpp"
 #include "geometry/mesh.hpp"
 
@@ -33,6 +37,9 @@ struct Surface {
     S membrane_resistance{};            // ohm m^2 (specific resistance); membrane only
     std::vector<int> panel_electrode;   // sealed only: per triangle an index into
                                         // Scene::electrodes, or -1 for an insulating panel
+    // A tank (solver/tank.hpp): sealed, every panel insulating, the water inside,
+    // normals inward. At most one per scene; not combined with a plane.
+    bool encloses_water = false;
 };
 
 enum class ElectrodeDrive {

@@ -375,6 +375,42 @@ WaterSpec read_water(const Section& sec) {
     return w;
 }
 
+// [tank]: shape "box" (size, centre), "cylinder" (radius, height, centre) or
+// "mesh" (file, file_unit); panel_size for the generated ones. Whether it holds
+// the scene is the scene builder's check (cases/scene/tank_walls.hpp).
+TankSpec read_tank(const Section& sec) {
+    const std::vector<std::string> shapes = {"box", "cylinder", "mesh"};
+    const std::string shape = read_choice(sec, "shape", required(sec, "shape", "one of " + join(shapes)), shapes);
+    TankSpec t;
+    t.shape = shape == "box" ? TankShape::box : shape == "cylinder" ? TankShape::cylinder : TankShape::mesh;
+    std::string extent_key;
+    switch (t.shape) {
+        case TankShape::box:
+            check_keys(sec, {"shape", "size", "centre", "panel_size"});
+            t.size_m = read_lengths3(sec, "size", required(sec, "size", "three inner edge lengths along x, y, z"), true);
+            extent_key = "size";
+            break;
+        case TankShape::cylinder:
+            check_keys(sec, {"shape", "radius", "height", "centre", "panel_size"});
+            t.radius_m = required_positive(sec, "radius", Dimension::length);
+            t.height_m = required_positive(sec, "height", Dimension::length);
+            extent_key = "radius";
+            break;
+        case TankShape::mesh:
+            check_keys(sec, {"shape", "file", "file_unit"});
+            t.mesh_file = read_mesh_file(sec);
+            t.file_unit_m = optional_positive(sec, "file_unit", Dimension::length).value_or(1.0);
+            extent_key = "file";
+            break;
+    }
+    if (t.shape != TankShape::mesh) {
+        t.centre_m = read_lengths3(sec, "centre", required(sec, "centre", "the centre of the water, three lengths"), false);
+        t.panel_size_m = required_positive(sec, "panel_size", Dimension::length);
+    }
+    t.source = SourceLine{printable(sec.ctx.file), line_of(*sec.find(extent_key)), sec.key_path(extent_key)};
+    return t;
+}
+
 // One [[mesh.zone]]: a ball of finer panels on the sensing body. What depends on
 // the body (its panel size, whether the ball reaches its skin) is checked by the
 // scene builder, which names the keys kept here.
@@ -1484,7 +1520,7 @@ void check_sweep_frequencies(const Section& sw, const CaseSpec& spec) {
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
-                     "probe", "sweep", "detection", "layout", "placement"});
+                     "probe", "sweep", "detection", "layout", "placement", "tank"});
     CaseSpec spec;
     spec.title = read_string(sec, "title", required(sec, "title", "a short name of the case"));
     if (const toml::node* d = sec.find("description")) spec.description = read_string(sec, "description", *d);
@@ -1510,8 +1546,20 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
 
     const toml::node& water = required(sec, "water", "a table [water] with at least conductivity");
     spec.water = read_water(Section{as_table(sec, "water", water), "water", line_of(water), ctx});
-    if (const toml::node* m = sec.find("mesh"))
-        spec.mesh = read_mesh(Section{as_table(sec, "mesh", *m), "mesh", line_of(*m), ctx});
+    if (const toml::node* t = sec.find("tank")) {
+        spec.tank = read_tank(Section{as_table(sec, "tank", *t), "tank", line_of(*t), ctx});
+        if (!spec.water.planes().empty())
+            fail(spec.water.planes().front().source.where(),
+                 "a case with a [tank] has no insulating plane: the tank's top face stands for the water surface");
+    }
+    if (const toml::node* m = sec.find("mesh")) {
+        const Section mesh{as_table(sec, "mesh", *m), "mesh", line_of(*m), ctx};
+        spec.mesh = read_mesh(mesh);
+        // The compressed operator has no place for the tank's reference border (solver/tank.hpp).
+        if (spec.tank && spec.mesh.solver.choice == SystemSolver::compressed)
+            fail(mesh.where("solver"), "\"compressed\" cannot solve a case with a [tank] (its reference border); "
+                                       "use \"dense\" or \"auto\", which stays dense with a tank");
+    }
 
     const toml::node* fish = sec.find("fish");
     const toml::node* robot = sec.find("robot");

@@ -70,6 +70,24 @@ struct WaterSpec {
     }
 };
 
+// [tank]: closed insulating walls around the water and everything in it
+// (solver/tank.hpp). A box or a vertical cylinder is given by its inner size and
+// the centre of the water it holds; its top face may stand for the free water
+// surface (also insulating). An imported mesh is placed as written.
+enum class TankShape { box, cylinder, mesh };
+
+struct TankSpec {
+    TankShape shape = TankShape::box;
+    Point3 size_m{};         // box: inner edge lengths along x, y, z
+    double radius_m = 0.0;   // cylinder: inner radius (axis along z)
+    double height_m = 0.0;   // cylinder: inner height
+    Point3 centre_m{};       // box, cylinder: centre of the water volume (world frame)
+    std::string mesh_file;   // mesh: path resolved against the case file's folder
+    double file_unit_m = 1.0;
+    double panel_size_m = 0.0;  // mean panel edge of the walls (box, cylinder)
+    SourceLine source;          // at the key that sets the extent: tank.size, tank.radius or tank.file
+};
+
 // A refinement zone of [[mesh.zone]]: a ball in which the sensing body's panels
 // are at most panel_size_m, grading back to the body's panel size outside it.
 struct MeshZoneSpec {
@@ -267,6 +285,7 @@ struct CaseSpec {
     // then stays unset; murk run solves at the kept harmonics' frequencies).
     std::optional<WaveformSpec> waveform;
     WaterSpec water;
+    std::optional<TankSpec> tank;  // [tank]: closed insulating walls (none: open water)
     MeshSpec mesh;
     // At most one of fish and robot is set. Neither only when the case has at
     // least one source and one probe (the body-free case: sources in open water).

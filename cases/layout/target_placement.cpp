@@ -9,6 +9,24 @@
 
 namespace murk {
 
+namespace {
+
+// A surface's index with its mesh oriented outward (a tank's walls face the
+// water in the scene: solver/tank.hpp), and whether x lies where no target can:
+// inside a surface, or outside a tank.
+SurfaceIndex outward_index(const Surface<double>& s) {
+    TriangleMesh m = s.mesh;
+    if (s.encloses_water)
+        for (auto& t : m.triangles) std::swap(t[1], t[2]);
+    return SurfaceIndex(std::move(m));
+}
+
+bool out_of_water(const SurfaceIndex& index, const Surface<double>& s, const Vec3& x) {
+    return s.encloses_water ? !index.contains(x) : index.contains(x);
+}
+
+}  // namespace
+
 TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid) {
     // Every site on the hull at once (all floating): the scene builder checks on the mesh
     // that no two sites share a panel and that each covers one, whichever layouts use them.
@@ -28,11 +46,11 @@ TargetPlacement place_targets(const CaseSpec& spec, const TargetGrid& grid) {
 std::vector<double> clearance_of_points(const TargetGrid& grid, const Scene<double>& scene) {
     std::vector<double> d(grid.size(), INFINITY);
     for (const Surface<double>& s : scene.surfaces) {
-        const SurfaceIndex index(s.mesh);
+        const SurfaceIndex index = outward_index(s);
 #pragma omp parallel for schedule(dynamic, 256)
         for (Eigen::Index k = 0; k < grid.points.cols(); ++k) {
             const Vec3 x = grid.points.col(k);
-            const double dk = index.contains(x) ? 0.0 : index.distance_to(x);
+            const double dk = out_of_water(index, s, x) ? 0.0 : index.distance_to(x);
             d[static_cast<std::size_t>(k)] = std::min(d[static_cast<std::size_t>(k)], dk);
         }
     }
@@ -42,12 +60,12 @@ std::vector<double> clearance_of_points(const TargetGrid& grid, const Scene<doub
 std::vector<std::uint8_t> blocked_points(const TargetGrid& grid, const Scene<double>& scene, double reach) {
     std::vector<std::uint8_t> blocked(grid.size(), 0);
     for (const Surface<double>& s : scene.surfaces) {
-        const SurfaceIndex index(s.mesh);
+        const SurfaceIndex index = outward_index(s);
         const double gap = reach + kMinGapInPanels * typical_edge(s.mesh);
 #pragma omp parallel for schedule(dynamic, 256)
         for (Eigen::Index k = 0; k < grid.points.cols(); ++k) {
             const Vec3 x = grid.points.col(k);
-            if (index.contains(x) || index.distance_to(x) < gap) blocked[static_cast<std::size_t>(k)] = 1;
+            if (out_of_water(index, s, x) || index.distance_to(x) < gap) blocked[static_cast<std::size_t>(k)] = 1;
         }
     }
     for (const BoundingPlane& plane : scene.images.bounds)

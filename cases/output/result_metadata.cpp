@@ -1,4 +1,5 @@
 #include "cases/output/result_metadata.hpp"
+#include "solver/tank.hpp"
 
 #include "cases/output/result_layout.hpp"
 #include "cases/output/solver_attributes.hpp"
@@ -55,6 +56,8 @@ void write_result_metadata(H5Group root, const CaseSpec& spec, const std::string
     root.set_attribute("far_ratio", quadrature.far_ratio);
     root.set_attribute("frequency_Hz", spec.frequency_Hz.value_or(0.0));
     write_solver_options(root, spec.mesh.solver);
+    // Closed insulating walls define the potential only up to a constant: say which one (solver/tank.hpp).
+    if (spec.tank) root.set_attribute("reference", tank_reference_text());
 }
 
 }  // namespace murk

@@ -2,6 +2,8 @@
 
 #include "cases/scene/hull_electrodes.hpp"
 #include "cases/scene/scene_rules.hpp"
+#include "cases/scene/tank_walls.hpp"
+#include "solver/tank.hpp"
 
 #include "geometry/clearance.hpp"
 #include "geometry/electrode_hulls.hpp"
@@ -22,6 +24,7 @@
 #include <cmath>
 #include <limits>
 #include <map>
+#include <optional>
 #include <sstream>
 
 namespace murk {
@@ -563,6 +566,23 @@ void check_probes(const Scene<S>& scene, const CaseSpec& spec, const std::vector
     }
 }
 
+// The tank holds every surface, source and probe point, and the currents it
+// holds sum to zero (tank_walls.hpp).
+template <class S>
+void check_tank_holds(const Scene<S>& scene, const CaseSpec& spec, const TankWalls& tank,
+                      const std::vector<Part>& parts) {
+    for (const Part& p : parts) require_inside_tank(tank, *spec.tank, *p.mesh, p.label);
+    for (const PointSource<S>& src : scene.sources) require_inside_tank(tank, *spec.tank, src.position, "a source point");
+    for (const ProbePoint& pt : spec.probe_points)
+        require_inside_tank(tank, *spec.tank, to_vec(pt.position_m),
+                            "probe " + in_quotes(spec.probes[pt.probe].name) +
+                                (spec.probes[pt.probe].form == ProbeForm::point ? "" : " point " + pt.label));
+    std::vector<std::pair<std::string, double>> driven;
+    for (const Electrode<S>& e : scene.electrodes)
+        if (e.drive == ElectrodeDrive::current) driven.emplace_back(e.name, std::real(e.value));
+    require_zero_net_current(spec, driven);
+}
+
 // "file:line: key" of the first part of the case that makes conductivities
 // complex (the line of its table), or "".
 std::string complex_reason(const CaseSpec& spec) {
@@ -798,7 +818,14 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
         const CutPanels cut = cut_hull_electrodes(hull, spec, panel);
         add_robot(scene, spec, std::move(hull), cut);
     }
-    const std::size_t bodies = scene.surfaces.size();  // 1 with a sensing body, else 0
+    // The tank right after the body, before the objects: the baseline scene is
+    // then a prefix of the full one, as without a tank.
+    std::optional<TankWalls> tank;
+    if (spec.tank) {
+        tank.emplace(*spec.tank, tank_walls_mesh(*spec.tank));
+        scene.surfaces.push_back(make_tank_surface<S>(tank->mesh()));
+    }
+    const std::size_t bodies = scene.surfaces.size();  // the sensing body and the tank, when there are
     if (include_objects)
         for (const ObjectSpec& o : spec.objects) add_object_surface(scene, spec, o, object_mesh(spec, o));
 
@@ -816,6 +843,7 @@ Scene<S> build_scene(const CaseSpec& spec, bool include_objects) {
     add_free_sources(scene, spec, clearance);
     check_probes(scene, spec, clearance);
     if (!spec.water.planes().empty()) scene.images = water_images<S>(spec, scene);
+    if (tank) check_tank_holds(scene, spec, *tank, parts);
     return scene;
 }
 

@@ -17,6 +17,7 @@
 #include "solver/fixed_part.hpp"
 #include "solver/memory_budget.hpp"
 #include "solver/system_cost.hpp"
+#include "solver/tank.hpp"
 
 #include <chrono>
 #include <cmath>
@@ -223,6 +224,7 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
         std::printf("water bounds: %s\n", water_bounds_text(water_bounds_summary(solved.perturbed.images)).c_str());
         std::printf("system solver: %s\n",
                     solver_choice_text(solver, std::size_t(system_layout(solved.perturbed).size)).c_str());
+        if (spec.tank) std::printf("reference: %s (closed insulating tank)\n", tank_reference_text());
     }
 
     StageTimes base, pert;

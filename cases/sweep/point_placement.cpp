@@ -1,5 +1,7 @@
 #include "cases/sweep/point_placement.hpp"
 
+#include "geometry/internal_check.hpp"
+
 #include "cases/scene/scene_builder.hpp"
 #include "cases/scene/scene_rules.hpp"
 #include "geometry/input_error.hpp"
@@ -63,6 +65,13 @@ void require_resolvable(const TriangleMesh& object, const Vec3& at, const std::s
 
 PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed)
     : plan_(&plan), has_body_(spec.fish || spec.robot), planes_(spec.water.planes()) {
+    if (spec.tank) {
+        // The walls stay but hold the water: they are checked as walls, not as a surface to keep away from.
+        const std::size_t at = has_body_ ? 1 : 0;
+        MURK_CHECK(fixed.size() > at && fixed[at].name == "tank", "the tank follows the body among the fixed surfaces");
+        fixed.erase(fixed.begin() + std::ptrdiff_t(at));
+        tank_.emplace(*spec.tank, tank_walls_mesh(*spec.tank));
+    }
     for (TriangleMesh& m : fixed) fixed_.emplace_back(std::move(m));
     for (const SourceSpec& src : spec.sources)
         for (const auto& p : source_points(src)) free_points_.push_back(p.position);
@@ -114,6 +123,7 @@ double PointPlacement::clearance(const TriangleMesh& object) const {
 double PointPlacement::distance_to_fixed(const Vec3& x) const {
     double d = INFINITY;
     for (const SurfaceIndex& f : fixed_) d = std::min(d, f.distance_to(x));
+    if (tank_) d = std::min(d, tank_->distance_to(x));
     for (const Vec3& p : free_points_) d = std::min(d, (p - x).norm());
     return d;
 }
@@ -129,6 +139,7 @@ MaskReason PointPlacement::check(const TriangleMesh& object) const {
     }
     for (const PlaneSpec& plane : planes_)
         if (reach_beyond_plane(object, plane) > -kMinGapInPanels * typical_edge(object)) return MaskReason::beyond_plane;
+    if (tank_ && !tank_->breaks(object).empty()) return MaskReason::beyond_plane;
     if (!free_points_.empty()) {
         const double depth = kMinSourceDepthInPanels * typical_edge(object);
         const SurfaceIndex index(object);

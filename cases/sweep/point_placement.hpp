@@ -8,11 +8,13 @@
 // along the sweep direction (distance axis), or where the case puts the object.
 // It is masked, with the reason, where the object would break a rule of
 // cases/scene/scene_rules.hpp: touch the body or an unmoving object, reach
-// through the plane, come too near a source or probe point; or where the
-// clearance cannot be reached along the direction. Placement reports its
+// through the plane or leave a [tank] (or come nearer its walls than the gap
+// rule: masked as beyond_plane, the same rule turned round), come too near a
+// source or probe point; or where the clearance cannot be reached along the direction. Placement reports its
 // outcome; it never throws for a point.
 #include "cases/input/case_spec.hpp"
 #include "cases/output/result_layout.hpp"
+#include "cases/scene/tank_walls.hpp"
 #include "cases/sweep/sweep_plan.hpp"
 #include "geometry/clearance.hpp"
 
@@ -29,7 +31,8 @@ struct Placement {
 class PointPlacement {
 public:
     // `fixed` are the surfaces that stay, the sensing body first when the case has
-    // one. Refuses (InputError naming the case line) a sweep direction that points
+    // one (a tank's walls among them are recognised by their name and checked
+    // the other way round). Refuses (InputError naming the case line) a sweep direction that points
     // into the body from a moving object's position.
     PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed);
 
@@ -52,6 +55,7 @@ private:
     std::vector<SurfaceIndex> fixed_;  // body first when has_body_
     bool has_body_ = false;
     std::vector<PlaneSpec> planes_;  // the water surface and bottom given
+    std::optional<TankWalls> tank_;    // the case's [tank], outward
     std::vector<Vec3> free_points_;    // [[source]] points and probe points
     Vec3 reference_point_ = Vec3::Zero();  // without a body: the first source point
     std::vector<Vec3> start_;          // per moving object: its position in the case

@@ -1,0 +1,79 @@
+#!/usr/bin/env bash
+# A [tank]: murk solve of a fish in a closed box writes the reference (root attribute and
+# summary line); murk run sweeps prey inside it by the exact path, masking the points
+# whose prey would come too near the walls; and every tank rule is refused with one line
+# naming the file, line and key, exit status 2: a tank that does not hold the fish, a
+# source or probe outside it, a net current into it, a plane beside it, the compressed solver.
+set -uo pipefail
+murk="$1"; src="$2"
+dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
+base="$src/cases/examples/fish_detection.toml"
+failures=0
+fail() { echo "FAIL $*"; failures=$((failures + 1)); }
+expect_bad() {  # NAME TEXT COMMAND...
+  local name="$1" text="$2"; shift 2
+  "$@" > /dev/null 2> "$dir/err"
+  local status=$? lines; lines=$(wc -l < "$dir/err")
+  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/err"; then
+    echo "FAIL $name: status $status, $lines lines:"; cat "$dir/err"; failures=$((failures + 1))
+  else
+    echo "ok   $name: $(cat "$dir/err")"
+  fi
+}
+tank() {  # SIZE CENTRE -> a [tank] table
+  printf '\n[tank]\nshape = "box"\nsize = %s\ncentre = %s\npanel_size = "4 cm"\n' "$1" "$2"
+}
+# A small sweep: three distances, one size, one water; the tank's wall at y = 6 cm.
+sed -e 's/^distance = .*/distance = { from = "3 mm", to = "5 cm", count = 3 }/' \
+    -e 's/^size = .*/size = ["2 mm"]/' -e 's/^water_conductivity = .*/water_conductivity = ["100 uS\/cm"]/' \
+    -e 's/^\[sweep\]/[sweep]\nmethod = "exact"/' "$base" > "$dir/small.toml"
+{ cat "$dir/small.toml"; tank '["30 cm", "16 cm", "12 cm"]' '["0 cm", "-2 cm", "0 cm"]'; } > "$dir/tank.toml"
+
+# murk solve: the reference in the summary and in the file.
+"$murk" solve "$dir/tank.toml" -o "$dir/solve.h5" > "$dir/out" 2>&1 || { fail "solve in a tank:"; cat "$dir/out"; }
+grep -qF "reference: mean over the tank walls is zero" "$dir/out" || fail "solve: no reference line"
+/usr/bin/python3 - "$dir/solve.h5" <<'PY' || failures=$((failures + 1))
+import sys, h5py
+with h5py.File(sys.argv[1], "r") as f:
+    ref = f.attrs["reference"]
+    ref = ref.decode() if isinstance(ref, bytes) else str(ref)
+    assert ref == "mean over the tank walls is zero", ref
+print("ok   solve writes reference =", ref)
+PY
+
+# murk run by the exact path: the farthest prey (centre 2.7 mm + 5 cm + 2 mm off the flank,
+# reaching y ~ 6.5 cm) would cross the wall at y = 6 cm and is masked.
+"$murk" run "$dir/tank.toml" -o "$dir/run.h5" --quiet > "$dir/out" 2>&1 || { fail "run in a tank:"; cat "$dir/out"; }
+/usr/bin/python3 - "$dir/run.h5" <<'PY' || failures=$((failures + 1))
+import sys, h5py, numpy as np
+with h5py.File(sys.argv[1], "r") as f:
+    status = np.asarray(f["sweep/status"]).ravel()
+    reason = np.asarray(f["sweep/mask_reason"]).ravel()
+    path = np.asarray(f["sweep/path"]).ravel()
+    ref = f.attrs["reference"]
+    assert (status == 1).sum() >= 1, status
+    assert (reason == 3).sum() >= 1, reason          # beyond_plane: too near the tank's wall
+    assert set(path[status == 1].tolist()) == {1}, path  # exact
+    pert = np.asarray(f["sweep/perturbation"])
+    assert np.isfinite(pert[np.isfinite(pert)]).all() and np.nanmax(np.abs(pert)) > 0
+print("ok   run in a tank: statuses", status.tolist(), "mask reasons", reason.tolist())
+PY
+
+# Refusals.
+{ cat "$dir/small.toml"; tank '["10 cm", "16 cm", "12 cm"]' '["0 cm", "0 cm", "0 cm"]'; } > "$dir/narrow.toml"
+expect_bad "tank does not hold the fish" "tank.size: the fish" "$murk" solve "$dir/narrow.toml" -o "$dir/x.h5"
+{ cat "$dir/tank.toml"; printf '\n[[source]]\nform = "point"\nposition = ["0 cm", "4 cm", "0 cm"]\ncurrent = "1 uA"\n'; } > "$dir/net.toml"
+expect_bad "net current into the tank" "net current of 1e-06 A into the closed [tank]" "$murk" solve "$dir/net.toml" -o "$dir/x.h5"
+grep -qF "source[1] 1e-06 A" "$dir/err" || fail "the net current message does not name the source"
+{ cat "$dir/tank.toml"; printf '\n[[source]]\nform = "point"\nposition = ["0 cm", "4 cm", "0 cm"]\ncurrent = "1 uA"\n[[source]]\nform = "point"\nposition = ["0 cm", "40 cm", "0 cm"]\ncurrent = "-1 uA"\n'; } > "$dir/out_source.toml"
+expect_bad "source outside the tank" "tank.size: a source point at (0, 0.4, 0) m lies outside the tank" "$murk" solve "$dir/out_source.toml" -o "$dir/x.h5"
+{ cat "$dir/tank.toml"; printf '\n[[probe]]\nname = "far"\nform = "point"\nposition = ["0 cm", "0 cm", "9 cm"]\n'; } > "$dir/probe.toml"
+expect_bad "probe outside the tank" "tank.size: probe 'far' at (0, 0, 0.09) m lies outside the tank" "$murk" solve "$dir/probe.toml" -o "$dir/x.h5"
+sed -e 's/^conductivity = "100 uS\/cm".*/conductivity = "100 uS\/cm"\nsurface_z = "5 cm"/' "$dir/tank.toml" > "$dir/plane.toml"
+expect_bad "plane with a tank" "water.surface_z" "$murk" solve "$dir/plane.toml" -o "$dir/x.h5"
+sed -e 's/^panel_size = "7 mm".*/panel_size = "7 mm"\nsolver = "compressed"/' "$dir/tank.toml" > "$dir/compressed.toml"
+expect_bad "compressed solver with a tank" "mesh.solver" "$murk" solve "$dir/compressed.toml" -o "$dir/x.h5"
+[ -e "$dir/x.h5" ] && fail "a refused case left a result file"
+
+[ "$failures" -eq 0 ] || { echo "$failures failure(s)"; exit 1; }
+echo "all tank checks passed"
