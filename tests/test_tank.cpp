@@ -8,6 +8,7 @@
 #include "geometry/transform.hpp"
 #include "solver/coupled_solve.hpp"
 #include "solver/dipole_path.hpp"
+#include "solver/image_series.hpp"
 #include "solver/tank.hpp"
 
 #include <doctest/doctest.h>
@@ -201,7 +202,7 @@ TEST_CASE("a tank refuses a net current, sources outside it, a plane and the com
     outside.sources.push_back({Vec3(0.0, 0, 0.01), -1e-5});
     CHECK_THROWS_WITH_AS(solve_scene(outside, kQuad), doctest::Contains("outside the tank 'tank'"), InputError);
     Scene<double> plane = scene;
-    plane.plane = InsulatingPlane{Vec3(0, 0, 0.2), Vec3::UnitZ()};
+    plane.images = plane_images<double>(InsulatingPlane{Vec3(0, 0, 0.2), Vec3::UnitZ()});
     CHECK_THROWS_AS(solve_scene(plane, kQuad), InputError);
     SolverOptions compressed;
     compressed.choice = SystemSolver::compressed;
