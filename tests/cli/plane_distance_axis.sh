@@ -12,8 +12,8 @@
 #   body by a part that falls off with h (method of images, e.g. Jackson, Classical
 #   Electrodynamics, 3rd ed., 1999, section 2.1); the relative differences are printed;
 # - a moving object beyond a point's plane is masked (beyond_plane), at that gap only;
-# - refusals, one line and exit 2: both keys, a zero or negative gap, the plane missing from
-#   [water], a gap whose plane cuts an unmoving object.
+# - refusals, one line and exit 2: both keys, a zero, negative or infinite gap, the plane missing
+#   from [water], a gap whose plane cuts an unmoving object, a case without a sensing body.
 # Usage: plane_distance_axis.sh MURK SOURCE_DIR
 set -uo pipefail
 murk="$1"; src="$2"
@@ -118,11 +118,24 @@ expect_bad "both planes swept" "sweep.bottom_distance: a sweep moves one plane" 
   -e 's/^bottom_distance = .*/&\nsurface_distance = ["1 cm"]/'
 expect_bad "zero gap" "sweep.bottom_distance[1]: must be positive" -e 's/^bottom_distance = .*/bottom_distance = ["0 cm", "1 cm"]/'
 expect_bad "negative gap" "sweep.bottom_distance[2]: must be positive" -e 's/^bottom_distance = .*/bottom_distance = ["1 cm", "-1 cm"]/'
+expect_bad "infinite gap" "sweep.bottom_distance[2]: 'inf m' is not a finite number" \
+  -e 's/^bottom_distance = .*/bottom_distance = ["1 cm", "inf m"]/'
 expect_bad "no bottom in [water]" "sweep.bottom_distance: moves the bottom: give [water] bottom_z" -e '/^bottom_z = /d'
 expect_bad "no surface in [water]" "sweep.surface_distance: moves the water surface: give [water] surface_z" \
   -e 's/^bottom_distance = /surface_distance = /'
 expect_bad "a gap that cuts an unmoving object" "sweep.bottom_distance = 0.01 m: this plane cannot be placed" \
   -e 's/^\[sweep\]/[[object]]\nname = "stone"\nshape = "sphere"\nradius = "1 cm"\nposition = ["-5 cm", "5 cm", "-4.5 cm"]\nconductivity = "insulator"\n\n[sweep]/'
+
+# Without a sensing body there is nothing to measure the gap from (canonical_falloff has none).
+sed -e 's/^\[sweep\]/[sweep]\nsurface_distance = ["1 cm"]/' -e 's/^\[water\]/[water]\nsurface_z = "1 m"/' \
+  "$src/cases/examples/canonical_falloff.toml" > "$dir/nobody.toml"
+"$murk" run "$dir/nobody.toml" -o "$dir/nobody.h5" --quiet > /dev/null 2> "$dir/stderr"
+status=$?
+if [ "$status" -eq 2 ] && [ "$(wc -l < "$dir/stderr")" -eq 1 ] && grep -qF "the case needs a [fish] or [robot]" "$dir/stderr"; then
+  echo "ok   no sensing body: $(cat "$dir/stderr")"
+else
+  fail "no sensing body: status $status: $(cat "$dir/stderr")"
+fi
 
 [ "$failures" -eq 0 ] && echo "plane distance axis: all checks passed"
 exit $(( failures > 0 ))
