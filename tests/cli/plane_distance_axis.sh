@@ -11,6 +11,7 @@
 #   image of a current source in an insulating plane at distance h changes the field near the
 #   body by a part that falls off with h (method of images, e.g. Jackson, Classical
 #   Electrodynamics, 3rd ed., 1999, section 2.1); the relative differences are printed;
+# - three shares (--shard k/3) merged equal the whole run;
 # - a moving object beyond a point's plane is masked (beyond_plane), at that gap only;
 # - refusals, one line and exit 2: both keys, a zero, negative or infinite gap, the plane missing
 #   from [water], a gap whose plane cuts an unmoving object, a case without a sensing body.
@@ -55,6 +56,20 @@ assert p.dims[:3] == ("bottom_distance", "conductivity", "distance"), p.dims
 v = p.sel(bottom_distance=0.04, conductivity=float("inf"), distance=0.02).values
 assert v.shape == (3,) and abs(v).max() > 0, v
 print("ok   xarray: perturbation", p.dims, "; bottom_distance =", list(ds["bottom_distance"].values))
+PY
+
+# Shares of a job array, merged: each point finds its fixed part (its gap) from its flat index.
+for k in 1 2 3; do
+  "$murk" run "$base" -o "$dir/part-$k.h5" --shard "$k/3" --quiet --threads 1 2> "$dir/err.txt" || fail "share $k: $(cat "$dir/err.txt")"
+done
+"$murk" merge "$dir"/part-{1,2,3}.h5 -o "$dir/merged.h5" --quiet 2> "$dir/err.txt" || fail "merge: $(cat "$dir/err.txt")"
+"$py" - "$dir/swept.h5" "$dir/merged.h5" <<'PY' || fail "merged shares against the whole run"
+import sys, h5py, numpy as np
+a, b = h5py.File(sys.argv[1], "r")["sweep"], h5py.File(sys.argv[2], "r")["sweep"]
+assert (b["status"][...] == 1).all()
+assert np.array_equal(a["perturbation"][...], b["perturbation"][...])
+assert np.array_equal(a["bottom_distance"].attrs["plane_z"], b["bottom_distance"].attrs["plane_z"])
+print("ok   three shares merged equal the whole run")
 PY
 
 no_axis() { sed -e '/^bottom_distance = /d' "$@"; }
