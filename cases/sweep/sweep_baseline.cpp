@@ -132,13 +132,13 @@ template <class S>
 std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) {
     CaseSpec fixed_case = spec;  // once per run: the case with only the objects that stay
     fixed_case.objects = plan.still;
-    // A plane-distance axis measures from the body: mesh it alone, in unbounded water, first.
+    // A plane-distance axis measures from the body: mesh the fixed part in unbounded water
+    // first, which also refuses what is wrong without the planes in its own words.
     TriangleMesh body;
     if (!plan.plane_distances.empty()) {
-        CaseSpec bare = fixed_case;
-        bare.objects.clear();
-        bare.water.surface.reset(), bare.water.bottom.reset();
-        body = build_scene<S>(bare, false).surfaces.front().mesh;
+        CaseSpec unbounded = fixed_case;
+        unbounded.water.surface.reset(), unbounded.water.bottom.reset();
+        body = build_scene<S>(unbounded, true).surfaces.front().mesh;
     }
     std::vector<Scene<S>> scenes;
     for (std::size_t k = 0; k < plan.fixed_count(); ++k) {  // per (water, frequency, plane distance)
@@ -149,7 +149,7 @@ std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) 
             scenes.push_back(build_scene<S>(fixed_case, true));
             continue;
         }
-        try {  // a moved plane that cuts the body, an object that stays or a source makes its value unusable
+        try {  // what fails now is the moved plane cutting the body, an object that stays or a source
             scenes.push_back(build_scene<S>(fixed_case, true));
         } catch (const InputError& e) {
             throw InputError(plane_value_where(plan, k) + ": this plane cannot be placed: " + e.what());
