@@ -2,8 +2,10 @@
 // order, with which names and units, and how a flat point number maps onto one index
 // per axis. The expected orders are written out here by hand or counted with nested
 // loops (C order, the last axis running fastest: the row-major layout of HDF5 and
-// numpy, common practice); none is taken from the code under test.
+// numpy, common practice); none is taken from the code under test. The fixed-part index
+// of a plan (cases/sweep/sweep_plan.hpp) is checked the same way.
 #include "cases/sweep/sweep_axes.hpp"
+#include "cases/sweep/sweep_plan.hpp"
 
 #include <doctest/doctest.h>
 
@@ -119,4 +121,41 @@ TEST_CASE("sweep axes: unflatten counts in C order, the last axis fastest") {
     // a single axis: the point number is the index
     const std::vector<SweepAxis> one = {counting_axis(AxisKind::distance, 5)};
     for (std::size_t q = 0; q < 5; ++q) CHECK(unflatten(q, one) == std::vector<std::size_t>{q});
+}
+
+TEST_CASE("sweep axes: a plane-distance axis follows frequency, and each (water, frequency, gap) has its fixed part") {
+    SweepSpec s;
+    s.water_conductivity_S_per_m = {0.005, 0.03};
+    s.frequency_Hz = {100.0, 1000.0, 10000.0};
+    s.plane_distance_m = {0.01, 0.02, 0.04, 0.08};
+    s.plane_is_bottom = true;
+    s.size_m = {0.001, 0.002};
+    SweepPlan plan;
+    plan.sweep = s;
+    plan.axes = sweep_axes(s);
+    CHECK(names_of(plan.axes) == std::vector<std::string>{"water_conductivity", "frequency", "bottom_distance", "size"});
+    CHECK(plan.axes[2].units == "m");
+    s.plane_is_bottom = false;
+    CHECK(sweep_axes(s)[2].name == "surface_distance");
+    plan.shape = axis_shape(plan.axes);
+    plan.total = point_count(plan.axes);
+    plan.waters = s.water_conductivity_S_per_m;
+    plan.frequencies = s.frequency_Hz;
+    plan.plane_distances = s.plane_distance_m;
+    REQUIRE(plan.fixed_count() == 2 * 3 * 4);
+    // Counted by hand in nested loops (C order): every point's fixed part holds its own
+    // water, frequency and gap, and the fixed parts are numbered water outer, gap inner.
+    std::size_t point = 0;
+    for (std::size_t w = 0; w < 2; ++w)
+        for (std::size_t f = 0; f < 3; ++f)
+            for (std::size_t d = 0; d < 4; ++d)
+                for (std::size_t z = 0; z < 2; ++z, ++point) {
+                    const std::size_t fixed = plan.water_of(plan.index_of(point));
+                    CHECK(fixed == (w * 3 + f) * 4 + d);
+                    CHECK(plan.fixed_water(fixed) == s.water_conductivity_S_per_m[w]);
+                    CHECK(*plan.fixed_frequency(fixed, std::nullopt) == s.frequency_Hz[f]);
+                    CHECK(*plan.fixed_plane_distance(fixed) == s.plane_distance_m[d]);
+                }
+    plan.plane_distances.clear();  // without the axis: no gap, and the count of before
+    CHECK(!plan.fixed_plane_distance(0));
 }

@@ -1196,9 +1196,21 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
     return v;
 }
 
+// The axis surface_distance or bottom_distance (one of the two): gaps between the sensing
+// body and the plane it moves.
+void read_plane_distance_axis(const Section& sec, SweepSpec& s) {
+    const bool surface = sec.find("surface_distance"), bottom = sec.find("bottom_distance");
+    if (surface && bottom)
+        fail(sec.where("bottom_distance"), "a sweep moves one plane: give surface_distance or bottom_distance, not both");
+    if (!surface && !bottom) return;
+    s.plane_is_bottom = bottom;
+    s.plane_distance_m = read_axis_values(sec, bottom ? "bottom_distance" : "surface_distance", Dimension::length);
+}
+
 SweepSpec read_sweep(const Section& sec) {
     check_keys(sec, {"object", "alternatives", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
-                     "frequency", "permittivity", "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance"});
+                     "frequency", "permittivity", "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance",
+                     "surface_distance", "bottom_distance"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* m = sec.find("method")) {
@@ -1248,6 +1260,7 @@ SweepSpec read_sweep(const Section& sec) {
     if (sec.find("water_conductivity"))
         s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
     if (sec.find("frequency")) s.frequency_Hz = read_axis_values(sec, "frequency", Dimension::frequency);
+    read_plane_distance_axis(sec, s);
     if (sec.find("permittivity")) {
         s.permittivity_relative = read_axis_values(sec, "permittivity", Dimension::permittivity_relative);
         if (s.permittivity_relative.front() < 1.0)
@@ -1286,9 +1299,9 @@ SweepSpec read_sweep(const Section& sec) {
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
         s.water_conductivity_S_per_m.empty() && s.alternatives.empty() && s.frequency_Hz.empty() &&
-        s.permittivity_relative.empty())
+        s.permittivity_relative.empty() && s.plane_distance_m.empty())
         fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, frequency, "
-                               "permittivity, alternatives or grid");
+                               "permittivity, surface_distance, bottom_distance, alternatives or grid");
     return s;
 }
 
@@ -1517,6 +1530,21 @@ void check_sweep_frequencies(const Section& sw, const CaseSpec& spec) {
                                        "sweep axis) or a [signal] waveform");
 }
 
+// A plane-distance axis measures from the sensing body and moves a plane the case gives
+// in [water] (surface_z or bottom_z): the case says which water it is (an insulating or
+// sediment bottom), the axis only replaces that plane's height at every point.
+void check_sweep_plane(const Section& sw, const CaseSpec& spec) {
+    if (spec.sweep->plane_distance_m.empty()) return;
+    const bool bottom = spec.sweep->plane_is_bottom;
+    const std::string key = bottom ? "bottom_distance" : "surface_distance";
+    if (!spec.fish && !spec.robot)
+        fail(sw.where(key), "measures the gap from the sensing body: the case needs a [fish] or [robot]");
+    if (bottom ? !spec.water.bottom : !spec.water.surface)
+        fail(sw.where(key), std::string("moves the ") + (bottom ? "bottom" : "water surface") + ": give [water] " +
+                                (bottom ? "bottom_z" : "surface_z") +
+                                " too (the axis replaces its height at every point)");
+}
+
 CaseSpec read_root(const toml::table& root, const Context& ctx) {
     const Section sec{root, "", 1, ctx};
     check_keys(sec, {"title", "description", "frequency", "signal", "water", "mesh", "fish", "robot", "object", "source",
@@ -1628,6 +1656,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
     if (spec.sweep) check_sweep_frequencies(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
+    if (spec.sweep) check_sweep_plane(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
     if (placement) spec.placement = read_placement(*placement, spec, candidate_rings);
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.layouts.empty())
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "each [[layout]] says how its sensors are read; remove readings");

@@ -40,6 +40,11 @@ struct SweepSpec {
                                                // only the one named is in the water
     std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
     std::vector<double> frequency_Hz;          // axis; a fixed part per (water, frequency) pair
+    // Axis surface_distance or bottom_distance: the gap (m) between the sensing body and
+    // the water surface (above its highest point) or the bottom (below its lowest point);
+    // a fixed part per value, with that plane moved to it.
+    std::vector<double> plane_distance_m;
+    bool plane_is_bottom = false;              // the axis moves the bottom, else the surface
     std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
     std::vector<double> permittivity_relative; // axis; the object's relative permittivity (needs a frequency)
     std::vector<double> size_m;                // axis; sphere radius, or the largest half-extent

@@ -4,6 +4,7 @@
 
 #include "cases/scene/scene_builder.hpp"
 #include "cases/scene/scene_rules.hpp"
+#include "cases/sweep/moved_plane.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_quality.hpp"
 #include "geometry/message_text.hpp"
@@ -64,7 +65,7 @@ void require_resolvable(const TriangleMesh& object, const Vec3& at, const std::s
 }  // namespace
 
 PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std::vector<TriangleMesh> fixed)
-    : plan_(&plan), has_body_(spec.fish || spec.robot), planes_(spec.water.planes()) {
+    : plan_(&plan), has_body_(spec.fish || spec.robot) {
     if (spec.tank) {
         // The walls stay but hold the water: they are checked as walls, not as a surface to keep away from.
         const std::size_t at = has_body_ ? 1 : 0;
@@ -73,6 +74,10 @@ PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std:
         tank_.emplace(*spec.tank, tank_walls_mesh(*spec.tank));
     }
     for (TriangleMesh& m : fixed) fixed_.emplace_back(std::move(m));
+    // Each fixed part's planes: a plane-distance axis moves one of them per fixed part.
+    const TriangleMesh no_body;
+    for (std::size_t k = 0; k < plan.fixed_count(); ++k)
+        planes_.push_back(fixed_water_bounds(spec, plan, k, has_body_ ? fixed_.front().mesh() : no_body).planes());
     for (const SourceSpec& src : spec.sources)
         for (const auto& p : source_points(src)) free_points_.push_back(p.position);
     for (const ProbePoint& p : spec.probe_points) free_points_.push_back(to_vec(p.position_m));
@@ -128,7 +133,7 @@ double PointPlacement::distance_to_fixed(const Vec3& x) const {
     return d;
 }
 
-MaskReason PointPlacement::check(const TriangleMesh& object) const {
+MaskReason PointPlacement::check(const TriangleMesh& object, std::size_t fixed) const {
     for (std::size_t k = 0; k < fixed_.size(); ++k) {
         const SurfaceIndex& f = fixed_[k];
         const MaskReason reason = k == 0 && has_body_ ? MaskReason::touches_body : MaskReason::touches_object;
@@ -137,7 +142,7 @@ MaskReason PointPlacement::check(const TriangleMesh& object) const {
         if (box_inside(object, f.box()) && f.contains(object.corner(0, 0))) return reason;
         if (box_inside(f.mesh(), mesh_box(object)) && contains_point(object, f.mesh().corner(0, 0))) return reason;
     }
-    for (const PlaneSpec& plane : planes_)
+    for (const PlaneSpec& plane : planes_[fixed])
         if (reach_beyond_plane(object, plane) > -kMinGapInPanels * typical_edge(object)) return MaskReason::beyond_plane;
     if (tank_ && !tank_->breaks(object).empty()) return MaskReason::beyond_plane;
     if (!free_points_.empty()) {
@@ -175,7 +180,7 @@ Placement PointPlacement::place(const std::vector<std::size_t>& index, const Tri
         at += t * direction_[m];
     }
     p.offset = at;
-    p.mask = check(moved);
+    p.mask = check(moved, plan.water_of(index));
     return p;
 }
 

@@ -1,7 +1,8 @@
 #pragma once
 // Where the moving object goes at a sweep point, and whether it may go there.
 // Built once per run from the surfaces that stay (body and unmoving objects, in
-// spatial indexes), the insulating plane and the free source and probe points;
+// spatial indexes), the insulating planes (per fixed part: a plane-distance axis
+// moves one) and the free source and probe points;
 // each point then costs a few index queries on the object's mesh, moved rigidly.
 //
 // A point is placed on the planar grid (grid axes), at a clearance from the body
@@ -49,12 +50,12 @@ public:
     double clearance(const TriangleMesh& object) const;
 
 private:
-    MaskReason check(const TriangleMesh& object) const;
+    MaskReason check(const TriangleMesh& object, std::size_t fixed) const;
 
     const SweepPlan* plan_;
     std::vector<SurfaceIndex> fixed_;  // body first when has_body_
     bool has_body_ = false;
-    std::vector<PlaneSpec> planes_;  // the water surface and bottom given
+    std::vector<std::vector<PlaneSpec>> planes_;  // per fixed part: the water surface and bottom
     std::optional<TankWalls> tank_;    // the case's [tank], outward
     std::vector<Vec3> free_points_;    // [[source]] points and probe points
     Vec3 reference_point_ = Vec3::Zero();  // without a body: the first source point

@@ -8,6 +8,7 @@
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/dipole_check.hpp"
+#include "cases/sweep/moved_plane.hpp"
 #include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "cases/sweep/waveform_synthesis.hpp"
@@ -70,6 +71,17 @@ std::vector<S> flatten(const std::vector<std::vector<S>>& rows) {
     std::vector<S> out;
     for (const auto& r : rows) out.insert(out.end(), r.begin(), r.end());
     return out;
+}
+
+// The height of the moved plane at each value of a plane-distance axis: what a reader
+// needs to place that plane by hand.
+void write_plane_heights(H5Dataset axis, const CaseSpec& spec, const SweepPlan& plan, const TriangleMesh& body) {
+    std::vector<double> z;
+    for (std::size_t k = 0; k < plan.plane_distances.size(); ++k) {  // the plane index is innermost
+        const WaterSpec water = fixed_water_bounds(spec, plan, k, body);
+        z.push_back(plan.sweep.plane_is_bottom ? water.bottom->height_m : water.surface->height_m);
+    }
+    axis.set_attribute("plane_z", z);
 }
 
 }  // namespace
@@ -180,7 +192,13 @@ void SweepFile<S>::create_datasets() {
         baseline_shape.insert(baseline_shape.begin() + 1, hsize_t(plan.frequencies.size()));
         baseline_dims.insert(baseline_dims.begin() + 1, "frequency");
     }
-    const std::string per = per_frequency ? "per water conductivity and frequency" : "per water conductivity";
+    std::string per = per_frequency ? "per water conductivity and frequency" : "per water conductivity";
+    if (const int d = plan.axis(AxisKind::plane_distance); d >= 0) {  // innermost of the fixed axes
+        baseline_shape.insert(baseline_shape.end() - 1, hsize_t(plan.plane_distances.size()));
+        baseline_dims.insert(baseline_dims.end() - 1, plan.axes[d].name);
+        per += (per_frequency ? ", " : " and ") + std::string("plane distance");
+        write_plane_heights(sweep.dataset(plan.axes[d].name), spec, plan, base.waters.front().scene().surfaces.front().mesh);
+    }
     sweep.write("baseline_reading", flatten(readings), baseline_shape, sensors.units,
                 sensors.skin ? "baseline transdermal voltage per skin panel, " + per : "baseline sensor reading, " + per)
         .label_dimensions(baseline_dims);

@@ -5,8 +5,8 @@
 # demo with two objects and method "auto", a robot sweep, a sweep without a body
 # (canonical_falloff), an emitter waveform with frequency and permittivity axes
 # (biphasic_pulse: /signal and the synthesis datasets), a complex sweep with amplitude and phase
-# channels (capacitive_prey), and murk solve on a fish (real numbers), a membrane at 100 Hz (complex
-# numbers) and a point emitter (probes). The checks themselves are in
+# channels (capacitive_prey), a bottom_distance axis (robot_bottom), and murk solve on a fish
+# (real numbers), a membrane at 100 Hz (complex numbers) and a point emitter (probes). The checks themselves are in
 # check_netcdf_readers.py and check_layout_documented.py.
 # Needs Debian's python3-xarray, python3-h5netcdf, python3-netcdf4 and netcdf-bin (tools/test.sh).
 # Usage: netcdf_readers.sh MURK SOURCE_DIR
@@ -30,7 +30,7 @@ sed -e 's/^object = "prey"/alternatives = ["prey", "stone"]\nmethod = "auto"/' \
     "$examples/fish_detection.toml" > "$dir/two_objects.toml"
 grep -q '^alternatives = \["prey", "stone"\]' "$dir/two_objects.toml" || { echo "could not write the two-object case"; exit 1; }
 for case in "$examples/fish_detection" "$examples/robot_detection" "$examples/canonical_falloff" "$dir/two_objects" \
-            "$examples/biphasic_pulse" "$examples/capacitive_prey"; do
+            "$examples/biphasic_pulse" "$examples/capacitive_prey" "$examples/robot_bottom"; do
   "$murk" run "$case.toml" -o "$dir/run_$(basename "$case").h5" --quiet --threads 1 2> "$dir/err.txt" \
     || { cat "$dir/err.txt"; echo "murk run $case failed"; exit 1; }
 done
