@@ -89,8 +89,8 @@ TEST_CASE("scene builder: every example case reads and builds") {
         ++count;
         const CaseSpec spec = read_case_file(entry.path().string());
         std::size_t panels = 0, surfaces = 0;
-        // the sensing body, if the case has one, is the baseline's only surface
-        const std::size_t bodies = spec.fish || spec.robot ? 1 : 0;
+        // the sensing body, if the case has one, and a tank's walls are the baseline's surfaces
+        const std::size_t bodies = (spec.fish || spec.robot ? 1 : 0) + (spec.tank ? 1 : 0);
         if (case_needs_complex(spec)) {
             const Scene<Complex> scene = build_scene<Complex>(spec, true);
             for (const auto& s : scene.surfaces) panels += s.mesh.size();

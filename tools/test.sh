@@ -71,6 +71,14 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 # cli_solver_choice (murk solve four times, two of them compressed, and xarray: 14 s in build/)
 # likewise: the compressed path is unit-tested sanitized (tests/test_compressed_system.cpp,
 # tests/test_hmatrix.cpp) and the [mesh] keys by the reader's tests.
+# The command-line tests of bounded water and waveforms (cli_plane_distance_axis: 30 s in build/
+# on a busy machine, cli_signal_waveform 18 s, cli_tank 13 s, cli_shallow_water 7 s: murk run and
+# solve again and again, with kills, shares and xarray) are left out likewise: their readers'
+# refusals, the image series, the tank's solver role and refusals, and the waveform's
+# decomposition and synthesis are unit-tested sanitized (tests/test_image_series.cpp,
+# tests/test_tank.cpp, tests/test_waveform.cpp), and cli_phase_channel runs murk run on a
+# complex case. So are the image series' three meshed or entry-wise comparisons (2 to 4 s each
+# in build/), whose small cases beside them run sanitized.
 # "electrode hulls: the drive current of two rings converges monotonically" solves four dense
 # systems of up to 4,536 panels (7 s in build/ on a busy machine, minutes sanitized); the hulls
 # it meshes are unit-tested sanitized by the area and quality tests beside it. "patch electrodes:
@@ -80,6 +88,9 @@ bash tools/build_tree.sh build-sanitize -DCMAKE_BUILD_TYPE=Sanitize -DMURK_BENCH
 slow='^(cli_verify_quick|cli_run_methods|cli_run_resume|cli_plot_and_inspect|cli_solve_examples|cli_layout_compare|cli_placement_run'
 slow+='|cli_kill_resume|cli_two_runs|cli_mpi_ranks|cli_slurm_array|cli_shard_merge|cli_netcdf_readers|cli_paraview_sidecar'
 slow+='|cli_disk_full|cli_run_refusals|cli_solver_choice'
+slow+='|cli_plane_distance_axis|cli_signal_waveform|cli_tank|cli_shallow_water'
+slow+="|image series: a meshed block of sediment.*|image series: meshed insulating slabs.*"
+slow+="|image series: dense and entry-wise assembly agree with sediment images.*"
 slow+="|the computed tensor of a rotated prolate spheroid.*|the dipole path approaches the exact path.*"
 slow+="|mesh zones: the image of a sphere by the flank converges.*"
 slow+="|electrode hulls: the drive current of two rings converges monotonically.*"
