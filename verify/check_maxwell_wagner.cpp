@@ -13,8 +13,6 @@
 
 #include <cmath>
 #include <cstdio>
-#include <map>
-#include <utility>
 
 namespace murk {
 
@@ -48,17 +46,6 @@ Complex computed_factor(int level, double omega, const QuadratureOptions& quad, 
 
 void check_maxwell_wagner_sphere(const VerifyOptions& options, const std::function<void(CheckResult)>& add) {
     const double tau = exact::maxwell_wagner_relaxation_time(kObject, kObjectEps, kWater, kWaterEps);
-    // One solve per level and frequency serves both rows (amplitude and phase).
-    std::map<std::pair<int, double>, std::pair<Complex, int>> solved;
-    const auto factor_at = [&](int level, double omega, int& panels) {
-        auto it = solved.find({level, omega});
-        if (it == solved.end()) {
-            const Complex k = computed_factor(level, omega, options.quadrature, panels);
-            it = solved.emplace(std::make_pair(level, omega), std::make_pair(k, panels)).first;
-        }
-        panels = it->second.second;
-        return it->second.first;
-    };
     for (double ratio : {0.01, 0.3, 1.0, 3.0, 100.0}) {  // f / f_MW
         const double omega = ratio / tau;
         const Complex reference = exact::maxwell_wagner_dipole_factor(kObject, kObjectEps, kWater, kWaterEps, omega);
@@ -68,26 +55,11 @@ void check_maxwell_wagner_sphere(const VerifyOptions& options, const std::functi
         amplitude.name = std::string("Maxwell-Wagner sphere, ") + at + ", |K|";
         amplitude.source = "Morgan & Green 2003, Maxwell-Wagner relaxation";
         amplitude.quantity = "|dipole factor K|";
-        amplitude.tolerance = options.quick ? 0.01 : 0.005;
-        add(refine(amplitude, options, [&](int level) {
-            LevelValue v;
-            v.computed = std::abs(factor_at(level, omega, v.panels));
-            v.reference = std::abs(reference);
-            v.error = relative_error(v.computed, v.reference);
-            return v;
-        }));
-        CheckResult phase = amplitude;
-        phase.name = std::string("Maxwell-Wagner sphere, ") + at + ", arg K (rad)";
-        phase.quantity = "phase of K (rad)";
-        phase.absolute = true;
-        phase.tolerance = options.quick ? 0.01 : 0.005;  // rad
-        add(refine(phase, options, [&](int level) {
-            LevelValue v;
-            v.computed = std::arg(factor_at(level, omega, v.panels));
-            v.reference = std::arg(reference);
-            v.error = std::abs(v.computed - v.reference);
-            return v;
-        }));
+        amplitude.tolerance = options.quick ? 0.01 : 0.005;  // and rad for the phase
+        add_amplitude_and_phase(amplitude, std::string("Maxwell-Wagner sphere, ") + at + ", arg K (rad)",
+                                "phase of K (rad)", reference, options,
+                                [&](int level, int& panels) { return computed_factor(level, omega, options.quadrature, panels); },
+                                add);
     }
 }
 

@@ -11,8 +11,6 @@
 
 #include <cmath>
 #include <cstdio>
-#include <map>
-#include <utility>
 
 namespace murk {
 
@@ -54,17 +52,6 @@ Complex membrane_amplitude(int level, double omega, const QuadratureOptions& qua
 
 void check_membrane_capacitance(const VerifyOptions& options, const std::function<void(CheckResult)>& add) {
     const double tau = exact::membrane_charging_time(kRadius, kConductance, kCapacitance, kInside, kOutside);
-    // One solve per level and frequency serves both rows (amplitude and phase).
-    std::map<std::pair<int, double>, std::pair<Complex, int>> solved;
-    const auto amplitude_at = [&](int level, double omega, int& panels) {
-        auto it = solved.find({level, omega});
-        if (it == solved.end()) {
-            const Complex a = membrane_amplitude(level, omega, options.quadrature, panels);
-            it = solved.emplace(std::make_pair(level, omega), std::make_pair(a, panels)).first;
-        }
-        panels = it->second.second;
-        return it->second.first;
-    };
     for (double ratio : {0.01, 0.3, 1.0, 3.0, 100.0}) {  // f / f_m
         const double omega = ratio / tau;
         const Complex reference =
@@ -75,26 +62,11 @@ void check_membrane_capacitance(const VerifyOptions& options, const std::functio
         amplitude.name = std::string("membrane sphere with C_m, ") + at + ", |dV|";
         amplitude.source = "Grosse & Schwan 1992, Schwan eq. with C_m, g_m";
         amplitude.quantity = "amplitude of dV cos(theta) (V)";
-        amplitude.tolerance = options.quick ? 0.01 : 0.005;
-        add(refine(amplitude, options, [&](int level) {
-            LevelValue v;
-            v.computed = std::abs(amplitude_at(level, omega, v.panels));
-            v.reference = std::abs(reference);
-            v.error = relative_error(v.computed, v.reference);
-            return v;
-        }));
-        CheckResult phase = amplitude;
-        phase.name = std::string("membrane sphere with C_m, ") + at + ", arg dV";
-        phase.quantity = "phase of dV (rad)";
-        phase.absolute = true;
-        phase.tolerance = options.quick ? 0.01 : 0.005;  // rad
-        add(refine(phase, options, [&](int level) {
-            LevelValue v;
-            v.computed = std::arg(amplitude_at(level, omega, v.panels));
-            v.reference = std::arg(reference);
-            v.error = std::abs(v.computed - v.reference);
-            return v;
-        }));
+        amplitude.tolerance = options.quick ? 0.01 : 0.005;  // and rad for the phase
+        add_amplitude_and_phase(amplitude, std::string("membrane sphere with C_m, ") + at + ", arg dV",
+                                "phase of dV (rad)", reference, options,
+                                [&](int level, int& panels) { return membrane_amplitude(level, omega, options.quadrature, panels); },
+                                add);
     }
 }
 

@@ -8,6 +8,7 @@
 
 #include <complex>
 #include <functional>
+#include <string>
 
 namespace murk::verification {
 
@@ -29,6 +30,16 @@ struct LevelValue {
 
 // Runs `at_level` on every refinement level and reports the finest.
 CheckResult refine(CheckResult row, const VerifyOptions& options, const std::function<LevelValue(int level)>& at_level);
+
+// A complex quantity checked as two rows from one computation per level: its
+// amplitude (relative error, `amplitude` as given) and its phase in radians
+// (absolute error, same tolerance, named `phase_name` and `phase_quantity`).
+// The frequency checks (Maxwell-Wagner sphere, membrane capacitance) use it.
+void add_amplitude_and_phase(const CheckResult& amplitude, const std::string& phase_name,
+                             const std::string& phase_quantity, std::complex<double> reference,
+                             const VerifyOptions& options,
+                             const std::function<std::complex<double>(int level, int& panels)>& computed_at,
+                             const std::function<void(CheckResult)>& add);
 
 // A single closed surface in a scene with the given interface.
 template <class S>
