@@ -4,6 +4,8 @@
 // 9th edition, 2019).
 #include "cases/input/case_reader.hpp"
 #include "geometry/input_error.hpp"
+#include "geometry/mesh_io.hpp"
+#include "geometry/shapes.hpp"
 
 #include <doctest/doctest.h>
 
@@ -1202,4 +1204,51 @@ TEST_CASE("case reader: water between a surface and a bottom, and a sediment bot
                 "water.image_tolerance", "applies only to water between");
     check_error(fish_with("[water]", "surface_z = \"1 m\"\nbottom_z = \"-1 m\"\nimage_tolerance = 0"),
                 "image_tolerance", "water.image_tolerance", "must lie between");
+}
+
+TEST_CASE("case reader: the wall_distance axis and the wall it moves") {
+    const std::string tank = "[tank]\nshape = \"box\"\nsize = [\"40 cm\", \"20 cm\", \"20 cm\"]\n"
+                             "centre = [\"0 cm\", \"0 cm\", \"0 cm\"]\npanel_size = \"4 cm\"\n";
+    const std::string object = "[[object]]\nname = \"p\"\nshape = \"sphere\"\nradius = \"2 mm\"\n"
+                               "position = [\"0 cm\", \"3 cm\", \"0 cm\"]\nconductivity = \"1 S/m\"\n";
+    auto with_sweep = [&](const std::string& sweep, const std::string& tank_table) {
+        return kFish + tank_table + object + "[sweep]\n" + sweep + "\n";
+    };
+    const CaseSpec s = read_case_text(with_sweep("wall = \"-y\"\nwall_distance = [\"1 cm\", \"2 cm\"]", tank), "case.toml");
+    REQUIRE(s.sweep);
+    CHECK(s.sweep->moved == MovedBoundary::wall);
+    CHECK(s.sweep->wall_axis == 1);
+    CHECK(s.sweep->wall_sign == -1);
+    REQUIRE(s.sweep->boundary_distance_m.size() == 2);
+    CHECK(s.sweep->boundary_distance_m[1] == doctest::Approx(0.02));
+    const CaseSpec x = read_case_text(with_sweep("wall = \"+x\"\nwall_distance = [\"1 cm\"]", tank), "case.toml");
+    CHECK(x.sweep->wall_axis == 0);
+    CHECK(x.sweep->wall_sign == 1);
+
+    check_error(with_sweep("wall = \"+x\"\nwall_distance = [\"1 cm\"]", ""), "wall_distance", "sweep.wall_distance",
+                "moves a wall of the tank");
+    check_error(with_sweep("wall_distance = [\"1 cm\"]", tank), "[sweep]", "sweep.wall", "+x");
+    check_error(with_sweep("wall = \"+z\"\nwall_distance = [\"1 cm\"]", tank), "wall =", "sweep.wall", "+y");
+    check_error(with_sweep("wall = \"+x\"\nwall_distance = [\"0 cm\"]", tank), "wall_distance", "sweep.wall_distance[1]", "must be positive");
+    check_error(with_sweep("wall = \"+x\"\nsize = [\"1 mm\"]", tank), "wall =", "sweep.wall", "no wall_distance");
+    check_error(with_sweep("surface_distance = [\"1 cm\"]\nwall = \"+x\"\nwall_distance = [\"1 cm\"]", tank),
+                "wall_distance", "sweep.wall_distance", "a sweep moves one boundary");
+
+    // A tank read from a mesh file has no named walls.
+    namespace fs = std::filesystem;
+    const fs::path dir = fs::temp_directory_path() / "murk_test_wall_axis";
+    fs::create_directories(dir);
+    write_stl((dir / "walls.stl").string(), make_box(Vec3(0.4, 0.2, 0.2), 0.05));
+    const std::string mesh_tank = "[tank]\nshape = \"mesh\"\nfile = \"" + (dir / "walls.stl").string() + "\"\n";
+    const std::string text = with_sweep("wall = \"+x\"\nwall_distance = [\"1 cm\"]", mesh_tank);
+    std::string m;
+    try {
+        read_case_text(text, "case.toml");
+    } catch (const InputError& e) {
+        m = e.what();
+    }
+    CAPTURE(m);
+    CHECK(m.find("sweep.wall_distance: moves a side wall of a box or cylinder [tank]") != std::string::npos);
+    CHECK(m.find('\n') == std::string::npos);
+    fs::remove_all(dir);
 }

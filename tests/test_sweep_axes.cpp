@@ -123,25 +123,27 @@ TEST_CASE("sweep axes: unflatten counts in C order, the last axis fastest") {
     for (std::size_t q = 0; q < 5; ++q) CHECK(unflatten(q, one) == std::vector<std::size_t>{q});
 }
 
-TEST_CASE("sweep axes: a plane-distance axis follows frequency, and each (water, frequency, gap) has its fixed part") {
+TEST_CASE("sweep axes: a boundary-distance axis follows frequency, and each (water, frequency, gap) has its fixed part") {
     SweepSpec s;
     s.water_conductivity_S_per_m = {0.005, 0.03};
     s.frequency_Hz = {100.0, 1000.0, 10000.0};
-    s.plane_distance_m = {0.01, 0.02, 0.04, 0.08};
-    s.plane_is_bottom = true;
+    s.boundary_distance_m = {0.01, 0.02, 0.04, 0.08};
+    s.moved = MovedBoundary::bottom;
     s.size_m = {0.001, 0.002};
     SweepPlan plan;
     plan.sweep = s;
     plan.axes = sweep_axes(s);
     CHECK(names_of(plan.axes) == std::vector<std::string>{"water_conductivity", "frequency", "bottom_distance", "size"});
     CHECK(plan.axes[2].units == "m");
-    s.plane_is_bottom = false;
+    s.moved = MovedBoundary::surface;
     CHECK(sweep_axes(s)[2].name == "surface_distance");
+    s.moved = MovedBoundary::wall;
+    CHECK(sweep_axes(s)[2].name == "wall_distance");
     plan.shape = axis_shape(plan.axes);
     plan.total = point_count(plan.axes);
     plan.waters = s.water_conductivity_S_per_m;
     plan.frequencies = s.frequency_Hz;
-    plan.plane_distances = s.plane_distance_m;
+    plan.boundary_distances = s.boundary_distance_m;
     REQUIRE(plan.fixed_count() == 2 * 3 * 4);
     // Counted by hand in nested loops (C order): every point's fixed part holds its own
     // water, frequency and gap, and the fixed parts are numbered water outer, gap inner.
@@ -154,8 +156,8 @@ TEST_CASE("sweep axes: a plane-distance axis follows frequency, and each (water,
                     CHECK(fixed == (w * 3 + f) * 4 + d);
                     CHECK(plan.fixed_water(fixed) == s.water_conductivity_S_per_m[w]);
                     CHECK(*plan.fixed_frequency(fixed, std::nullopt) == s.frequency_Hz[f]);
-                    CHECK(*plan.fixed_plane_distance(fixed) == s.plane_distance_m[d]);
+                    CHECK(*plan.fixed_boundary_distance(fixed) == s.boundary_distance_m[d]);
                 }
-    plan.plane_distances.clear();  // without the axis: no gap, and the count of before
-    CHECK(!plan.fixed_plane_distance(0));
+    plan.boundary_distances.clear();  // without the axis: no gap, and the count of before
+    CHECK(!plan.fixed_boundary_distance(0));
 }

@@ -1196,21 +1196,37 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
     return v;
 }
 
-// The axis surface_distance or bottom_distance (one of the two): gaps between the sensing
-// body and the plane it moves.
-void read_plane_distance_axis(const Section& sec, SweepSpec& s) {
-    const bool surface = sec.find("surface_distance"), bottom = sec.find("bottom_distance");
-    if (surface && bottom)
-        fail(sec.where("bottom_distance"), "a sweep moves one plane: give surface_distance or bottom_distance, not both");
-    if (!surface && !bottom) return;
-    s.plane_is_bottom = bottom;
-    s.plane_distance_m = read_axis_values(sec, bottom ? "bottom_distance" : "surface_distance", Dimension::length);
+// The axis surface_distance, bottom_distance or wall_distance (one of the three): gaps
+// between the sensing body and the boundary it moves; wall_distance names its wall by
+// `wall`, "+x", "-x", "+y" or "-y" (the side of the tank it lies on).
+void read_boundary_distance_axis(const Section& sec, SweepSpec& s) {
+    const std::vector<std::pair<const char*, MovedBoundary>> keys = {
+        {"surface_distance", MovedBoundary::surface}, {"bottom_distance", MovedBoundary::bottom},
+        {"wall_distance", MovedBoundary::wall}};
+    const char* given = nullptr;
+    for (const auto& [key, boundary] : keys) {
+        if (!sec.find(key)) continue;
+        if (given)
+            fail(sec.where(key), std::string("a sweep moves one boundary: give one of surface_distance, "
+                                             "bottom_distance and wall_distance, not both ") + given + " and " + key);
+        given = key;
+        s.moved = boundary;
+        s.boundary_distance_m = read_axis_values(sec, key, Dimension::length);
+    }
+    if (sec.find("wall") && s.moved != MovedBoundary::wall)
+        fail(sec.where("wall"), "names the wall a wall_distance axis moves; the sweep has no wall_distance");
+    if (s.moved != MovedBoundary::wall || !given) return;
+    const std::vector<std::string> walls = {"+x", "-x", "+y", "-y"};
+    const std::string wall =
+        read_choice(sec, "wall", required(sec, "wall", "the side wall the axis moves, one of " + join(walls)), walls);
+    s.wall_sign = wall[0] == '+' ? 1 : -1;
+    s.wall_axis = wall[1] == 'x' ? 0 : 1;
 }
 
 SweepSpec read_sweep(const Section& sec) {
     check_keys(sec, {"object", "alternatives", "distance", "direction", "size", "conductivity", "water_conductivity", "grid",
                      "frequency", "permittivity", "readings", "method", "dipole_accuracy", "dipole_checks", "coupling_tolerance",
-                     "surface_distance", "bottom_distance"});
+                     "surface_distance", "bottom_distance", "wall_distance", "wall"});
     SweepSpec s;
     s.line = sec.line;
     if (const toml::node* m = sec.find("method")) {
@@ -1260,7 +1276,7 @@ SweepSpec read_sweep(const Section& sec) {
     if (sec.find("water_conductivity"))
         s.water_conductivity_S_per_m = read_axis_values(sec, "water_conductivity", Dimension::conductivity);
     if (sec.find("frequency")) s.frequency_Hz = read_axis_values(sec, "frequency", Dimension::frequency);
-    read_plane_distance_axis(sec, s);
+    read_boundary_distance_axis(sec, s);
     if (sec.find("permittivity")) {
         s.permittivity_relative = read_axis_values(sec, "permittivity", Dimension::permittivity_relative);
         if (s.permittivity_relative.front() < 1.0)
@@ -1299,9 +1315,9 @@ SweepSpec read_sweep(const Section& sec) {
     if (s.direction && s.distance_m.empty()) fail(sec.where("direction"), "direction goes with a distance axis");
     if (s.distance_m.empty() && !s.grid && s.size_m.empty() && s.conductivity_S_per_m.empty() &&
         s.water_conductivity_S_per_m.empty() && s.alternatives.empty() && s.frequency_Hz.empty() &&
-        s.permittivity_relative.empty() && s.plane_distance_m.empty())
+        s.permittivity_relative.empty() && s.boundary_distance_m.empty())
         fail(sec.where_self(), "no axis to sweep: give distance, size, conductivity, water_conductivity, frequency, "
-                               "permittivity, surface_distance, bottom_distance, alternatives or grid");
+                               "permittivity, surface_distance, bottom_distance, wall_distance, alternatives or grid");
     return s;
 }
 
@@ -1530,15 +1546,27 @@ void check_sweep_frequencies(const Section& sw, const CaseSpec& spec) {
                                        "sweep axis) or a [signal] waveform");
 }
 
-// A plane-distance axis measures from the sensing body and moves a plane the case gives
-// in [water] (surface_z or bottom_z): the case says which water it is (an insulating or
-// sediment bottom), the axis only replaces that plane's height at every point.
-void check_sweep_plane(const Section& sw, const CaseSpec& spec) {
-    if (spec.sweep->plane_distance_m.empty()) return;
-    const bool bottom = spec.sweep->plane_is_bottom;
-    const std::string key = bottom ? "bottom_distance" : "surface_distance";
+// A distance-to-boundary axis measures from the sensing body and moves a boundary the
+// case gives: a plane in [water] (surface_z or bottom_z; the case says which water it
+// is, an insulating or sediment bottom, the axis only replaces the plane's height at
+// every point) or a side wall of a generated [tank] (the axis moves the whole tank
+// horizontally; an imported tank mesh has no named walls to move).
+void check_sweep_boundary(const Section& sw, const CaseSpec& spec) {
+    if (spec.sweep->boundary_distance_m.empty()) return;
+    const MovedBoundary moved = spec.sweep->moved;
+    const std::string key = moved == MovedBoundary::bottom  ? "bottom_distance"
+                            : moved == MovedBoundary::wall ? "wall_distance"
+                                                           : "surface_distance";
     if (!spec.fish && !spec.robot)
         fail(sw.where(key), "measures the gap from the sensing body: the case needs a [fish] or [robot]");
+    if (moved == MovedBoundary::wall) {
+        if (!spec.tank) fail(sw.where(key), "moves a wall of the tank: give a [tank] with shape \"box\" or \"cylinder\"");
+        if (spec.tank->shape == TankShape::mesh)
+            fail(sw.where(key), "moves a side wall of a box or cylinder [tank]; a tank read from a mesh file has no "
+                                "named walls to move (move the mesh by hand, one case per distance)");
+        return;
+    }
+    const bool bottom = moved == MovedBoundary::bottom;
     if (bottom ? !spec.water.bottom : !spec.water.surface)
         fail(sw.where(key), std::string("moves the ") + (bottom ? "bottom" : "water surface") + ": give [water] " +
                                 (bottom ? "bottom_z" : "surface_z") +
@@ -1656,7 +1684,7 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
         spec.detection = read_detection(Section{as_table(sec, "detection", *de), "detection", line_of(*de), ctx});
     if (spec.sweep && spec.objects.empty()) fail(sec.where("sweep"), "a sweep changes an [[object]]; the case has none");
     if (spec.sweep) check_sweep_frequencies(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
-    if (spec.sweep) check_sweep_plane(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
+    if (spec.sweep) check_sweep_boundary(Section{*sec.find("sweep")->as_table(), "sweep", spec.sweep->line, ctx}, spec);
     if (placement) spec.placement = read_placement(*placement, spec, candidate_rings);
     if (spec.sweep && spec.sweep->electrode_pairs && !spec.layouts.empty())
         fail(at(ctx, spec.sweep->line, "sweep.readings"), "each [[layout]] says how its sensors are read; remove readings");

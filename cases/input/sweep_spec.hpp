@@ -34,17 +34,23 @@ enum class SweepMethod {
     full,       // the whole system assembled and factored at every point (the reference)
 };
 
+// The boundary a distance-to-boundary axis moves.
+enum class MovedBoundary { surface, bottom, wall };
+
 struct SweepSpec {
     std::string object;                        // the object that moves or changes (default: the first)
     std::vector<std::string> alternatives;     // axis of alternative objects (shapes): at each point
                                                // only the one named is in the water
     std::vector<double> water_conductivity_S_per_m;  // axis; the baseline is solved once per value
     std::vector<double> frequency_Hz;          // axis; a fixed part per (water, frequency) pair
-    // Axis surface_distance or bottom_distance: the gap (m) between the sensing body and
-    // the water surface (above its highest point) or the bottom (below its lowest point);
-    // a fixed part per value, with that plane moved to it.
-    std::vector<double> plane_distance_m;
-    bool plane_is_bottom = false;              // the axis moves the bottom, else the surface
+    // Axis surface_distance, bottom_distance or wall_distance: the gap (m) between the
+    // sensing body and the water surface (above its highest point), the bottom (below its
+    // lowest point) or one side wall of a box or cylinder [tank] (beyond its farthest point
+    // towards that wall); a fixed part per value, with that boundary moved to it.
+    std::vector<double> boundary_distance_m;
+    MovedBoundary moved = MovedBoundary::surface;  // which boundary the axis moves
+    int wall_axis = 0;                         // wall_distance: the wall faces +-x (0) or +-y (1)
+    int wall_sign = 1;                         // wall_distance: +1 the wall on the positive side
     std::vector<double> conductivity_S_per_m;  // axis; 0 insulator, inf conductor
     std::vector<double> permittivity_relative; // axis; the object's relative permittivity (needs a frequency)
     std::vector<double> size_m;                // axis; sphere radius, or the largest half-extent

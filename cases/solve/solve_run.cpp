@@ -221,7 +221,8 @@ void solve_case(const CaseSpec& spec, const SolveOptions& options) {
     if (!options.quiet) {
         std::printf("quadrature: closed form below %g panel diameters, 7-point rule below %g, centroid beyond\n",
                     quad.near_ratio, quad.far_ratio);
-        std::printf("water bounds: %s\n", water_bounds_text(water_bounds_summary(solved.perturbed.images)).c_str());
+        std::printf("water bounds: %s\n", spec.tank ? "closed tank walls (meshed)"
+                                                    : water_bounds_text(water_bounds_summary(solved.perturbed.images)).c_str());
         std::printf("system solver: %s\n",
                     solver_choice_text(solver, std::size_t(system_layout(solved.perturbed).size)).c_str());
         if (spec.tank) std::printf("reference: %s (closed insulating tank)\n", tank_reference_text());

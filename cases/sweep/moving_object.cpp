@@ -83,7 +83,7 @@ MovingObjects<S>::MovingObjects(const CaseSpec& spec, const SweepPlan& plan) : p
     const int size_axis = plan.axis(AxisKind::size), conductivity_axis = plan.axis(AxisKind::conductivity);
     sizes_ = size_axis >= 0 ? plan.axes[size_axis].values.size() : 1;
     conductivities_ = conductivity_axis >= 0 ? plan.axes[conductivity_axis].values.size() : 1;
-    waters_ = plan.fixed_count();  // a form per fixed part (water, frequency, plane distance)
+    waters_ = plan.fixed_count();  // a form per fixed part (water, frequency, boundary distance)
     const int permittivity_axis = plan.axis(AxisKind::permittivity);
     permittivities_ = permittivity_axis >= 0 ? plan.axes[permittivity_axis].values.size() : 1;
     const double forms =

@@ -4,7 +4,7 @@
 
 #include "cases/scene/scene_builder.hpp"
 #include "cases/scene/scene_rules.hpp"
-#include "cases/sweep/moved_plane.hpp"
+#include "cases/sweep/moved_boundary.hpp"
 #include "geometry/input_error.hpp"
 #include "geometry/mesh_quality.hpp"
 #include "geometry/message_text.hpp"
@@ -71,9 +71,15 @@ PointPlacement::PointPlacement(const CaseSpec& spec, const SweepPlan& plan, std:
         const std::size_t at = has_body_ ? 1 : 0;
         MURK_CHECK(fixed.size() > at && fixed[at].name == "tank", "the tank follows the body among the fixed surfaces");
         fixed.erase(fixed.begin() + std::ptrdiff_t(at));
-        tank_.emplace(*spec.tank, tank_walls_mesh(*spec.tank));
     }
     for (TriangleMesh& m : fixed) fixed_.emplace_back(std::move(m));
+    if (spec.tank) {  // the boundary index is the innermost of a fixed part's
+        const std::size_t tanks = plan.sweep.moved == MovedBoundary::wall ? plan.boundary_count() : 1;
+        for (std::size_t k = 0; k < tanks; ++k) {
+            const TankSpec tank = *fixed_tank(spec, plan, k, has_body_ ? fixed_.front().mesh() : TriangleMesh{});
+            tanks_.emplace_back(tank, tank_walls_mesh(tank));
+        }
+    }
     // Each fixed part's planes: a plane-distance axis moves one of them per fixed part.
     const TriangleMesh no_body;
     for (std::size_t k = 0; k < plan.fixed_count(); ++k)
@@ -125,10 +131,10 @@ double PointPlacement::clearance(const TriangleMesh& object) const {
     return d;
 }
 
-double PointPlacement::distance_to_fixed(const Vec3& x) const {
+double PointPlacement::distance_to_fixed(const Vec3& x, std::size_t fixed) const {
     double d = INFINITY;
     for (const SurfaceIndex& f : fixed_) d = std::min(d, f.distance_to(x));
-    if (tank_) d = std::min(d, tank_->distance_to(x));
+    if (const TankWalls* tank = tank_of(fixed)) d = std::min(d, tank->distance_to(x));
     for (const Vec3& p : free_points_) d = std::min(d, (p - x).norm());
     return d;
 }
@@ -144,7 +150,7 @@ MaskReason PointPlacement::check(const TriangleMesh& object, std::size_t fixed) 
     }
     for (const PlaneSpec& plane : planes_[fixed])
         if (reach_beyond_plane(object, plane) > -kMinGapInPanels * typical_edge(object)) return MaskReason::beyond_plane;
-    if (tank_ && !tank_->breaks(object).empty()) return MaskReason::beyond_plane;
+    if (const TankWalls* tank = tank_of(fixed); tank && !tank->breaks(object).empty()) return MaskReason::beyond_plane;
     if (!free_points_.empty()) {
         const double depth = kMinSourceDepthInPanels * typical_edge(object);
         const SurfaceIndex index(object);

@@ -1,8 +1,8 @@
 #pragma once
 // Where the moving object goes at a sweep point, and whether it may go there.
 // Built once per run from the surfaces that stay (body and unmoving objects, in
-// spatial indexes), the insulating planes (per fixed part: a plane-distance axis
-// moves one) and the free source and probe points;
+// spatial indexes), the insulating planes and the tank's walls (per fixed part: a
+// boundary-distance axis moves one) and the free source and probe points;
 // each point then costs a few index queries on the object's mesh, moved rigidly.
 //
 // A point is placed on the planar grid (grid axes), at a clearance from the body
@@ -40,9 +40,9 @@ public:
     // The placement at a point of `object`, the moving object's mesh in its frame.
     Placement place(const std::vector<std::size_t>& index, const TriangleMesh& object) const;
 
-    // Distance (m) from x to the nearest surface that stays, free source point or
-    // probe point: the distance the dipole path's error depends on.
-    double distance_to_fixed(const Vec3& x) const;
+    // Distance (m) from x to the nearest surface that stays in fixed part `fixed`, free
+    // source point or probe point: the distance the dipole path's error depends on.
+    double distance_to_fixed(const Vec3& x, std::size_t fixed) const;
 
     // What the distance axis measures from: the clearance (m) of an object mesh,
     // as placed, from the body's surface, or from the first source point in a
@@ -56,7 +56,12 @@ private:
     std::vector<SurfaceIndex> fixed_;  // body first when has_body_
     bool has_body_ = false;
     std::vector<std::vector<PlaneSpec>> planes_;  // per fixed part: the water surface and bottom
-    std::optional<TankWalls> tank_;    // the case's [tank], outward
+    // The walls of fixed part k's [tank] (outward): tanks_[k % tanks_.size()]; one per
+    // value of a wall_distance axis, else the case's one; none without a tank.
+    std::vector<TankWalls> tanks_;
+    const TankWalls* tank_of(std::size_t fixed) const {
+        return tanks_.empty() ? nullptr : &tanks_[fixed % tanks_.size()];
+    }
     std::vector<Vec3> free_points_;    // [[source]] points and probe points
     Vec3 reference_point_ = Vec3::Zero();  // without a body: the first source point
     std::vector<Vec3> start_;          // per moving object: its position in the case

@@ -17,7 +17,8 @@ namespace {
 AxisKind kind_of(const std::string& name, const std::string& file) {
     static const std::pair<const char*, AxisKind> kinds[] = {
         {"water_conductivity", AxisKind::water_conductivity}, {"frequency", AxisKind::frequency},
-        {"surface_distance", AxisKind::plane_distance},        {"bottom_distance", AxisKind::plane_distance},
+        {"surface_distance", AxisKind::boundary_distance},     {"bottom_distance", AxisKind::boundary_distance},
+        {"wall_distance", AxisKind::boundary_distance},
         {"alternative", AxisKind::alternative},                {"permittivity", AxisKind::permittivity},
         {"conductivity", AxisKind::conductivity},             {"size", AxisKind::size},
         {"distance", AxisKind::distance},                     {"grid_u", AxisKind::grid_u},

@@ -1,7 +1,7 @@
 #pragma once
 // The axes of a sweep and the product of their values: the set of points a
 // `murk run` computes. Axis order in every array is fixed:
-// water_conductivity, frequency, surface_distance or bottom_distance (the fixed axes: each
+// water_conductivity, frequency, surface_distance, bottom_distance or wall_distance (the fixed axes: each
 // combination of their values is a fixed part of its own), alternative, conductivity, permittivity, size, distance, grid_u,
 // grid_v (those given).
 #include "cases/input/sweep_spec.hpp"
@@ -12,7 +12,7 @@
 
 namespace murk {
 
-enum class AxisKind { water_conductivity, frequency, plane_distance, alternative, conductivity, permittivity, size, distance, grid_u, grid_v };
+enum class AxisKind { water_conductivity, frequency, boundary_distance, alternative, conductivity, permittivity, size, distance, grid_u, grid_v };
 
 struct SweepAxis {
     AxisKind kind;

@@ -1,7 +1,7 @@
 #include "cases/sweep/sweep_baseline.hpp"
 
 #include "cases/scene/scene_builder.hpp"
-#include "cases/sweep/moved_plane.hpp"
+#include "cases/sweep/moved_boundary.hpp"
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
 
@@ -132,27 +132,34 @@ template <class S>
 std::vector<Scene<S>> fixed_scenes(const CaseSpec& spec, const SweepPlan& plan) {
     CaseSpec fixed_case = spec;  // once per run: the case with only the objects that stay
     fixed_case.objects = plan.still;
-    // A plane-distance axis measures from the body: mesh the fixed part in unbounded water
-    // first, which also refuses what is wrong without the planes in its own words.
+    // A boundary-distance axis measures from the body: mesh the fixed part in unbounded water
+    // first, which also refuses what is wrong without the planes and walls in its own words.
     TriangleMesh body;
-    if (!plan.plane_distances.empty()) {
+    if (!plan.boundary_distances.empty()) {
         CaseSpec unbounded = fixed_case;
-        unbounded.water.surface.reset(), unbounded.water.bottom.reset();
+        unbounded.water.surface.reset(), unbounded.water.bottom.reset(), unbounded.tank.reset();
         body = build_scene<S>(unbounded, true).surfaces.front().mesh;
     }
     std::vector<Scene<S>> scenes;
-    for (std::size_t k = 0; k < plan.fixed_count(); ++k) {  // per (water, frequency, plane distance)
+    for (std::size_t k = 0; k < plan.fixed_count(); ++k) {  // per (water, frequency, boundary distance)
         fixed_case.water = fixed_water_bounds(spec, plan, k, body);
+        fixed_case.tank = fixed_tank(spec, plan, k, body);
         fixed_case.water.conductivity_S_per_m = plan.fixed_water(k);
         fixed_case.frequency_Hz = plan.fixed_frequency(k, spec.frequency_Hz);
-        if (plan.plane_distances.empty()) {
+        if (plan.boundary_distances.empty()) {
             scenes.push_back(build_scene<S>(fixed_case, true));
             continue;
         }
-        try {  // what fails now is the moved plane cutting the body, an object that stays or a source
+        try {  // what fails now is the moved boundary cutting the body, an object that stays or a source
             scenes.push_back(build_scene<S>(fixed_case, true));
         } catch (const InputError& e) {
-            throw InputError(plane_value_where(plan, k) + ": this plane cannot be placed: " + e.what());
+            // The builder names the moved boundary by the axis's key, which the prefix already names.
+            std::string why = e.what();
+            const std::string key = plan.where + "." + plan.axes[plan.axis(AxisKind::boundary_distance)].name + ": ";
+            if (why.rfind(key, 0) == 0) why.erase(0, key.size());
+            throw InputError(boundary_value_where(plan, k) + ": " +
+                             (plan.sweep.moved == MovedBoundary::wall ? "the tank" : "this plane") +
+                             " cannot be placed: " + why);
         }
     }
     return scenes;

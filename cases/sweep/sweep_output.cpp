@@ -8,7 +8,7 @@
 #include "cases/output/xdmf_writer.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "cases/sweep/dipole_check.hpp"
-#include "cases/sweep/moved_plane.hpp"
+#include "cases/sweep/moved_boundary.hpp"
 #include "cases/sweep/result_finish.hpp"
 #include "cases/sweep/sweep_analysis.hpp"
 #include "cases/sweep/waveform_synthesis.hpp"
@@ -73,15 +73,20 @@ std::vector<S> flatten(const std::vector<std::vector<S>>& rows) {
     return out;
 }
 
-// The height of the moved plane at each value of a plane-distance axis: what a reader
-// needs to place that plane by hand.
-void write_plane_heights(H5Dataset axis, const CaseSpec& spec, const SweepPlan& plan, const TriangleMesh& body) {
-    std::vector<double> z;
-    for (std::size_t k = 0; k < plan.plane_distances.size(); ++k) {  // the plane index is innermost
-        const WaterSpec water = fixed_water_bounds(spec, plan, k, body);
-        z.push_back(plan.sweep.plane_is_bottom ? water.bottom->height_m : water.surface->height_m);
+// Where the moved boundary lies at each value of a boundary-distance axis: what a reader
+// needs to place that plane or tank by hand. A plane's height (attribute plane_z), or the
+// moved wall's coordinate (wall_x or wall_y, with the wall's side in `wall`).
+void write_boundary_positions(H5Dataset axis, const CaseSpec& spec, const SweepPlan& plan, const TriangleMesh& body) {
+    std::vector<double> at;
+    for (std::size_t k = 0; k < plan.boundary_distances.size(); ++k)  // the boundary index is innermost
+        at.push_back(*moved_boundary_position(spec, plan, k, body));
+    if (plan.sweep.moved != MovedBoundary::wall) {
+        axis.set_attribute("plane_z", at);
+        return;
     }
-    axis.set_attribute("plane_z", z);
+    const std::string name = plan.sweep.wall_axis == 0 ? "x" : "y";
+    axis.set_attribute("wall", std::string(plan.sweep.wall_sign > 0 ? "+" : "-") + name);
+    axis.set_attribute("wall_" + name, at);
 }
 
 }  // namespace
@@ -193,11 +198,11 @@ void SweepFile<S>::create_datasets() {
         baseline_dims.insert(baseline_dims.begin() + 1, "frequency");
     }
     std::string per = per_frequency ? "per water conductivity and frequency" : "per water conductivity";
-    if (const int d = plan.axis(AxisKind::plane_distance); d >= 0) {  // innermost of the fixed axes
-        baseline_shape.insert(baseline_shape.end() - 1, hsize_t(plan.plane_distances.size()));
+    if (const int d = plan.axis(AxisKind::boundary_distance); d >= 0) {  // innermost of the fixed axes
+        baseline_shape.insert(baseline_shape.end() - 1, hsize_t(plan.boundary_distances.size()));
         baseline_dims.insert(baseline_dims.end() - 1, plan.axes[d].name);
-        per += (per_frequency ? ", " : " and ") + std::string("plane distance");
-        write_plane_heights(sweep.dataset(plan.axes[d].name), spec, plan, base.waters.front().scene().surfaces.front().mesh);
+        per += (per_frequency ? ", " : " and ") + std::string("boundary distance");
+        write_boundary_positions(sweep.dataset(plan.axes[d].name), spec, plan, base.waters.front().scene().surfaces.front().mesh);
     }
     sweep.write("baseline_reading", flatten(readings), baseline_shape, sensors.units,
                 sensors.skin ? "baseline transdermal voltage per skin panel, " + per : "baseline sensor reading, " + per)

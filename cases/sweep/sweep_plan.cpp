@@ -8,8 +8,8 @@
 namespace murk {
 
 std::size_t SweepPlan::water_of(const std::vector<std::size_t>& index) const {
-    const int w = axis(AxisKind::water_conductivity), f = axis(AxisKind::frequency), d = axis(AxisKind::plane_distance);
-    return ((w >= 0 ? index[w] : 0) * frequency_count() + (f >= 0 ? index[f] : 0)) * plane_count() +
+    const int w = axis(AxisKind::water_conductivity), f = axis(AxisKind::frequency), d = axis(AxisKind::boundary_distance);
+    return ((w >= 0 ? index[w] : 0) * frequency_count() + (f >= 0 ? index[f] : 0)) * boundary_count() +
            (d >= 0 ? index[d] : 0);
 }
 
@@ -80,10 +80,10 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
     const int w = plan.axis(AxisKind::water_conductivity);
     plan.waters = w >= 0 ? plan.axes[w].values : std::vector<double>{spec.water.conductivity_S_per_m};
     plan.frequencies = plan.sweep.frequency_Hz;
-    plan.plane_distances = plan.sweep.plane_distance_m;
-    if (spec.waveform && !plan.plane_distances.empty())  // the synthesis reads one baseline per (water, harmonic)
-        throw InputError(plan.where + (plan.sweep.plane_is_bottom ? ".bottom_distance" : ".surface_distance") +
-                         ": a [signal] waveform and a plane-distance axis do not go together yet; sweep the "
+    plan.boundary_distances = plan.sweep.boundary_distance_m;
+    if (spec.waveform && !plan.boundary_distances.empty())  // the synthesis reads one baseline per (water, harmonic)
+        throw InputError(plan.where + "." + plan.axes[plan.axis(AxisKind::boundary_distance)].name +
+                         ": a [signal] waveform and a distance-to-boundary axis do not go together yet; sweep the "
                          "distance at single frequencies");
     if (spec.waveform) {  // the positions whose waveform is written must exist
         const std::size_t positions = plan.total / plan.frequencies.size();

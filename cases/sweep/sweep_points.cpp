@@ -53,7 +53,7 @@ PointRoutes<S> route_points(const SweepPlan& plan, const PointPlacement& placeme
         q.water = plan.water_of(index);
         q.object = &object;
         q.offset = where.offset;
-        if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre());
+        if (measure) q.size_to_distance = object.shape->half_extent / placement.distance_to_fixed(q.centre(), q.water);
     });
     PointRoutes<S> routes;
     std::vector<std::vector<PlacedPoint<S>>> exacts(plan.fixed_count()), dipoles(plan.fixed_count());

@@ -129,7 +129,7 @@ expect_bad() {
     echo "ok   $name: $(cat "$dir/stderr")"
   fi
 }
-expect_bad "both planes swept" "sweep.bottom_distance: a sweep moves one plane" \
+expect_bad "both planes swept" "sweep.bottom_distance: a sweep moves one boundary" \
   -e 's/^bottom_distance = .*/&\nsurface_distance = ["1 cm"]/'
 expect_bad "zero gap" "sweep.bottom_distance[1]: must be positive" -e 's/^bottom_distance = .*/bottom_distance = ["0 cm", "1 cm"]/'
 expect_bad "negative gap" "sweep.bottom_distance[2]: must be positive" -e 's/^bottom_distance = .*/bottom_distance = ["1 cm", "-1 cm"]/'

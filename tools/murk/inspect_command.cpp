@@ -249,7 +249,10 @@ void print_header(const H5File& file, const H5Group& root) {
         w.images = static_cast<int>(root.int_attribute("water_images"));
         w.tolerance = root.double_attribute("water_image_tolerance");
         w.reach_m = root.double_attribute("water_image_reach_m");
-        std::printf("  water bounds:   %s\n", water_bounds_text(w).c_str());
+        // A tank's walls are panels, not images; the file says so by its reference.
+        const bool tank = root.has_attribute("reference");
+        std::printf("  water bounds:   %s\n", tank ? "closed tank walls (meshed)" : water_bounds_text(w).c_str());
+        if (tank) std::printf("  reference:      %s\n", root.string_attribute("reference").c_str());
     }
 }
 
