@@ -181,6 +181,12 @@ TEST_CASE("signal and sweep: bad waveforms and axes refused with file, line and 
     check_refused(with_signal("frequency = \"1 kHz\"\nsamples = [0, nan, 0]\n"), "nan", "signal.samples[2]", "finite");
     check_refused(with_signal("frequency = \"1 kHz\"\nsamples = [1]\n"), "samples", "signal.samples", "from 2 to");
     check_refused(with_signal("frequency = \"1 kHz\"\nsamples = [1, 0.5, -1]\n"), "samples", "signal.samples", "zero mean");
+    // A cosine of four samples with its closing sample repeated: refused for the repeat,
+    // not for the mean of 0.2 that the repeat causes.
+    check_refused(with_signal("frequency = \"1 kHz\"\nsamples = [1, 0, -1, 0, 1]\n"), "samples", "signal.samples",
+                  "the last sample repeats the first (1)");
+    // A biphasic pulse padded with zeros begins and ends at zero, and is accepted.
+    CHECK_NOTHROW(read_case_text(with_signal("frequency = \"1 kHz\"\nsamples = [0, 1, -1, 0]\n"), "case.toml"));
     check_refused(with_signal("frequency = \"1 kHz\"\nharmonics = [{ order = 0, amplitude = 1 }]\n"), "harmonics",
                   "signal.harmonics[1].order", "at least 1");
     check_refused(with_signal("frequency = \"1 kHz\"\nharmonics = [{ order = -2, amplitude = 1 }]\n"), "harmonics",

@@ -1482,6 +1482,14 @@ WaveformSpec read_waveform(const Section& sec) {
         // murk solves harmonics 1 and up; a mean would be a direct current, which the
         // synthesis would leave out. Rounding of the user's decimals is tolerated.
         if (!(largest > 0.0)) fail(sec.where("samples"), "are all zero: the emitter would carry nothing");
+        // One period without its closing sample: a list that ends where it began (away
+        // from zero, where pulses padded with zeros legitimately begin and end) counts
+        // that instant twice, which skews every harmonic. Checked before the mean, which
+        // the doubled sample also shifts.
+        const double first = w.samples.front(), last = w.samples.back();
+        if (w.samples.size() > 2 && std::abs(first) > 1e-9 * largest && std::abs(last - first) <= 1e-12 * largest)
+            fail(sec.where("samples"), "the last sample repeats the first (" + format_number(first) +
+                                           "): give one period without its closing sample (drop the last one)");
         const double mean = samples_mean(w.samples);
         if (std::abs(mean) > 1e-9 * largest)
             fail(sec.where("samples"), "must have zero mean (no direct current: murk solves harmonics 1 and up), got a mean of " +

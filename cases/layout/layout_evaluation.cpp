@@ -103,6 +103,7 @@ LayoutQuantities evaluate_layout(const CaseSpec& spec, std::size_t index, const 
                                   solver_options(spec));
     q.factor_seconds = seconds_since(t0);
     q.solver_used = solver_used(fixed);
+    q.water = water_bounds_summary(fixed.scene().images);
     q.readout = layout_readout(layout, fixed);
     q.baseline_reading = q.readout.rows * fixed.unknowns();
     for (std::size_t e = 0; e < fixed.scene().electrodes.size(); ++e) {

@@ -6,6 +6,7 @@
 #include "cases/detection/detectability.hpp"
 #include "cases/layout/detectable_region.hpp"
 #include "cases/layout/layout_readout.hpp"
+#include "cases/output/image_attributes.hpp"
 #include "cases/output/solver_attributes.hpp"
 
 #include <cmath>
@@ -69,6 +70,7 @@ struct LayoutQuantities {
     std::vector<Eigen::MatrixXd> placement_gradient;
     double factor_seconds = 0, map_seconds = 0;
     SystemSolverUsed solver_used;             // how the layout's body system was solved
+    WaterBoundsSummary water;                 // the images of the water's planes in its system
 };
 
 // The part an electrode plays in a layout (/layouts/<name>/electrode_part).

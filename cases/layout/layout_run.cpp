@@ -5,6 +5,7 @@
 #include "cases/layout/layout_output.hpp"
 #include "cases/layout/layout_placement.hpp"
 #include "cases/output/hdf5_file.hpp"
+#include "cases/output/image_attributes.hpp"
 #include "cases/output/result_metadata.hpp"
 #include "cases/scene/scene_builder.hpp"
 #include "geometry/input_error.hpp"
@@ -67,6 +68,8 @@ LayoutRun run_layouts(const CaseSpec& spec, const LayoutOptions& options) {
     LayoutRun run = evaluate_layouts(spec, quad, options.quiet);
     H5Group root = out.root();
     write_result_metadata(root, spec, options.command_line, "induced dipole (reciprocity)", quad);
+    // Every layout sits in the same water, so the first one's images stand for all.
+    if (!run.layouts.empty()) write_image_attributes(root, run.layouts.front().water);
     const H5Group layouts = root.group("layouts");
     for (const LayoutQuantities& q : run.layouts) write_layout(layouts, q, run.grid);
     write_layout_comparison(root, run.layouts, run.grid);

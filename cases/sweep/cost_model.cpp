@@ -111,10 +111,10 @@ double CostModel::compressed_solve_seconds() const {
 double CostModel::fixed_part_seconds() const {
     const double n = double(sizes.fixed_unknowns);
     if (sizes.compressed) {  // compression, then the fixed part's own solve
-        const double compression = system_entries(n, true) / (rates.entry_rate * rates.threads);
+        const double compression = image_factor() * system_entries(n, true) / (rates.entry_rate * rates.threads);
         return double(sizes.waters) * (compression + compressed_solve_seconds());
     }
-    const double assembly = n * n / (rates.entry_rate * rates.threads);
+    const double assembly = image_factor() * n * n / (rates.entry_rate * rates.threads);
     const double lu = flop_factor() * 2.0 / 3.0 * n * n * n / rates.lu_flop_rate;
     return double(sizes.waters) * (assembly + lu);
 }
@@ -133,7 +133,7 @@ double CostModel::exact_point_seconds(double size_to_distance) const {
                   flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     // The coupling blocks: the fixed water rows against the object's unknowns and
     // back; most pairs are far apart and cheap (10x the body's mixed entry rate).
-    const double coupling = 2.0 * n * m / (10.0 * rates.entry_rate);
+    const double coupling = image_factor() * 2.0 * n * m / (10.0 * rates.entry_rate);
     return expected_coupling_iterations(size_to_distance) * solve + coupling;
 }
 
@@ -145,7 +145,7 @@ double CostModel::dipole_block_seconds(std::size_t points) const {
 
 double CostModel::full_point_seconds() const {
     const double n = double(sizes.fixed_unknowns + sizes.moving_unknowns);
-    return n * n / rates.entry_rate + flop_factor() * 2.0 / 3.0 * n * n * n / (rates.lu_flop_rate / rates.threads);
+    return image_factor() * n * n / rates.entry_rate + flop_factor() * 2.0 / 3.0 * n * n * n / (rates.lu_flop_rate / rates.threads);
 }
 
 double CostModel::memory_bytes(bool exact, bool full) const {

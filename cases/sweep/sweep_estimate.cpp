@@ -1,5 +1,6 @@
 #include "cases/sweep/sweep_estimate.hpp"
 
+#include "cases/output/image_attributes.hpp"
 #include "geometry/input_error.hpp"
 #include "solver/bem_system.hpp"
 #include "solver/memory_budget.hpp"
@@ -17,6 +18,7 @@ SweepSizes sweep_sizes(const std::vector<Scene<S>>& fixed, const MovingObjects<S
     const Scene<S>& scene = fixed.front();
     sizes.fixed_unknowns = std::size_t(system_layout(scene).size);
     for (const Surface<S>& s : scene.surfaces) sizes.fixed_panels += s.mesh.size();
+    for (const Scene<S>& f : fixed) sizes.images = std::max(sizes.images, water_bounds_summary(f.images).images);
     sizes.compressed = plan.sweep.method != SweepMethod::full && uses_compression(solver, sizes.fixed_unknowns);
     for (std::size_t k = 0; k < objects.size(); ++k) {
         const MovingObject<S>& o = objects.form(k);
@@ -74,12 +76,18 @@ std::string format_estimate(const SweepEstimate& e) {
                   e.points, e.exact, e.dipole, e.full, e.masked);
     out += buf;
     std::snprintf(buf, sizeof buf,
-                  "systems: %zu unknowns in the fixed part (%zu panels), %zu fixed part%s (one per water and "
-                  "frequency); %zu unknowns in the "
+                  "systems: %zu unknowns in the fixed part (%zu panels), %zu fixed part%s (one per water, "
+                  "frequency and boundary gap); %zu unknowns in the "
                   "largest moving object (%zu panels); %s arithmetic\n",
                   e.sizes.fixed_unknowns, e.sizes.fixed_panels, e.sizes.waters, e.sizes.waters == 1 ? "" : "s",
                   e.sizes.moving_unknowns, e.sizes.moving_panels, e.sizes.complex ? "complex" : "real");
     out += buf;
+    if (e.sizes.images > 0) {
+        std::snprintf(buf, sizeof buf, "water:   %d image%s of the bounding planes in every entry (entries cost %.3g times "
+                                       "those of unbounded water)\n",
+                      e.sizes.images, e.sizes.images == 1 ? "" : "s", CostModel{e.rates, e.sizes}.image_factor());
+        out += buf;
+    }
     std::snprintf(buf, sizeof buf, "solver:  %s\n",
                   e.sizes.compressed
                       ? "compressed operator and iterative solve for the fixed part (its memory and time modelled, "

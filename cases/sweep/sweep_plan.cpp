@@ -81,10 +81,6 @@ SweepPlan plan_sweep(const CaseSpec& spec) {
     plan.waters = w >= 0 ? plan.axes[w].values : std::vector<double>{spec.water.conductivity_S_per_m};
     plan.frequencies = plan.sweep.frequency_Hz;
     plan.boundary_distances = plan.sweep.boundary_distance_m;
-    if (spec.waveform && !plan.boundary_distances.empty())  // the synthesis reads one baseline per (water, harmonic)
-        throw InputError(plan.where + "." + plan.axes[plan.axis(AxisKind::boundary_distance)].name +
-                         ": a [signal] waveform and a distance-to-boundary axis do not go together yet; sweep the "
-                         "distance at single frequencies");
     if (spec.waveform) {  // the positions whose waveform is written must exist
         const std::size_t positions = plan.total / plan.frequencies.size();
         for (std::size_t p : spec.waveform->synthesize_points)

@@ -158,7 +158,7 @@ void write_waveform_synthesis(const H5Group& root, const std::vector<SweepAxis>&
     const std::size_t sensors = std::size_t(perturbation.shape().back());
     const std::vector<std::uint8_t> status = sweep.read<std::uint8_t>(layout::kStatus).values;
     const H5Dataset baseline_set = sweep.dataset("baseline_reading");
-    const std::vector<C> baseline = baseline_set.read<C>().values;  // (water, frequency, sensor)
+    const std::vector<C> baseline = baseline_set.read<C>().values;  // (water, frequency[, gap], sensor)
     const std::size_t fundamental =
         std::size_t(std::find(signal.orders.begin(), signal.orders.end(), 1) - signal.orders.begin());
     const int n = signal.samples;
@@ -175,6 +175,14 @@ void write_waveform_synthesis(const H5Group& root, const std::vector<SweepAxis>&
         if (w < 0) return std::size_t(0);
         return unflatten(position, others)[std::size_t(w < f ? w : w - 1)];
     };
+    // With a boundary-distance axis (after frequency among the fixed axes) the baselines
+    // are per (water, frequency, gap).
+    const int d = find_axis(axes, AxisKind::boundary_distance);
+    const std::size_t gaps = d >= 0 ? axes[std::size_t(d)].values.size() : 1;
+    auto gap_of = [&](std::size_t position) {
+        if (d < 0) return std::size_t(0);
+        return unflatten(position, others)[std::size_t(d < f ? d : d - 1)];
+    };
     // The phasors of a position's perturbation and local baseline per harmonic, or false when
     // one of its points is not computed.
     auto phasors = [&](std::size_t position, std::vector<std::vector<C>>& p, std::vector<std::vector<C>>& b) {
@@ -187,7 +195,7 @@ void write_waveform_synthesis(const H5Group& root, const std::vector<SweepAxis>&
             H5Shape offset(index.begin(), index.end()), count(index.size(), 1);
             offset.push_back(0), count.push_back(sensors);
             p[j] = perturbation.read_slab<C>(offset, count);
-            const std::size_t row = (water_of(position) * harmonics + j) * sensors;
+            const std::size_t row = ((water_of(position) * harmonics + j) * gaps + gap_of(position)) * sensors;
             b[j].assign(baseline.begin() + std::ptrdiff_t(row), baseline.begin() + std::ptrdiff_t(row + sensors));
             for (std::size_t s = 0; s < sensors; ++s) p[j][s] *= signal.weights[j], b[j][s] *= signal.weights[j];
         }

@@ -25,6 +25,7 @@ example="$src/cases/examples/robot_layouts.toml"
 "$py" - "$dir/layouts.h5" <<'PY' || fail "contents of the result"
 import sys, h5py, numpy as np
 f = h5py.File(sys.argv[1], "r")
+assert f.attrs["water_planes"] == 0 and f.attrs["water_images"] == 0, dict(f.attrs)  # open water
 names = f["layout_comparison"].attrs["layout_names"].split(",")
 assert names == ["ends_reference", "ends_pairs", "middle_held"], names
 for name in names:

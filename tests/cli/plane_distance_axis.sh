@@ -13,6 +13,8 @@
 #   Electrodynamics, 3rd ed., 1999, section 2.1); the relative differences are printed;
 # - three shares (--shard k/3) merged equal the whole run;
 # - a moving object beyond a point's plane is masked (beyond_plane), at that gap only;
+# - murk run --estimate counts the image and the fixed part per gap;
+# - with a [signal] waveform, a gap's synthesis equals that of the bottom placed by hand;
 # - refusals, one line and exit 2: both keys, a zero, negative or infinite gap, the plane missing
 #   from [water], a gap whose plane cuts an unmoving object, a case without a sensing body.
 # Usage: plane_distance_axis.sh MURK SOURCE_DIR
@@ -151,6 +153,40 @@ if [ "$status" -eq 2 ] && [ "$(wc -l < "$dir/stderr")" -eq 1 ] && grep -qF "the 
 else
   fail "no sensing body: status $status: $(cat "$dir/stderr")"
 fi
+
+# The estimate counts the bottom's image in every entry (cases/sweep/cost_model.hpp).
+"$murk" run "$base" --estimate > "$dir/estimate.txt" 2>&1 || fail "murk run --estimate: $(cat "$dir/estimate.txt")"
+grep -q '^water:   1 image of the bounding planes in every entry (entries cost 1.4 times' "$dir/estimate.txt" \
+  && grep -q '6 fixed parts (one per water, frequency and boundary gap)' "$dir/estimate.txt" \
+  || fail "the estimate does not count the image or the gaps: $(cat "$dir/estimate.txt")"
+
+# A waveform with the axis: each (harmonic, gap) has its fixed part, and the synthesis of a
+# gap equals the synthesis of the case with the bottom placed there by hand, bit for bit.
+wave() {  # the case at one distance and one conductivity, with a three-harmonic waveform
+  sed -e 's/^title = .*/&\n[signal]\nfrequency = "1 kHz"\nharmonics = [{ order = 1, amplitude = 1 }, { order = 3, amplitude = 0.4, phase = \"30 deg\" }, { order = 5, amplitude = 0.2 }]\nsynthesize = [0]/' \
+      -e 's/^conductivity = \["insulator", "conductor"\]/conductivity = ["conductor"]/' \
+      -e 's/^distance = .*/distance = ["2 cm"]/' "$@"
+}
+wave -e 's/^bottom_distance = .*/bottom_distance = ["1 cm", "4 cm"]/' -e 's/synthesize = \[0\]/synthesize = [0, 1]/' \
+  "$base" > "$dir/wave.toml"
+run "$dir/wave.toml" "$dir/wave.h5"
+z=$(sed -n "3p" "$dir/heights.txt")   # the 4 cm gap's bottom (the same body, the same gaps)
+wave -e '/^bottom_distance = /d' -e "s/^bottom_z = .*/bottom_z = \"$z m\"/" "$base" > "$dir/wave_hand.toml"
+run "$dir/wave_hand.toml" "$dir/wave_hand.h5"
+"$py" - "$dir/wave.h5" "$dir/wave_hand.h5" <<'PY' || fail "a waveform with the axis against the bottom placed by hand"
+import sys, h5py, numpy as np
+a, b = h5py.File(sys.argv[1], "r")["sweep"], h5py.File(sys.argv[2], "r")["sweep"]
+assert a["baseline_reading"].shape == (1, 3, 2, 3), a["baseline_reading"].shape  # water, harmonic, gap, sensor
+for name in ["fundamental_amplitude", "fundamental_phase", "fundamental_phase_shift", "waveform_perturbation"]:
+    swept, hand = a[name][...], b[name][...]
+    # fundamental_*: (gap, conductivity, distance, sensor) against (conductivity, distance, sensor);
+    # waveform_perturbation: (position, sensor, time), positions 0 and 1 against position 0
+    got = swept[1]  # the 4 cm gap (position 1 of the waveforms)
+    hand = hand[0] if name == "waveform_perturbation" else hand
+    assert np.array_equal(got, hand), (name, got, hand)
+assert not np.array_equal(a["fundamental_amplitude"][0], a["fundamental_amplitude"][1])
+print("ok   a waveform with the axis: the 4 cm gap's synthesis equals the bottom placed by hand, bit for bit")
+PY
 
 [ "$failures" -eq 0 ] && echo "plane distance axis: all checks passed"
 exit $(( failures > 0 ))
