@@ -6,7 +6,7 @@
 //     [ C  D ] [x_electrodes]
 // H (panel unknowns) is a hierarchical matrix (hmatrix.hpp) built from the
 // system's entries (system_entries.hpp); the electrodes' columns B and rows [C D]
-// are a thin dense border. Solves are restarted GMRES (gmres.hpp), right-
+// (and a tank's reference unknown and row, solver/tank.hpp) are a thin dense border. Solves are restarted GMRES (gmres.hpp), right-
 // preconditioned by the inverse of H's diagonal blocks over clusters of about
 // `preconditioner_block` unknowns (block Jacobi on the near field), identity on
 // the electrodes. Transposed solves (lead fields) use the transposed operator

@@ -2,7 +2,6 @@
 
 #include "geometry/internal_check.hpp"
 #include "solver/compressed_system.hpp"
-#include "solver/tank.hpp"
 #include "geometry/input_error.hpp"
 
 #include <chrono>
@@ -28,13 +27,7 @@ FixedPart<S>::FixedPart(Scene<S> scene, const QuadratureOptions& options, const 
     layout_ = system_layout(scene_);
     water_points_.resize(3, 0);
     if (scene_.surfaces.empty()) return;
-    // The compressed operator has no place for the tank's reference border yet:
-    // a tank is refused there and `auto` stays dense (solver/tank.hpp).
-    const bool tank = tank_index(scene_) >= 0;
-    if (tank && solver.choice == SystemSolver::compressed)
-        throw InputError("solver = \"compressed\" cannot solve a scene with a tank (its reference border); "
-                         "use \"dense\" or \"auto\"");
-    if (!tank && uses_compression(solver, std::size_t(layout_.size))) {
+    if (uses_compression(solver, std::size_t(layout_.size))) {
         auto c = std::make_shared<Compressed>(Compressed{CompressedSystem<S>(scene_, options, solver), solver, 0});
         assembly_seconds_ = c->system.entries_seconds();
         factor_seconds_ = c->system.compression_seconds() + c->system.preconditioner_seconds();

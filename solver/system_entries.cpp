@@ -2,6 +2,7 @@
 
 #include "geometry/internal_check.hpp"
 #include "solver/layer_blocks.hpp"
+#include "solver/tank.hpp"
 
 #include <numeric>
 
@@ -34,8 +35,10 @@ SystemEntries<S>::SystemEntries(const Scene<S>& scene, const QuadratureOptions& 
                 interior_row_[u] = side == 1;
                 q_column_[u] = side == 1 || (!block.two_sided && scene.surfaces[s].panel_electrode[k] >= 0);
             }
-        // Gauss's law closes each row of the surface's own double layer (layer_blocks.hpp).
-        gauss_diagonal_.push_back((-0.5 - double_layer_row_sums(p, options).array()).matrix());
+        // Gauss's law closes each row of the surface's own double layer (layer_blocks.hpp);
+        // seen from a tank's wall, its inward-oriented double layer sums to +1/2, not -1/2.
+        const double gauss = scene.surfaces[s].encloses_water ? 0.5 : -0.5;
+        gauss_diagonal_.push_back((gauss - double_layer_row_sums(p, options).array()).matrix());
         std::vector<Eigen::Matrix3Xd> moved;
         for (const FieldImage<S>& t : scene.images.terms) {
             Eigen::Matrix3Xd m = t.linear * p.centroid;
@@ -121,6 +124,17 @@ MatrixX<S> SystemEntries<S>::electrode_columns() const {
                        layer_pair(imaged_[a][t].col(i), panels_[site.surface], site.panel, options_, false).dbl;
             out(row, site.electrode) += -dbl + S(self ? 0.5 : 0.0);
         }
+    }
+    // A tank's reference unknown (solver/tank.hpp): with no electrode held at a potential
+    // it enters every wall row with coefficient 1, as add_reference_border writes it.
+    if (layout_.reference >= 0) {
+        bool held = false;
+        for (const auto& e : scene_->electrodes)
+            held = held || e.drive == ElectrodeDrive::voltage || e.drive == ElectrodeDrive::fixed_potential;
+        const auto& wall = layout_.surfaces[std::size_t(tank_index(*scene_))];
+        if (!held)
+            for (Eigen::Index k = 0; k < wall.panels; ++k)
+                out(wall.offset + k, layout_.reference - layout_.electrode_offset) = S(1);
     }
     return out;
 }

@@ -7,7 +7,8 @@
 //     entries between far panels are a smooth kernel, the part that compresses;
 //   - the electrodes' potentials (one unknown and one row each): their columns
 //     gather all panels of an electrode and their rows are current balances or
-//     fixed potentials; they form a thin border, stored dense.
+//     fixed potentials; with a tank, its reference unknown and row
+//     (solver/tank.hpp) too; they form a thin border, stored dense.
 // Every entry equals what assemble_system writes (bem_system_impl.hpp) up to the
 // order of summation of the Gauss's-law diagonal, which is computed here once.
 #include "solver/bem_system.hpp"
@@ -24,6 +25,7 @@ public:
 
     const SystemLayout& layout() const { return layout_; }
     Eigen::Index panel_unknowns() const { return layout_.electrode_offset; }
+    // Unknowns of the border: the electrodes, and a tank's reference.
     Eigen::Index electrodes() const { return layout_.size - layout_.electrode_offset; }
     // Point of each panel unknown (its row's and its column's).
     const Eigen::Matrix3Xd& points() const { return points_; }

@@ -1619,10 +1619,6 @@ CaseSpec read_root(const toml::table& root, const Context& ctx) {
     if (const toml::node* m = sec.find("mesh")) {
         const Section mesh{as_table(sec, "mesh", *m), "mesh", line_of(*m), ctx};
         spec.mesh = read_mesh(mesh);
-        // The compressed operator has no place for the tank's reference border (solver/tank.hpp).
-        if (spec.tank && spec.mesh.solver.choice == SystemSolver::compressed)
-            fail(mesh.where("solver"), "\"compressed\" cannot solve a case with a [tank] (its reference border); "
-                                       "use \"dense\" or \"auto\", which stays dense with a tank");
     }
 
     const toml::node* fish = sec.find("fish");
