@@ -79,10 +79,10 @@ struct CostModel {
     // The first image (a plane's mirror) is often near the panels and takes the closed
     // forms; the further ones of a two-plane or sediment series are far and cheap.
     // Measured by build/murk-bench-images (10,240 unknowns, dense assembly, 2 threads,
-    // busy machine, 2026-12-03): 3.8 s unbounded, 5.4 s with one image (factor 1.42),
-    // 24.1 s with 36 (6.3), 65.0 s with 77 (17.1); this rule gives 1.4, 8.4 and 16.6.
+    // quiet machine, 2026-12-03): 2.03 s unbounded, 2.30 s with one image (factor 1.13),
+    // 7.75 s with 36 (3.82), 17.9 s with 77 (8.83); this rule gives 1.15, 4.30 and 7.99.
     double image_factor() const {
-        return 1.0 + (sizes.images > 0 ? 0.4 : 0.0) + 0.2 * std::max(sizes.images - 1, 0);
+        return 1.0 + (sizes.images > 0 ? 0.15 : 0.0) + 0.09 * std::max(sizes.images - 1, 0);
     }
     double flop_factor() const { return sizes.complex ? 4.0 : 1.0; }
     // Seconds, on one thread unless said.

@@ -65,3 +65,30 @@ for name in ("phase_change", "amplitude_change", "snr_amplitude", "snr_phase"):
 assert ds["phase_change"].attrs["units"] == "rad"
 print("phase channel: ok")
 PY
+
+# The same two items under a two-harmonic emitter (cases/examples/capacitive_prey_waveform.toml):
+# the resistive item's contrast hardly depends on frequency, so it changes the local waveform
+# almost by a multiple of itself; the capacitive item's contrast is nearly imaginary and grows
+# with frequency (the Clausius-Mossotti factor, Jones 1995, "Electromechanics of Particles"),
+# so it turns the fundamental's phase and changes the ratio of the waveform's two peaks.
+# At the peak sensor, at every distance, the capacitive item's two distortion measures are at
+# least 50 times the resistive one's (the water's own permittivity keeps the latter from zero).
+"$murk" run "$src/cases/examples/capacitive_prey_waveform.toml" -o "$dir/waveform.h5" --quiet
+/usr/bin/python3 - "$dir/waveform.h5" <<'PY'
+import sys
+import h5py
+import numpy as np
+s = h5py.File(sys.argv[1], "r")["sweep"]
+names = s["alternative"].attrs["alternative_names"]
+names = (names.decode() if isinstance(names, bytes) else str(names)).split(",")
+cap, res = names.index("capacitive"), names.index("resistive")
+amp = s["fundamental_amplitude"][...]            # (alternative, distance, sensor)
+for d in range(amp.shape[1]):
+    k = int(np.argmax(amp[cap, d]))
+    for name in ("peak_ratio_change", "fundamental_phase_shift"):
+        c, r = abs(s[name][cap, d, k]), abs(s[name][res, d, k])
+        assert np.isfinite(c) and np.isfinite(r) and c > 50 * r, (name, d, c, r)
+    # matched amplitude: the two fundamentals within 10 % at the peak sensor
+    assert abs(amp[res, d, k] / amp[cap, d, k] - 1) < 0.1, (d, amp[res, d, k], amp[cap, d, k])
+print("waveform distortion: the capacitive item's peak ratio and phase change at least 50x the resistive one's: ok")
+PY
