@@ -113,6 +113,19 @@ TEST_CASE("target grid: refusals name the file and the key") {
     CAPTURE(m);
     CHECK(m.rfind("case.toml:" + std::to_string(1 + std::count(kCase.begin(), kCase.begin() + static_cast<long>(kCase.find("[sweep]")), '\n')) + ": sweep", 0) == 0);
     CHECK(m.find("needs a [sweep] with a [sweep.grid]") != std::string::npos);
+    // Every axis murk layout does not vary is refused by name, none silently ignored.
+    for (const std::string axis : {"water_conductivity = [\"100 uS/cm\"]", "frequency = [\"1 kHz\"]",
+                                   "conductivity = [\"conductor\"]", "surface_distance = [\"1 cm\"]"}) {
+        std::string text = kCase;
+        text.insert(text.find("size = ["), axis + "\n");
+        if (axis.rfind("surface", 0) == 0) text.replace(text.find("conductivity = \"200 uS/cm\""), 26,
+                                                        "conductivity = \"200 uS/cm\"\nsurface_z = \"30 cm\"");
+        const std::string e = error_of(text);
+        CAPTURE(axis);
+        CAPTURE(e);
+        const std::string key = axis.substr(0, axis.find(' '));
+        CHECK(e.find(": sweep." + key + ": murk layout varies only the target's position") != std::string::npos);
+    }
 }
 
 TEST_CASE("target grid: any shape of target, its tensor by boundary elements (a conducting cube)") {

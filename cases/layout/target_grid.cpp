@@ -7,6 +7,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <utility>
+#include <vector>
 
 namespace murk {
 
@@ -43,11 +45,23 @@ TargetGrid target_grid(const CaseSpec& spec, const QuadratureOptions& quad) {
         throw InputError(sweep_where(spec, spec.sweep ? "sweep.grid" : "sweep") +
                          ": murk layout needs a [sweep] with a [sweep.grid] of target positions");
     const SweepSpec& s = *spec.sweep;
-    if (!s.alternatives.empty() || !s.water_conductivity_S_per_m.empty() || !s.conductivity_S_per_m.empty() ||
-        !s.distance_m.empty())
-        throw InputError(sweep_where(spec, "sweep") +
-                         ": murk layout varies only the target's position (sweep.grid) and size; remove the "
-                         "alternatives, water_conductivity, conductivity and distance axes");
+    // Every other axis of [sweep] would be silently ignored: name the first one given.
+    const std::vector<std::pair<const char*, bool>> others = {
+        {"alternatives", !s.alternatives.empty()},
+        {"water_conductivity", !s.water_conductivity_S_per_m.empty()},
+        {"frequency", !s.frequency_Hz.empty()},
+        {s.moved == MovedBoundary::bottom ? "bottom_distance"
+         : s.moved == MovedBoundary::wall ? "wall_distance"
+                                          : "surface_distance",
+         !s.boundary_distance_m.empty()},
+        {"conductivity", !s.conductivity_S_per_m.empty()},
+        {"permittivity", !s.permittivity_relative.empty()},
+        {"distance", !s.distance_m.empty()}};
+    for (const auto& [key, given] : others)
+        if (given)
+            throw InputError(sweep_where(spec, std::string("sweep.") + key) +
+                             ": murk layout varies only the target's position (sweep.grid) and size; remove this axis "
+                             "(murk run sweeps it)");
     const std::string name = s.object.empty() ? spec.objects.front().name : s.object;
     const auto it = std::find_if(spec.objects.begin(), spec.objects.end(), [&](const ObjectSpec& o) { return o.name == name; });
     const ObjectSpec& o = *it;  // the reader checked the name
