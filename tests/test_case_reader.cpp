@@ -1240,13 +1240,7 @@ TEST_CASE("case reader: the wall_distance axis and the wall it moves") {
     fs::create_directories(dir);
     write_stl((dir / "walls.stl").string(), make_box(Vec3(0.4, 0.2, 0.2), 0.05));
     const std::string mesh_tank = "[tank]\nshape = \"mesh\"\nfile = \"" + (dir / "walls.stl").string() + "\"\n";
-    const std::string text = with_sweep("wall = \"+x\"\nwall_distance = [\"1 cm\"]", mesh_tank);
-    std::string m;
-    try {
-        read_case_text(text, "case.toml");
-    } catch (const InputError& e) {
-        m = e.what();
-    }
+    const std::string m = error_of(with_sweep("wall = \"+x\"\nwall_distance = [\"1 cm\"]", mesh_tank));
     CAPTURE(m);
     CHECK(m.find("sweep.wall_distance: moves a side wall of a box or cylinder [tank]") != std::string::npos);
     CHECK(m.find('\n') == std::string::npos);
