@@ -313,14 +313,12 @@ void add_reference_border(const Scene<S>& scene, const SystemLayout& layout, con
     const Eigen::Index ref = layout.reference;
     for (Eigen::Index k = 0; k < block.panels; ++k) add(ref, block.offset + k, panels[tank].area(k) / wall_area);
     if (row_of[ref] >= 0) rhs(row_of[ref]) = S(0);
-    bool held = false;
     for (std::size_t e = 0; e < scene.electrodes.size(); ++e) {
         const ElectrodeDrive d = scene.electrodes[e].drive;
-        if (d != ElectrodeDrive::voltage && d != ElectrodeDrive::fixed_potential) continue;
-        add(layout.electrode_offset + static_cast<Eigen::Index>(e), ref, -1.0);
-        held = true;
+        if (d == ElectrodeDrive::voltage || d == ElectrodeDrive::fixed_potential)
+            add(layout.electrode_offset + static_cast<Eigen::Index>(e), ref, -1.0);
     }
-    if (!held)
+    if (!holds_electrode_potential(scene))
         for (Eigen::Index k = 0; k < block.panels; ++k) add(block.offset + k, ref, 1.0);
 }
 

@@ -127,14 +127,10 @@ MatrixX<S> SystemEntries<S>::electrode_columns() const {
     }
     // A tank's reference unknown (solver/tank.hpp): with no electrode held at a potential
     // it enters every wall row with coefficient 1, as add_reference_border writes it.
-    if (layout_.reference >= 0) {
-        bool held = false;
-        for (const auto& e : scene_->electrodes)
-            held = held || e.drive == ElectrodeDrive::voltage || e.drive == ElectrodeDrive::fixed_potential;
+    if (layout_.reference >= 0 && !holds_electrode_potential(*scene_)) {
         const auto& wall = layout_.surfaces[std::size_t(tank_index(*scene_))];
-        if (!held)
-            for (Eigen::Index k = 0; k < wall.panels; ++k)
-                out(wall.offset + k, layout_.reference - layout_.electrode_offset) = S(1);
+        for (Eigen::Index k = 0; k < wall.panels; ++k)
+            out(wall.offset + k, layout_.reference - layout_.electrode_offset) = S(1);
     }
     return out;
 }

@@ -44,6 +44,18 @@ Surface<S> make_tank_surface(TriangleMesh outward) {
     return surface;
 }
 
+// Whether some electrode is held at a potential (voltage-driven or fixed): then the
+// reference unknown shifts those electrodes' potentials together (in a closed tank only
+// their differences are imposed); else it enters every wall row with coefficient 1.
+// The dense assembly (add_reference_border) and the compressed border (system_entries)
+// both follow this.
+template <class S>
+bool holds_electrode_potential(const Scene<S>& scene) {
+    for (const auto& e : scene.electrodes)
+        if (e.drive == ElectrodeDrive::voltage || e.drive == ElectrodeDrive::fixed_potential) return true;
+    return false;
+}
+
 // Net current (A) the scene injects into the water whatever the solution: its
 // point sources (in the water or inside bodies, whose current leaves through
 // their surfaces) and its current-driven electrodes. Voltage-driven and
