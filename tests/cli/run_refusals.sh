@@ -9,16 +9,7 @@ murk="$1"; src="$2"
 dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
 base="$src/cases/examples/fish_detection.toml"
 failures=0
-expect_bad() {  # NAME TEXT COMMAND...
-  local name="$1" text="$2"; shift 2
-  "$@" > /dev/null 2> "$dir/err"
-  local status=$? lines; lines=$(wc -l < "$dir/err")
-  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/err"; then
-    echo "FAIL $name: status $status, $lines lines:"; cat "$dir/err"; failures=$((failures + 1))
-  else
-    echo "ok   $name: $(cat "$dir/err")"
-  fi
-}
+source "$src/tests/cli/expect_refusal.bash"  # expect_bad NAME TEXT COMMAND...
 sed -e 's/^direction = .*/direction = [0, -1, 0]/' "$base" > "$dir/inward.toml"
 expect_bad "direction into the body" "sweep.direction" "$murk" run "$dir/inward.toml" -o "$dir/a.h5" --quiet
 : > "$dir/b.h5.partial"

@@ -11,16 +11,7 @@ dir="$(mktemp -d)"; trap 'rm -rf "$dir"' EXIT
 base="$src/cases/examples/fish_detection.toml"
 failures=0
 fail() { echo "FAIL $*"; failures=$((failures + 1)); }
-expect_bad() {  # NAME TEXT COMMAND...
-  local name="$1" text="$2"; shift 2
-  "$@" > /dev/null 2> "$dir/err"
-  local status=$? lines; lines=$(wc -l < "$dir/err")
-  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/err"; then
-    echo "FAIL $name: status $status, $lines lines:"; cat "$dir/err"; failures=$((failures + 1))
-  else
-    echo "ok   $name: $(cat "$dir/err")"
-  fi
-}
+source "$src/tests/cli/expect_refusal.bash"  # expect_bad NAME TEXT COMMAND...
 tank() {  # SIZE CENTRE -> a [tank] table
   printf '\n[tank]\nshape = "box"\nsize = %s\ncentre = %s\npanel_size = "4 cm"\n' "$1" "$2"
 }

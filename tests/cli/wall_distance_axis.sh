@@ -21,16 +21,7 @@ base="$src/cases/examples/fish_detection.toml"
 py=/usr/bin/python3
 failures=0
 fail() { echo "FAIL $*"; failures=$((failures + 1)); }
-expect_bad() {  # NAME TEXT COMMAND...
-  local name="$1" text="$2"; shift 2
-  "$@" > /dev/null 2> "$dir/err"
-  local status=$? lines; lines=$(wc -l < "$dir/err")
-  if [ "$status" -ne 2 ] || [ "$lines" -ne 1 ] || ! grep -qF -- "$text" "$dir/err"; then
-    echo "FAIL $name: status $status, $lines lines:"; cat "$dir/err"; failures=$((failures + 1))
-  else
-    echo "ok   $name: $(cat "$dir/err")"
-  fi
-}
+source "$src/tests/cli/expect_refusal.bash"  # expect_bad NAME TEXT COMMAND...
 # Three prey distances on the +y side, one size, one water, the exact path.
 sed -e 's/^distance = .*/distance = { from = "3 mm", to = "3 cm", count = 3 }/' \
     -e 's/^size = .*/size = ["2 mm"]/' -e 's/^water_conductivity = .*/water_conductivity = ["100 uS\/cm"]/' \
