@@ -1200,11 +1200,9 @@ std::array<double, 3> read_direction(const Section& sec, const std::string& key)
 // between the sensing body and the boundary it moves; wall_distance names its wall by
 // `wall`, "+x", "-x", "+y" or "-y" (the side of the tank it lies on).
 void read_boundary_distance_axis(const Section& sec, SweepSpec& s) {
-    const std::vector<std::pair<const char*, MovedBoundary>> keys = {
-        {"surface_distance", MovedBoundary::surface}, {"bottom_distance", MovedBoundary::bottom},
-        {"wall_distance", MovedBoundary::wall}};
     const char* given = nullptr;
-    for (const auto& [key, boundary] : keys) {
+    for (const MovedBoundary boundary : {MovedBoundary::surface, MovedBoundary::bottom, MovedBoundary::wall}) {
+        const char* key = boundary_axis_key(boundary);
         if (!sec.find(key)) continue;
         if (given)
             fail(sec.where(key), std::string("a sweep moves one boundary: give one of surface_distance, "
@@ -1562,9 +1560,7 @@ void check_sweep_frequencies(const Section& sw, const CaseSpec& spec) {
 void check_sweep_boundary(const Section& sw, const CaseSpec& spec) {
     if (spec.sweep->boundary_distance_m.empty()) return;
     const MovedBoundary moved = spec.sweep->moved;
-    const std::string key = moved == MovedBoundary::bottom  ? "bottom_distance"
-                            : moved == MovedBoundary::wall ? "wall_distance"
-                                                           : "surface_distance";
+    const std::string key = boundary_axis_key(moved);
     if (!spec.fish && !spec.robot)
         fail(sw.where(key), "measures the gap from the sensing body: the case needs a [fish] or [robot]");
     if (moved == MovedBoundary::wall) {

@@ -37,6 +37,16 @@ enum class SweepMethod {
 // The boundary a distance-to-boundary axis moves.
 enum class MovedBoundary { surface, bottom, wall };
 
+// The [sweep] key of the axis that moves it (also the axis's name in result files).
+inline const char* boundary_axis_key(MovedBoundary b) {
+    switch (b) {
+        case MovedBoundary::surface: return "surface_distance";
+        case MovedBoundary::bottom: return "bottom_distance";
+        case MovedBoundary::wall: return "wall_distance";
+    }
+    return "surface_distance";
+}
+
 struct SweepSpec {
     std::string object;                        // the object that moves or changes (default: the first)
     std::vector<std::string> alternatives;     // axis of alternative objects (shapes): at each point

@@ -50,10 +50,7 @@ TargetGrid target_grid(const CaseSpec& spec, const QuadratureOptions& quad) {
         {"alternatives", !s.alternatives.empty()},
         {"water_conductivity", !s.water_conductivity_S_per_m.empty()},
         {"frequency", !s.frequency_Hz.empty()},
-        {s.moved == MovedBoundary::bottom ? "bottom_distance"
-         : s.moved == MovedBoundary::wall ? "wall_distance"
-                                          : "surface_distance",
-         !s.boundary_distance_m.empty()},
+        {boundary_axis_key(s.moved), !s.boundary_distance_m.empty()},
         {"conductivity", !s.conductivity_S_per_m.empty()},
         {"permittivity", !s.permittivity_relative.empty()},
         {"distance", !s.distance_m.empty()}};

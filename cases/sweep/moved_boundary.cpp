@@ -63,7 +63,7 @@ WaterSpec fixed_water_bounds(const CaseSpec& spec, const SweepPlan& plan, std::s
     const bool bottom = plan.sweep.moved == MovedBoundary::bottom;
     PlaneSpec plane = bottom ? *water.bottom : *water.surface;  // the reader requires the case to give it
     plane.height_m = bottom ? lowest - *gap : highest + *gap;
-    plane.source = SourceLine{spec.path, plan.sweep.line, bottom ? "sweep.bottom_distance" : "sweep.surface_distance"};
+    plane.source = SourceLine{spec.path, plan.sweep.line, std::string("sweep.") + boundary_axis_key(plan.sweep.moved)};
     (bottom ? water.bottom : water.surface) = plane;
     return water;
 }
@@ -89,7 +89,7 @@ std::optional<TankSpec> fixed_tank(const CaseSpec& spec, const SweepPlan& plan, 
         }
         tank->centre_m[axis] = *centre;
     }
-    tank->source = SourceLine{spec.path, plan.sweep.line, "sweep.wall_distance"};
+    tank->source = SourceLine{spec.path, plan.sweep.line, std::string("sweep.") + boundary_axis_key(MovedBoundary::wall)};
     return tank;
 }
 
@@ -111,10 +111,7 @@ std::string boundary_value_where(const SweepPlan& plan, std::size_t fixed) {
     std::ostringstream value;
     value.precision(6);
     value << plan.fixed_boundary_distance(fixed).value_or(0.0) << " m";
-    const char* key = plan.sweep.moved == MovedBoundary::bottom ? ".bottom_distance = "
-                      : plan.sweep.moved == MovedBoundary::wall ? ".wall_distance = "
-                                                                : ".surface_distance = ";
-    return plan.where + key + value.str();
+    return plan.where + "." + boundary_axis_key(plan.sweep.moved) + " = " + value.str();
 }
 
 }  // namespace murk

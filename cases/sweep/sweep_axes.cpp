@@ -12,23 +12,13 @@ std::vector<SweepAxis> sweep_axes(const SweepSpec& s) {
         s.water_conductivity_S_per_m);
     add(AxisKind::frequency, "frequency", "Hz", "frequency of the emitter's sinusoid (a fixed part per water and frequency)",
         s.frequency_Hz);
-    switch (s.moved) {
-        case MovedBoundary::bottom:
-            add(AxisKind::boundary_distance, "bottom_distance", "m",
-                "gap between the sensing body's lowest point and the bottom (a fixed part per value)",
-                s.boundary_distance_m);
-            break;
-        case MovedBoundary::surface:
-            add(AxisKind::boundary_distance, "surface_distance", "m",
-                "gap between the sensing body's highest point and the water surface (a fixed part per value)",
-                s.boundary_distance_m);
-            break;
-        case MovedBoundary::wall:
-            add(AxisKind::boundary_distance, "wall_distance", "m",
-                "gap between the sensing body and the tank's side wall the axis moves (a fixed part per value)",
-                s.boundary_distance_m);
-            break;
-    }
+    const char* boundary_long_name =
+        s.moved == MovedBoundary::bottom
+            ? "gap between the sensing body's lowest point and the bottom (a fixed part per value)"
+        : s.moved == MovedBoundary::wall
+            ? "gap between the sensing body and the tank's side wall the axis moves (a fixed part per value)"
+            : "gap between the sensing body's highest point and the water surface (a fixed part per value)";
+    add(AxisKind::boundary_distance, boundary_axis_key(s.moved), "m", boundary_long_name, s.boundary_distance_m);
     std::vector<double> object_index;
     for (std::size_t k = 0; k < s.alternatives.size(); ++k) object_index.push_back(double(k));
     add(AxisKind::alternative, "alternative", "1", "which alternative object is in the water (index into the attribute alternative_names)",
