@@ -4,25 +4,12 @@
 #include "solver/system_entries.hpp"
 
 #include <chrono>
-#include <exception>
 
 namespace murk {
 
 namespace {
 double seconds_since(std::chrono::steady_clock::time_point t0) {
     return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
-
-// Nodes of the cluster tree with at most `limit` points whose parents have
-// more: they partition the points into the preconditioner's diagonal blocks.
-void block_nodes(const ClusterTree& tree, int node, Eigen::Index limit, std::vector<int>& out) {
-    const ClusterTree::Node& n = tree.nodes[std::size_t(node)];
-    if (n.size() <= limit || n.is_leaf()) {
-        out.push_back(node);
-        return;
-    }
-    block_nodes(tree, n.first_child, limit, out);
-    block_nodes(tree, n.second_child, limit, out);
 }
 }  // namespace
 
@@ -49,27 +36,10 @@ CompressedSystem<S>::CompressedSystem(const Scene<S>& scene, const QuadratureOpt
     compression_seconds_ = seconds_since(t0);
 
     t0 = std::chrono::steady_clock::now();
-    std::vector<int> nodes;
-    if (panels_ > 0) block_nodes(h_->tree(), 0, preconditioner_block, nodes);
-    blocks_.resize(nodes.size());
-    // panel_block's index checks cannot fail on the tree's own indices, but an
-    // exception must not leave a parallel region: the first is kept and rethrown.
-    std::exception_ptr failure;
-#pragma omp parallel for schedule(dynamic, 1)
-    for (std::size_t b = 0; b < nodes.size(); ++b) {
-        try {
-            const ClusterTree& tree = h_->tree();
-            const ClusterTree::Node& n = tree.nodes[std::size_t(nodes[b])];
-            blocks_[b].unknowns.assign(tree.order.begin() + n.begin, tree.order.begin() + n.end);
-            MatrixX<S> dense;
-            entries.panel_block(blocks_[b].unknowns, blocks_[b].unknowns, dense);
-            blocks_[b].lu.compute(dense);
-        } catch (...) {
-#pragma omp critical(murk_preconditioner_failure)
-            if (!failure) failure = std::current_exception();
-        }
-    }
-    if (failure) std::rethrow_exception(failure);
+    HodlrOptions p;
+    p.leaf_size = preconditioner_block;
+    p.tolerance = options.preconditioner_tolerance;
+    preconditioner_ = std::make_unique<HodlrInverse<S>>(*h_, p);
     preconditioner_seconds_ = seconds_since(t0);
 }
 
@@ -93,14 +63,7 @@ MatrixX<S> CompressedSystem<S>::apply(const MatrixX<S>& x, bool transposed) cons
 template <class S>
 MatrixX<S> CompressedSystem<S>::precondition(const MatrixX<S>& x, bool transposed) const {
     MatrixX<S> y = x;  // the electrodes' part passes unchanged
-#pragma omp parallel for schedule(dynamic, 1)
-    for (std::size_t k = 0; k < blocks_.size(); ++k) {
-        const DiagonalBlock& b = blocks_[k];
-        MatrixX<S> part(Eigen::Index(b.unknowns.size()), x.cols());
-        for (std::size_t i = 0; i < b.unknowns.size(); ++i) part.row(Eigen::Index(i)) = x.row(b.unknowns[i]);
-        part = transposed ? MatrixX<S>(b.lu.transpose().solve(part)) : MatrixX<S>(b.lu.solve(part));
-        for (std::size_t i = 0; i < b.unknowns.size(); ++i) y.row(b.unknowns[i]) = part.row(Eigen::Index(i));
-    }
+    y.topRows(panels_) = preconditioner_->solve(MatrixX<S>(x.topRows(panels_)), transposed);
     return y;
 }
 
@@ -152,7 +115,7 @@ MatrixX<S> CompressedSystem<S>::solve_columns(const MatrixX<S>& b, bool transpos
 template <class S>
 std::size_t CompressedSystem<S>::bytes() const {
     std::size_t total = h_->stats().bytes + sizeof(S) * std::size_t(electrode_columns_.size() + electrode_rows_.size());
-    for (const DiagonalBlock& b : blocks_) total += sizeof(S) * b.unknowns.size() * b.unknowns.size();
+    total += preconditioner_->stats().bytes;
     return total;
 }
 

@@ -26,15 +26,8 @@ double HMatrixStats::compression() const { return dense_bytes > 0 ? double(bytes
 
 namespace {
 
-// A leaf of the block tree: rows row_begin.. and columns col_begin.. are positions
-// in the cluster tree's order. A low-rank block is u * v^T (transpose, no
-// conjugation), a dense one is `dense`.
 template <class S>
-struct Block {
-    Eigen::Index row_begin = 0, rows = 0, col_begin = 0, cols = 0;
-    bool low_rank = false;
-    MatrixX<S> dense, u, v;
-};
+using Block = HMatrixBlock<S>;
 
 // The leaves of the block tree over (row node, column node).
 template <class S>
@@ -219,6 +212,8 @@ private:
     double approximant_norm2_ = 0, scale_ = 0;
 };
 
+}  // namespace
+
 // Recompression of u v^T (Bebendorf 2008, section 1.1.5; Grasedyck 2005): with
 // u = Q_u R_u and v = Q_v R_v, the SVD R_u R_v^T = W Sigma Z^H gives
 // u v^T = (Q_u W Sigma)(Q_v conj(Z))^T. Truncation rule: keep the fewest singular
@@ -226,7 +221,7 @@ private:
 // sqrt(sum_{l>r} sigma_l^2) <= tolerance * sqrt(sum_l sigma_l^2),
 // i.e. the same relative Frobenius accuracy the cross approximation aims at.
 template <class S>
-void recompress(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
+void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
     const Eigen::Index k = u.cols();
     if (k == 0) return;
     const Eigen::HouseholderQR<MatrixX<S>> qr_u(u), qr_v(v);
@@ -247,7 +242,6 @@ void recompress(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
     v = q_v * svd.matrixV().leftCols(r).conjugate();
 }
 
-}  // namespace
 
 template <class S>
 struct HMatrix<S>::Impl {
@@ -269,7 +263,7 @@ struct HMatrix<S>::Impl {
             if (aca.run()) {
                 block.u = aca.u();
                 block.v = aca.v();
-                recompress(block.u, block.v, tolerance);
+                recompress_low_rank(block.u, block.v, tolerance);
                 return;
             }
             block.low_rank = false;
@@ -439,6 +433,13 @@ const HMatrixStats& HMatrix<S>::stats() const {
     return impl_->stats;
 }
 
+template <class S>
+const std::vector<HMatrixBlock<S>>& HMatrix<S>::blocks() const {
+    return impl_->blocks;
+}
+
+template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, double);
+template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
 template class HMatrix<double>;
 template class HMatrix<Complex>;
 

@@ -42,6 +42,22 @@ struct HMatrixStats {
     double dense_bytes = 0;
 };
 
+// A stored block: rows row_begin.. and columns col_begin.. are positions in the
+// cluster tree's order. A low-rank block is u * v^T (transpose, no conjugation),
+// a dense one is `dense`.
+template <class S>
+struct HMatrixBlock {
+    Eigen::Index row_begin = 0, rows = 0, col_begin = 0, cols = 0;
+    bool low_rank = false;
+    MatrixX<S> dense, u, v;
+};
+
+// Truncates u v^T in place to the fewest terms whose dropped singular values
+// have a Frobenius norm of at most `tolerance` times the whole product's
+// (QR of both factors, then an SVD of the small core).
+template <class S>
+void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance);
+
 template <class S>
 class HMatrix {
 public:
@@ -60,12 +76,18 @@ public:
     MatrixX<S> to_dense() const;
     const ClusterTree& tree() const;
     const HMatrixStats& stats() const;
+    // The stored blocks, which tile the matrix; each lies inside one pair of
+    // cluster-tree nodes that the block tree visited (the preconditioner of
+    // hodlr_inverse.hpp regroups them by node).
+    const std::vector<HMatrixBlock<S>>& blocks() const;
 
 private:
     struct Impl;
     std::shared_ptr<const Impl> impl_;
 };
 
+extern template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, double);
+extern template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
 extern template class HMatrix<double>;
 extern template class HMatrix<Complex>;
 

@@ -20,6 +20,10 @@ struct SolverOptions {
     double compression_tolerance = 1e-7;
     // The iterative solve stops at this relative residual |b - A x| / |b|.
     double iteration_tolerance = 1e-10;
+    // Relative accuracy of the off-diagonal blocks of the preconditioner's
+    // approximate inverse (hodlr_inverse.hpp): tighter costs more set-up and
+    // memory and saves iterations.
+    double preconditioner_tolerance = 1e-4;
     int max_iterations = 400;
 };
 

@@ -14,12 +14,20 @@ namespace murk {
 // compression tolerance (1e-7): 408 at 18,576 unknowns and 482 at 37,200,
 // measured 2026-12-03; rounded up, since the near field's share falls slowly.
 inline constexpr double kCompressedEntriesPerUnknownLog = 500;
-// Entries of the preconditioner per unknown (its dense diagonal blocks).
-inline constexpr double kPreconditionerEntriesPerUnknown = 512;
+// Entries of the preconditioner (hodlr_inverse.hpp) per unknown: its dense
+// leaves (up to 512 unknowns each) and its low-rank factors, whose ranks grow
+// about as sqrt(n) on a surface. The same benchmark at the default
+// preconditioner_tolerance (1e-4) measured 1,950 at 18,576 unknowns, 2,630 at
+// 37,200 and 3,930 at 91,580 (2026-12-04): 512 + 10.6, 11.0 and 11.3 sqrt(n).
+inline constexpr double kPreconditionerLeafEntries = 512;
+inline constexpr double kPreconditionerEntriesPerRootUnknown = 12;
+// Building the preconditioner takes about as long as the compression: the same
+// benchmark measured 0.8, 0.9 and 1.4 times it at those sizes.
+inline constexpr double kPreconditionerSetupShare = 1.0;
 // Iterations of one compressed solve to the default iteration_tolerance, for the
-// time estimate: the same benchmark measured 28 at 3,876 unknowns, 36 at 18,576
-// and 41 at 37,200.
-inline constexpr int kExpectedSystemIterations = 40;
+// time estimate: the same benchmark measured 4 or 5 from 3,876 to 91,580
+// unknowns; one more for the last preconditioner solve.
+inline constexpr int kExpectedSystemIterations = 6;
 
 // Entries held by the compressed operator and its preconditioner for n unknowns.
 // Neither holds more than the dense matrix would (a block that does not compress
@@ -27,7 +35,8 @@ inline constexpr int kExpectedSystemIterations = 40;
 inline double compressed_system_entries(double n) {
     const double dense = n * n;
     const double op = n > 1 ? kCompressedEntriesPerUnknownLog * n * std::log2(n) : dense;
-    return std::min(op, dense) + std::min(kPreconditionerEntriesPerUnknown * n, dense);
+    const double preconditioner = (kPreconditionerLeafEntries + kPreconditionerEntriesPerRootUnknown * std::sqrt(n)) * n;
+    return std::min(op, dense) + std::min(preconditioner, dense);
 }
 
 // Entries the fixed part holds once assembled and factored.

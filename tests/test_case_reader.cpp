@@ -417,14 +417,17 @@ TEST_CASE("case reader: the system solver keys of [mesh]") {
     CHECK(plain.mesh.solver.dense_limit == defaults.dense_limit);
     CHECK(plain.mesh.solver.compression_tolerance == defaults.compression_tolerance);
     CHECK(plain.mesh.solver.iteration_tolerance == defaults.iteration_tolerance);
+    CHECK(plain.mesh.solver.preconditioner_tolerance == defaults.preconditioner_tolerance);
 
     const CaseSpec s = read_case_text(kFish + "[mesh]\nsolver = \"compressed\"\ndense_limit = 1200\n"
-                                              "compression_tolerance = 1e-6\niteration_tolerance = 3e-9\n",
+                                              "compression_tolerance = 1e-6\niteration_tolerance = 3e-9\n"
+                                              "preconditioner_tolerance = 0.05\n",
                                       "case.toml");
     CHECK(s.mesh.solver.choice == SystemSolver::compressed);
     CHECK(s.mesh.solver.dense_limit == 1200);
     CHECK(s.mesh.solver.compression_tolerance == 1e-6);
     CHECK(s.mesh.solver.iteration_tolerance == 3e-9);
+    CHECK(s.mesh.solver.preconditioner_tolerance == 0.05);
     CHECK(read_case_text(kFish + "[mesh]\nsolver = \"dense\"\n", "case.toml").mesh.solver.choice ==
           SystemSolver::dense);
     CHECK(read_case_text(kFish + "[mesh]\nsolver = \"auto\"\n", "case.toml").mesh.solver.choice ==
@@ -449,6 +452,12 @@ TEST_CASE("case reader: the system solver keys of [mesh]") {
         CHECK(read_case_text(kFish + "[mesh]\n" + key + " = 9.9e-3\n", "case.toml").mesh.solver.choice ==
               SystemSolver::automatic);
     }
+    // The preconditioner's tolerance only sets the iterations, so it may be coarse: up to 0.5.
+    for (const std::string value : {"0", "-1e-3", "1e-14", "0.5", "2"})
+        check_error(kFish + "[mesh]\npreconditioner_tolerance = " + value + "\n", "preconditioner_tolerance",
+                    "mesh.preconditioner_tolerance", "between 1e-14 and 0.5 (both excluded)");
+    CHECK(read_case_text(kFish + "[mesh]\npreconditioner_tolerance = 0.3\n", "case.toml").mesh.solver
+              .preconditioner_tolerance == 0.3);
 }
 
 TEST_CASE("case reader: body profile and organ rules") {

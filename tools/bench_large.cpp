@@ -17,7 +17,8 @@
 // relative to the largest perturbation.
 //
 // Usage: murk-bench-large [--sizes 2000,5000,10000,20000,50000] [--dense-max UNKNOWNS]
-//                         [--tolerance T] [--dipoles K] [--setup-only]
+//                         [--tolerance T] [--preconditioner T] [--dipoles K] [--setup-only]
+//   --preconditioner T  relative accuracy of the preconditioner's off-diagonal blocks
 //   --dipoles K  also time K dipole-path points (blocked solves) at every size
 //   --setup-only the compressed set-up alone and its peak memory (the goal's "set-up under 8 GB")
 #include "cases/input/case_reader.hpp"
@@ -111,7 +112,7 @@ Eigen::VectorXd exact_points(const Scene<double>& full, const FixedPart<double>&
     return (skin.inner_potential - skin.outer_potential) - (base.inner_potential - base.outer_potential);
 }
 
-int one_size(long target, long dense_max, double tolerance, int dipoles, bool setup_only) {
+int one_size(long target, long dense_max, double tolerance, double preconditioner, int dipoles, bool setup_only) {
     const CaseSpec spec = read_case_text(fish_case(target), "bench_large");
     const Scene<double> body = build_scene<double>(spec, false);
     const QuadratureOptions quad = quadrature_options(spec);
@@ -128,6 +129,7 @@ int one_size(long target, long dense_max, double tolerance, int dipoles, bool se
     SolverOptions c;
     c.choice = SystemSolver::compressed;
     c.compression_tolerance = tolerance;
+    c.preconditioner_tolerance = preconditioner;
     t0 = std::chrono::steady_clock::now();
     const FixedPart<double> compressed(body, quad, c);
     const double setup = seconds_since(t0);
@@ -151,6 +153,23 @@ int one_size(long target, long dense_max, double tolerance, int dipoles, bool se
         (void)system.solve_columns(system.rhs(), false, &it, 1e-8);
         std::printf(", solve to 1e-8 %.2f s (%d iterations)", seconds_since(t0), it);
     }
+    {  // the two halves of one iteration, for one column and for 16 together
+        for (const Eigen::Index columns : {1, 16}) {
+            const Eigen::MatrixXd x = Eigen::MatrixXd::Random(system.size(), columns);
+            const Eigen::MatrixXd panels = x.topRows(system.panel_unknowns());
+            double product = 1e300, preconditioner = 1e300;  // the least of three runs
+            for (int run = 0; run < 3; ++run) {
+                t0 = std::chrono::steady_clock::now();
+                (void)system.apply(x);
+                product = std::min(product, seconds_since(t0));
+                t0 = std::chrono::steady_clock::now();
+                (void)system.preconditioner().solve(panels, false);
+                preconditioner = std::min(preconditioner, seconds_since(t0));
+            }
+            std::printf(", %ld column%s: product %.3f s, preconditioner %.3f s", long(columns), columns > 1 ? "s" : "",
+                        product, preconditioner);
+        }
+    }
     if (dipoles > 0) {
         std::vector<PointDipole<double>> d;
         for (int k = 0; k < dipoles; ++k)
@@ -162,10 +181,12 @@ int one_size(long target, long dense_max, double tolerance, int dipoles, bool se
     {
         const HMatrixStats& st = system.operator_stats();
         std::printf(", blocks %zu dense %zu low-rank (ranks mean %.1f, max %d), %.0f stored entries per n log2 n, "
-                    "%zu preconditioner blocks",
+                    "preconditioner %.1f s, %.2f GiB, %zu leaves, rank at most %d (%d capped)",
                     st.dense_blocks, st.low_rank_blocks, st.mean_rank, st.max_rank,
                     double(st.bytes) / sizeof(double) / (double(unknowns) * std::log2(double(unknowns))),
-                    system.preconditioner_blocks());
+                    system.preconditioner_seconds(), double(system.preconditioner_stats().bytes) / (1 << 30),
+                    system.preconditioner_stats().leaves, system.preconditioner_stats().max_rank,
+                    system.preconditioner_stats().capped_blocks);
     }
     std::printf(", peak %.2f GiB", peak_rss_gib());
     std::fflush(stdout);
@@ -202,7 +223,7 @@ std::vector<long> parse_sizes(const std::string& text) {
 int main(int argc, char** argv) {
     std::string sizes = "2000,5000,10000,20000,50000";
     long dense_max = 21000, one = 0;
-    double tolerance = 1e-7;
+    double tolerance = 1e-7, preconditioner = SolverOptions{}.preconditioner_tolerance;
     int dipoles = 0;
     bool setup_only = false;
     for (int i = 1; i < argc; i += 2) {
@@ -220,6 +241,7 @@ int main(int argc, char** argv) {
         if (key == "--sizes") sizes = value;
         else if (key == "--dense-max") dense_max = std::stol(value);
         else if (key == "--tolerance") tolerance = std::stod(value);
+        else if (key == "--preconditioner") preconditioner = std::stod(value);
         else if (key == "--dipoles") dipoles = std::stoi(value);
         else if (key == "--one") one = std::stol(value);
         else {
@@ -227,16 +249,16 @@ int main(int argc, char** argv) {
             return 2;
         }
     }
-    if (one > 0) return one_size(one, dense_max, tolerance, dipoles, setup_only);
-    std::printf("murk-bench-large: fish of 15 cm, %d threads, compression tolerance %.0e, dense up to %ld unknowns; "
+    if (one > 0) return one_size(one, dense_max, tolerance, preconditioner, dipoles, setup_only);
+    std::printf("murk-bench-large: fish of 15 cm, %d threads, compression tolerance %.0e, preconditioner tolerance %.0e, dense up to %ld unknowns; "
                 "load average before %s\n",
-                omp_get_max_threads(), tolerance, dense_max, load_average().c_str());
+                omp_get_max_threads(), tolerance, preconditioner, dense_max, load_average().c_str());
     char exe[4096] = {};
     if (readlink("/proc/self/exe", exe, sizeof exe - 1) <= 0) return 1;
     for (long n : parse_sizes(sizes)) {
         char command[5000];
-        std::snprintf(command, sizeof command, "%s --one %ld --dense-max %ld --tolerance %.3e --dipoles %d%s", exe, n,
-                      dense_max, tolerance, dipoles, setup_only ? " --setup-only" : "");
+        std::snprintf(command, sizeof command, "%s --one %ld --dense-max %ld --tolerance %.3e --preconditioner %.3e --dipoles %d%s",
+                      exe, n, dense_max, tolerance, preconditioner, dipoles, setup_only ? " --setup-only" : "");
         if (std::system(command) != 0) std::printf("size %ld failed\n", n);
     }
     std::printf("load average after %s\n", load_average().c_str());

@@ -439,12 +439,16 @@ int read_count(const Section& sec, const std::string& key, const toml::node& n, 
 // 1e-14 (about 50 times double precision's rounding, which neither the compression
 // nor the iteration can get below) and 1e-2 (an error of a per cent in the body's
 // own solution, coarser than the small changes murk reports can bear).
-std::optional<double> optional_tolerance(const Section& sec, const std::string& key) {
+// A relative tolerance between 1e-14 and `largest` (both excluded; `largest_text`
+// is how the message writes it).
+std::optional<double> optional_tolerance(const Section& sec, const std::string& key, double largest = 1e-2,
+                                         const char* largest_text = "1e-2") {
     const toml::node* n = sec.find(key);
     if (!n) return std::nullopt;
     const double t = read_quantity(sec, key, *n, Dimension::dimensionless);
-    if (!(t > 1e-14 && t < 1e-2))
-        fail(sec.where(key), "must be a relative tolerance between 1e-14 and 1e-2 (both excluded), got " + describe(*n));
+    if (!(t > 1e-14 && t < largest))
+        fail(sec.where(key), std::string("must be a relative tolerance between 1e-14 and ") + largest_text +
+                                 " (both excluded), got " + describe(*n));
     return t;
 }
 
@@ -461,12 +465,14 @@ SolverOptions read_solver_options(const Section& sec) {
         o.dense_limit = std::size_t(read_count(sec, "dense_limit", *n, 1, kMaxDenseLimit));
     o.compression_tolerance = optional_tolerance(sec, "compression_tolerance").value_or(o.compression_tolerance);
     o.iteration_tolerance = optional_tolerance(sec, "iteration_tolerance").value_or(o.iteration_tolerance);
+    o.preconditioner_tolerance =
+        optional_tolerance(sec, "preconditioner_tolerance", 0.5, "0.5").value_or(o.preconditioner_tolerance);
     return o;
 }
 
 MeshSpec read_mesh(const Section& sec) {
     check_keys(sec, {"panel_size", "near_ratio", "far_ratio", "zone", "electrode_edge", "solver", "dense_limit",
-                     "compression_tolerance", "iteration_tolerance"});
+                     "compression_tolerance", "iteration_tolerance", "preconditioner_tolerance"});
     MeshSpec m;
     m.panel_size_m = optional_positive(sec, "panel_size", Dimension::length);
     m.electrode_edge_m = optional_positive(sec, "electrode_edge", Dimension::length);

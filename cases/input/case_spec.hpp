@@ -112,7 +112,8 @@ struct MeshSpec {
     // grading rule of geometry/electrode_hulls.hpp (a fraction of panel_size).
     std::optional<double> electrode_edge_m;
     // How the body's system is solved (solver/solver_options.hpp): the keys solver,
-    // dense_limit, compression_tolerance and iteration_tolerance; unset keys keep
+    // dense_limit, compression_tolerance, iteration_tolerance and
+    // preconditioner_tolerance; unset keys keep
     // SolverOptions' defaults.
     SolverOptions solver;
 };

@@ -25,8 +25,8 @@ SystemSolverUsed solver_used(const FixedPart<S>& fixed) {
 }
 
 // Root attributes: system_solver (as declared: auto, dense or compressed),
-// dense_limit and, unless the choice is dense, compression_tolerance and
-// iteration_tolerance.
+// dense_limit and, unless the choice is dense, compression_tolerance,
+// iteration_tolerance and preconditioner_tolerance.
 void write_solver_options(H5Group root, const SolverOptions& options);
 
 // Attributes of a group holding a solved system: system_solver_used,

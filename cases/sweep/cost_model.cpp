@@ -110,9 +110,9 @@ double CostModel::compressed_solve_seconds() const {
 
 double CostModel::fixed_part_seconds() const {
     const double n = double(sizes.fixed_unknowns);
-    if (sizes.compressed) {  // compression, then the fixed part's own solve
+    if (sizes.compressed) {  // compression, the preconditioner, then the fixed part's own solve
         const double compression = image_factor() * system_entries(n, true) / (rates.entry_rate * rates.threads);
-        return double(sizes.waters) * (compression + compressed_solve_seconds());
+        return double(sizes.waters) * ((1 + kPreconditionerSetupShare) * compression + compressed_solve_seconds());
     }
     const double assembly = image_factor() * n * n / (rates.entry_rate * rates.threads);
     const double lu = flop_factor() * 2.0 / 3.0 * n * n * n / rates.lu_flop_rate;

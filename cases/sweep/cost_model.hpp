@@ -14,8 +14,9 @@
 // water every entry sums over their images: assembly and coupling are scaled by
 // image_factor() below.
 // When the body's system is compressed (solver/system_cost.hpp: about
-// c n log2 n + 512 n entries instead of n^2), the model is instead
+// c n log2 n + (512 + 12 sqrt(n)) n entries instead of n^2), the model is instead
 //   compression of the operator         entries / entry_rate
+//   the preconditioner                  as long again
 //   one solve                           iterations x bytes of the compressed
 //                                       system / solve_byte_rate (each iteration
 //                                       reads the operator and preconditioner)

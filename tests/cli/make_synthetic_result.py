@@ -151,6 +151,7 @@ def write_root(f, title, frequency_hz):
     f.attrs["dense_limit"] = np.int64(8000)
     f.attrs["compression_tolerance"] = 1e-8
     f.attrs["iteration_tolerance"] = 1e-10
+    f.attrs["preconditioner_tolerance"] = 1e-4
     f.attrs["frequency_Hz"] = float(frequency_hz)
 
 

@@ -20,7 +20,7 @@ with_mesh_keys() {  # EXAMPLE OUT KEYS
   grep -q "^${3%%\\n*}\$" "$2" || { echo "could not write $2"; exit 1; }
 }
 with_mesh_keys fish_prey "$dir/dense.toml" 'solver = "dense"\ndense_limit = 1'
-with_mesh_keys fish_prey "$dir/compressed.toml" 'solver = "compressed"\ncompression_tolerance = 1e-12\niteration_tolerance = 1e-13'
+with_mesh_keys fish_prey "$dir/compressed.toml" 'solver = "compressed"\ncompression_tolerance = 1e-12\niteration_tolerance = 1e-13\npreconditioner_tolerance = 1e-3'
 with_mesh_keys fish_detection "$dir/run.toml" 'dense_limit = 100000'
 
 "$murk" solve "$dir/dense.toml" -o "$dir/dense.h5" > "$dir/dense.log" 2>&1 || { cat "$dir/dense.log"; echo "murk solve dense failed"; exit 1; }
@@ -32,7 +32,7 @@ with_mesh_keys fish_detection "$dir/run.toml" 'dense_limit = 100000'
 # The start-up lines.
 grep -q '^system solver: dense LU, [0-9]* unknowns (solver = "dense", dense_limit = 1)$' "$dir/dense.log" \
   && echo "ok   murk solve prints the dense choice" || fail "murk solve's solver line: $(grep solver "$dir/dense.log")"
-grep -q '^system solver: compressed operator .*compression_tolerance = 1e-12, iteration_tolerance = 1e-13)$' "$dir/compressed.log" \
+grep -q '^system solver: compressed operator .*compression_tolerance = 1e-12, iteration_tolerance = 1e-13, preconditioner_tolerance = 0.001)$' "$dir/compressed.log" \
   && echo "ok   murk solve prints the compressed choice" || fail "murk solve's solver line: $(grep solver "$dir/compressed.log")"
 grep -q '^murk: system solver: dense LU, [0-9]* unknowns (solver = "auto", dense_limit = 100000)$' "$dir/run.log" \
   && grep -q '^murk: body system: assembly .*; dense LU$' "$dir/run.log" \
@@ -57,13 +57,15 @@ def check(ok, what):
 
 with h5py.File(f"{d}/dense.h5", "r") as f:
     check(f.attrs["system_solver"] == "dense" and int(f.attrs["dense_limit"]) == 1, "dense: root system_solver, dense_limit")
-    check("compression_tolerance" not in f.attrs and "iteration_tolerance" not in f.attrs, "dense: no tolerances")
+    check(not any(t in f.attrs for t in ("compression_tolerance", "iteration_tolerance", "preconditioner_tolerance")),
+          "dense: no tolerances")
     for g in ("baseline", "perturbed"):
         check(f[g].attrs["system_solver_used"] == "dense" and int(f[g].attrs["system_iterations"]) == 0,
               f"dense: /{g} solved dense although dense_limit is 1")
 with h5py.File(f"{d}/compressed.h5", "r") as f:
     check(f.attrs["system_solver"] == "compressed", "compressed: root system_solver")
-    check(f.attrs["compression_tolerance"] == 1e-12 and f.attrs["iteration_tolerance"] == 1e-13, "compressed: tolerances")
+    check(f.attrs["compression_tolerance"] == 1e-12 and f.attrs["iteration_tolerance"] == 1e-13
+          and f.attrs["preconditioner_tolerance"] == 1e-3, "compressed: tolerances")
     for g in ("baseline", "perturbed"):
         used = f[g].attrs["system_solver_used"]
         check(used == "compressed", f"compressed: /{g} says {used}")
@@ -72,7 +74,8 @@ with h5py.File(f"{d}/compressed.h5", "r") as f:
         check(int(f[g].attrs["system_iterations"]) > 0, f"compressed: /{g} iterations")
 with h5py.File(f"{d}/default.h5", "r") as f:
     check(f.attrs["system_solver"] == "auto" and int(f.attrs["dense_limit"]) == 16000, "default: auto, 16000")
-    check(f.attrs["compression_tolerance"] == 1e-7 and f.attrs["iteration_tolerance"] == 1e-10, "default: tolerances")
+    check(f.attrs["compression_tolerance"] == 1e-7 and f.attrs["iteration_tolerance"] == 1e-10
+          and f.attrs["preconditioner_tolerance"] == 1e-4, "default: tolerances")
 with h5py.File(f"{d}/run.h5", "r") as f:
     check(f.attrs["system_solver"] == "auto" and int(f.attrs["dense_limit"]) == 100000, "run: root attributes")
     check(f["sweep"].attrs["system_solver_used"] == "dense" and int(f["sweep"].attrs["system_iterations"]) == 0,
@@ -103,7 +106,7 @@ EOF
 
 # murk inspect shows the declared choice and what each system got.
 "$murk" inspect "$dir/compressed.h5" > "$dir/inspect.txt" 2>&1 || fail "murk inspect: $(cat "$dir/inspect.txt")"
-grep -q '^  system solver:  compressed, dense_limit 16000 unknowns, compression_tolerance 1e-12, iteration_tolerance 1e-13$' "$dir/inspect.txt" \
+grep -q '^  system solver:  compressed, dense_limit 16000 unknowns, compression_tolerance 1e-12, iteration_tolerance 1e-13, preconditioner_tolerance 0.001$' "$dir/inspect.txt" \
   && grep -q '^solved by: .*(baseline), .*(with the objects)$' "$dir/inspect.txt" \
   && echo "ok   murk inspect shows the solver" || fail "murk inspect: $(grep -i solve "$dir/inspect.txt")"
 "$murk" inspect "$dir/run.h5" > "$dir/inspect.txt" 2>&1 || fail "murk inspect run: $(cat "$dir/inspect.txt")"
@@ -138,6 +141,8 @@ with_mesh_keys fish_prey "$dir/bad3.toml" 'compression_tolerance = 0.1'
 expect_bad "coarse compression_tolerance" "bad3.toml:$((line + 1)): mesh.compression_tolerance: must be a relative tolerance" "$dir/bad3.toml"
 with_mesh_keys fish_prey "$dir/bad4.toml" 'iteration_tolerance = 1e-16'
 expect_bad "fine iteration_tolerance" "bad4.toml:$((line + 1)): mesh.iteration_tolerance: must be a relative tolerance" "$dir/bad4.toml"
+with_mesh_keys fish_prey "$dir/bad5.toml" 'preconditioner_tolerance = 0.7'
+expect_bad "coarse preconditioner_tolerance" "bad5.toml:$((line + 1)): mesh.preconditioner_tolerance: must be a relative tolerance between 1e-14 and 0.5" "$dir/bad5.toml"
 # The memory check counts the compressed system when that is what will be held.
 "$murk" solve "$dir/compressed.toml" -o "$dir/bad.h5" --memory-limit "1 MiB" > /dev/null 2> "$dir/err"
 grep -q "(a compressed system of [0-9]* unknowns" "$dir/err" && echo "ok   memory refusal names the compressed system" \

@@ -241,6 +241,8 @@ void print_header(const H5File& file, const H5Group& root) {
         if (root.has_attribute("compression_tolerance"))
             line += format(", compression_tolerance %g, iteration_tolerance %g",
                            root.double_attribute("compression_tolerance"), root.double_attribute("iteration_tolerance"));
+        if (root.has_attribute("preconditioner_tolerance"))  // files before the HODLR preconditioner have none
+            line += format(", preconditioner_tolerance %g", root.double_attribute("preconditioner_tolerance"));
         std::printf("  system solver:  %s\n", line.c_str());
     }
     if (root.has_attribute("water_images")) {  // files written before murk recorded the water's bounds have none

@@ -1,0 +1,355 @@
+// The HODLR approximate inverse of hodlr_inverse.hpp: a node tree over the
+// cluster tree cut at leaf_size, the hierarchical matrix's stored blocks
+// regrouped by the node whose two children they couple, each such group
+// compressed by a randomized range finder, and the Woodbury factors built from
+// the leaves up.
+#include "solver/hodlr_inverse.hpp"
+
+#include "geometry/internal_check.hpp"
+
+#include <Eigen/LU>
+#include <Eigen/QR>
+
+#include <chrono>
+#include <random>
+#include <type_traits>
+
+#include <omp.h>
+
+namespace murk {
+
+namespace {
+
+template <class S>
+S standard_normal(std::mt19937_64& random, std::normal_distribution<double>& normal) {
+    if constexpr (std::is_same_v<S, double>) {
+        return normal(random);
+    } else {
+        const double re = normal(random);
+        return S(re, normal(random));
+    }
+}
+
+}  // namespace
+
+template <class S>
+struct HodlrInverse<S>::Impl {
+    struct Node {
+        Eigen::Index begin = 0, size = 0;  // positions in the cluster tree's order
+        int first = -1, second = -1;       // children in `nodes`; -1 for a leaf
+        int depth = 0;
+        // Stored blocks of the H-matrix: a leaf's lie in its diagonal block; an
+        // inner node's couple its first child's rows with its second child's
+        // columns (upper) or the reverse (lower).
+        std::vector<std::size_t> upper, lower;
+        // The inverse of a leaf's dense block or of an inner node's core S, held
+        // explicitly: applying it is one pass over it, where triangular solves
+        // against LU factors take two and pack them first.
+        MatrixX<S> inverse;
+        MatrixX<S> z1, z2, v1, v2;  // inner: Z_i = A_i^-1 U_i and V_i
+        bool is_leaf() const { return first < 0; }
+    };
+
+    Eigen::Index n = 0;
+    std::vector<Eigen::Index> order;
+    std::vector<Node> nodes;
+    HodlrStats stats;
+
+    int add_node(const ClusterTree& tree, int tree_node, int depth, Eigen::Index leaf_size) {
+        const ClusterTree::Node& t = tree.nodes[std::size_t(tree_node)];
+        const int index = int(nodes.size());
+        nodes.emplace_back();
+        nodes.back().begin = t.begin;
+        nodes.back().size = t.size();
+        nodes.back().depth = depth;
+        if (t.size() <= leaf_size || t.is_leaf()) return index;
+        const int first = add_node(tree, t.first_child, depth + 1, leaf_size);
+        const int second = add_node(tree, t.second_child, depth + 1, leaf_size);
+        nodes[std::size_t(index)].first = first;
+        nodes[std::size_t(index)].second = second;
+        return index;
+    }
+
+    static bool inside(Eigen::Index begin, Eigen::Index size, const Node& node) {
+        return begin >= node.begin && begin + size <= node.begin + node.size;
+    }
+
+    // Hands every stored block to the node that owns it (see Node).
+    void assign(const std::vector<HMatrixBlock<S>>& blocks) {
+        for (std::size_t b = 0; b < blocks.size(); ++b) {
+            const HMatrixBlock<S>& block = blocks[b];
+            int at = 0;
+            for (;;) {
+                Node& node = nodes[std::size_t(at)];
+                if (node.is_leaf()) {
+                    node.upper.push_back(b);
+                    break;
+                }
+                const Node& a = nodes[std::size_t(node.first)];
+                const Node& c = nodes[std::size_t(node.second)];
+                const bool rows_a = inside(block.row_begin, block.rows, a), rows_c = inside(block.row_begin, block.rows, c);
+                const bool cols_a = inside(block.col_begin, block.cols, a), cols_c = inside(block.col_begin, block.cols, c);
+                MURK_CHECK((rows_a || rows_c) && (cols_a || cols_c), "every stored block lies inside one pair of clusters");
+                if (rows_a && cols_a) {
+                    at = node.first;
+                } else if (rows_c && cols_c) {
+                    at = node.second;
+                } else {
+                    (rows_a ? node.upper : node.lower).push_back(b);
+                    break;
+                }
+            }
+        }
+    }
+
+    // The product of the blocks `list` (a region whose rows start at position
+    // row0 and columns at col0) with x, or of their transpose; `out` is sized.
+    // Chunks of columns are tasks for the enclosing team (the other threads pick
+    // them up while they wait); the chunks do not depend on the threads, and
+    // each output column is summed in block order, so neither does the result.
+    static void region_product(const std::vector<HMatrixBlock<S>>& blocks, const std::vector<std::size_t>& list,
+                               Eigen::Index row0, Eigen::Index col0, const MatrixX<S>& x, bool transposed,
+                               MatrixX<S>& out) {
+        constexpr Eigen::Index chunk = 16;
+        out.setZero();
+        const Eigen::Index k = x.cols();
+#pragma omp taskloop grainsize(1) shared(blocks, list, x, out)
+        for (Eigen::Index c0 = 0; c0 < k; c0 += chunk) {
+            const Eigen::Index width = std::min(chunk, k - c0);
+            for (const std::size_t b : list) {
+                const HMatrixBlock<S>& block = blocks[b];
+                if (!transposed) {
+                    const auto in = x.block(block.col_begin - col0, c0, block.cols, width);
+                    auto to = out.block(block.row_begin - row0, c0, block.rows, width);
+                    if (block.low_rank) to.noalias() += block.u * (block.v.transpose() * in);
+                    else to.noalias() += block.dense * in;
+                } else {
+                    const auto in = x.block(block.row_begin - row0, c0, block.rows, width);
+                    auto to = out.block(block.col_begin - col0, c0, block.cols, width);
+                    if (block.low_rank) to.noalias() += block.v * (block.u.transpose() * in);
+                    else to.noalias() += block.dense.transpose() * in;
+                }
+            }
+        }
+    }
+
+    // u v^T approximating the region of `list` (rows: m from row0, columns: c
+    // from col0) to the relative tolerance: a randomized range finder whose
+    // width doubles until the truncation drops at least `oversampling` of its
+    // directions (or the width reaches the cap). Returns whether it was capped.
+    static bool compress(const std::vector<HMatrixBlock<S>>& blocks, const std::vector<std::size_t>& list,
+                         Eigen::Index row0, Eigen::Index m, Eigen::Index col0, Eigen::Index c,
+                         const HodlrOptions& options, unsigned seed, MatrixX<S>& u, MatrixX<S>& v) {
+        constexpr Eigen::Index oversampling = 8;
+        u.resize(m, 0);
+        v.resize(c, 0);
+        if (list.empty()) return false;
+        const Eigen::Index limit = std::min({m, c, options.max_rank + oversampling});
+        Eigen::Index width = std::min<Eigen::Index>(32, limit);
+        std::mt19937_64 random(seed);
+        std::normal_distribution<double> normal;
+        for (;;) {
+            MatrixX<S> omega(c, width);
+            for (Eigen::Index j = 0; j < width; ++j)
+                for (Eigen::Index i = 0; i < c; ++i) omega(i, j) = standard_normal<S>(random, normal);
+            MatrixX<S> y(m, width);
+            region_product(blocks, list, row0, col0, omega, false, y);
+            const Eigen::HouseholderQR<MatrixX<S>> qr(y);
+            const MatrixX<S> q = qr.householderQ() * MatrixX<S>::Identity(m, width);
+            // A ~ Q Q^H A = Q (A^T conj(Q))^T.
+            MatrixX<S> bt(c, width);
+            region_product(blocks, list, row0, col0, MatrixX<S>(q.conjugate()), true, bt);
+            u = q;
+            v = bt;
+            recompress_low_rank(u, v, options.tolerance);
+            if (u.cols() + oversampling <= width || width == limit) break;
+            width = std::min(2 * width, limit);
+        }
+        if (u.cols() > options.max_rank) {
+            u.conservativeResize(Eigen::NoChange, options.max_rank);
+            v.conservativeResize(Eigen::NoChange, options.max_rank);
+            return true;
+        }
+        return false;
+    }
+
+    // Products with the tall factors Z and V, by chunks of rows that stay in
+    // cache: Eigen packs a product's left factor before multiplying, and a
+    // factor of tens of megabytes packed whole costs a second pass over memory.
+    static Eigen::Index chunk_rows(const MatrixX<S>& a) {
+        const Eigen::Index bytes_per_row = Eigen::Index(sizeof(S)) * std::max<Eigen::Index>(1, a.cols());
+        return std::max<Eigen::Index>(64, (Eigen::Index(1) << 20) / bytes_per_row);
+    }
+    // y -= a c
+    static void subtract_product(Eigen::Ref<MatrixX<S>> y, const MatrixX<S>& a, const MatrixX<S>& c) {
+        const Eigen::Index step = chunk_rows(a);
+        for (Eigen::Index i = 0; i < a.rows(); i += step) {
+            const Eigen::Index h = std::min(step, a.rows() - i);
+            y.middleRows(i, h).noalias() -= a.middleRows(i, h) * c;
+        }
+    }
+    // a^T y, summed over the chunks in order
+    static MatrixX<S> transposed_product(const MatrixX<S>& a, const Eigen::Ref<const MatrixX<S>>& y) {
+        MatrixX<S> out = MatrixX<S>::Zero(a.cols(), y.cols());
+        const Eigen::Index step = chunk_rows(a);
+        for (Eigen::Index i = 0; i < a.rows(); i += step) {
+            const Eigen::Index h = std::min(step, a.rows() - i);
+            out.noalias() += a.middleRows(i, h).transpose() * y.middleRows(i, h);
+        }
+        return out;
+    }
+
+    // x := M^-1 x (transposed: M^-T x) on the node's positions, in place.
+    void solve_in_place(int index, Eigen::Ref<MatrixX<S>> x, bool transposed) const {
+        const Node& node = nodes[std::size_t(index)];
+        if (node.is_leaf()) {
+            x = transposed ? MatrixX<S>(node.inverse.transpose() * x) : MatrixX<S>(node.inverse * x);
+            return;
+        }
+        const Eigen::Index n1 = nodes[std::size_t(node.first)].size, n2 = nodes[std::size_t(node.second)].size;
+        const Eigen::Index r1 = node.z1.cols(), r2 = node.z2.cols();
+        if (!transposed) {
+            solve_children(node, x, false);
+            if (r1 + r2 == 0) return;
+            MatrixX<S> w(r1 + r2, x.cols());
+            w.topRows(r1) = transposed_product(node.v1, x.bottomRows(n2));
+            w.bottomRows(r2) = transposed_product(node.v2, x.topRows(n1));
+            const MatrixX<S> c = node.inverse * w;
+            subtract_product(x.topRows(n1), node.z1, c.topRows(r1));
+            subtract_product(x.bottomRows(n2), node.z2, c.bottomRows(r2));
+            return;
+        }
+        if (r1 + r2 > 0) {
+            MatrixX<S> g(r1 + r2, x.cols());
+            g.topRows(r1) = transposed_product(node.z1, x.topRows(n1));
+            g.bottomRows(r2) = transposed_product(node.z2, x.bottomRows(n2));
+            const MatrixX<S> c = node.inverse.transpose() * g;
+            subtract_product(x.topRows(n1), node.v2, c.bottomRows(r2));
+            subtract_product(x.bottomRows(n2), node.v1, c.topRows(r1));
+        }
+        solve_children(node, x, true);
+    }
+
+    // The two halves of diag(A_1, A_2)^-1 x are independent, so large ones run
+    // as tasks of the enclosing team.
+    void solve_children(const Node& node, Eigen::Ref<MatrixX<S>> x, bool transposed) const {
+        const Eigen::Index n1 = nodes[std::size_t(node.first)].size, n2 = nodes[std::size_t(node.second)].size;
+#pragma omp task shared(x) if (node.size > 4096)
+        solve_in_place(node.first, x.topRows(n1), transposed);
+        solve_in_place(node.second, x.bottomRows(n2), transposed);
+#pragma omp taskwait
+    }
+
+    void factor_leaf(Node& node, const std::vector<HMatrixBlock<S>>& blocks) {
+        MatrixX<S> dense = MatrixX<S>::Zero(node.size, node.size);
+        for (const std::size_t b : node.upper) {
+            const HMatrixBlock<S>& block = blocks[b];
+            auto to = dense.block(block.row_begin - node.begin, block.col_begin - node.begin, block.rows, block.cols);
+            if (block.low_rank) to.noalias() = block.u * block.v.transpose();
+            else to = block.dense;
+        }
+        node.inverse = Eigen::PartialPivLU<MatrixX<S>>(dense).inverse();
+        node.upper.clear();
+    }
+
+    // Needs both children finished: Z_i are solves against them.
+    bool factor_inner(Node& node, int index, const std::vector<HMatrixBlock<S>>& blocks,
+                      const HodlrOptions& options) {
+        const Node& a = nodes[std::size_t(node.first)];
+        const Node& c = nodes[std::size_t(node.second)];
+        MatrixX<S> u1, u2;
+        bool capped = compress(blocks, node.upper, a.begin, a.size, c.begin, c.size, options,
+                               2 * unsigned(index) + 1, u1, node.v1);
+        capped |= compress(blocks, node.lower, c.begin, c.size, a.begin, a.size, options, 2 * unsigned(index) + 2,
+                           u2, node.v2);
+        node.upper.clear();
+        node.lower.clear();
+        node.z1 = std::move(u1);
+        node.z2 = std::move(u2);
+        solve_in_place(node.first, node.z1, false);
+        solve_in_place(node.second, node.z2, false);
+        const Eigen::Index r1 = node.z1.cols(), r2 = node.z2.cols();
+        MatrixX<S> core = MatrixX<S>::Identity(r1 + r2, r1 + r2);
+        core.topRightCorner(r1, r2).noalias() = node.v1.transpose() * node.z2;
+        core.bottomLeftCorner(r2, r1).noalias() = node.v2.transpose() * node.z1;
+        if (r1 + r2 > 0) node.inverse = Eigen::PartialPivLU<MatrixX<S>>(core).inverse();
+        return capped;
+    }
+};
+
+template <class S>
+HodlrInverse<S>::HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& options) {
+    MURK_CHECK(options.leaf_size >= 1 && options.tolerance > 0 && options.max_rank >= 0, "valid HODLR options");
+    const auto start = std::chrono::steady_clock::now();
+    auto impl = std::make_shared<Impl>();
+    impl->n = matrix.size();
+    impl->order = matrix.tree().order;
+    if (impl->n > 0) {
+        impl->add_node(matrix.tree(), 0, 0, options.leaf_size);
+        impl->assign(matrix.blocks());
+    }
+    // From the deepest nodes up: the nodes of one depth are independent. Always
+    // inside a parallel region, even for one node: Eigen then multiplies on one
+    // thread, whose rounding does not depend on the team's size.
+    int deepest = 0;
+    for (const auto& node : impl->nodes) deepest = std::max(deepest, node.depth);
+    std::exception_ptr failure;
+    int capped = 0;
+    for (int depth = deepest; depth >= 0 && !impl->nodes.empty(); --depth) {
+        std::vector<int> level;
+        for (std::size_t i = 0; i < impl->nodes.size(); ++i)
+            if (impl->nodes[i].depth == depth) level.push_back(int(i));
+#pragma omp parallel for schedule(dynamic, 1) reduction(+ : capped)
+        for (std::size_t k = 0; k < level.size(); ++k) {
+            try {
+                auto& node = impl->nodes[std::size_t(level[k])];
+                if (node.is_leaf()) impl->factor_leaf(node, matrix.blocks());
+                else capped += impl->factor_inner(node, level[k], matrix.blocks(), options) ? 1 : 0;
+            } catch (...) {
+#pragma omp critical(murk_hodlr_failure)
+                if (!failure) failure = std::current_exception();
+            }
+        }
+        if (failure) std::rethrow_exception(failure);
+    }
+
+    HodlrStats& stats = impl->stats;
+    stats.capped_blocks = capped;
+    for (const auto& node : impl->nodes) {
+        if (node.is_leaf()) {
+            ++stats.leaves;
+            stats.bytes += sizeof(S) * std::size_t(node.size * node.size);
+        } else {
+            stats.max_rank = std::max({stats.max_rank, int(node.z1.cols()), int(node.z2.cols())});
+            stats.bytes += sizeof(S) * std::size_t(node.z1.size() + node.z2.size() + node.v1.size() + node.v2.size());
+        }
+    }
+    stats.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    impl_ = std::move(impl);
+}
+
+template <class S>
+MatrixX<S> HodlrInverse<S>::solve(const MatrixX<S>& x, bool transposed) const {
+    const Impl& m = *impl_;
+    MURK_CHECK(x.rows() == m.n, "one row per unknown of the matrix");
+    if (m.n == 0) return x;
+    MatrixX<S> x_p(m.n, x.cols());
+    for (Eigen::Index p = 0; p < m.n; ++p) x_p.row(p) = x.row(m.order[std::size_t(p)]);
+    // The tasks of solve_children need a team; inside one already they join it.
+#pragma omp parallel if (!omp_in_parallel())
+#pragma omp single
+    m.solve_in_place(0, x_p, transposed);
+    MatrixX<S> y(m.n, x.cols());
+    for (Eigen::Index p = 0; p < m.n; ++p) y.row(m.order[std::size_t(p)]) = x_p.row(p);
+    return y;
+}
+
+template <class S>
+const HodlrStats& HodlrInverse<S>::stats() const {
+    return impl_->stats;
+}
+
+template class HodlrInverse<double>;
+template class HodlrInverse<Complex>;
+
+}  // namespace murk
