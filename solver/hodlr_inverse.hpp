@@ -16,7 +16,8 @@
 // truncation of hmatrix.hpp). With Z_i = A_i^-1 U_i,
 //     A_t^-1 = K^-1 - Z S^-1 W^T K^-1,   S = [ I          V_1^T Z_2 ]
 //                                            [ V_2^T Z_1  I         ],
-// and the leaves (clusters of at most `leaf_size` unknowns) are dense LU. A
+// and the leaves (clusters of at most `leaf_size` unknowns) are dense, inverted
+// explicitly (one pass to apply, where LU solves take two). A
 // solve costs about (leaf_size + 4 r log2(n / leaf_size)) n operations for
 // ranks r. Loose accuracy gives a cheap preconditioner; tight accuracy makes
 // it nearly the inverse, so that the iterative solve needs one or two steps.
