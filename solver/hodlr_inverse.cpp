@@ -231,10 +231,11 @@ struct HodlrInverse<S>::Impl {
     }
 
     // The two halves of diag(A_1, A_2)^-1 x are independent, so large ones run
-    // as tasks of the enclosing team.
+    // as tasks of the enclosing team. `node` must be shared: a reference left
+    // firstprivate, the task's default, would copy the node with all its factors.
     void solve_children(const Node& node, Eigen::Ref<MatrixX<S>> x, bool transposed) const {
         const Eigen::Index n1 = nodes[std::size_t(node.first)].size, n2 = nodes[std::size_t(node.second)].size;
-#pragma omp task shared(x) if (node.size > 4096)
+#pragma omp task shared(x, node) if (node.size > 4096)
         solve_in_place(node.first, x.topRows(n1), transposed);
         solve_in_place(node.second, x.bottomRows(n2), transposed);
 #pragma omp taskwait
