@@ -5,6 +5,7 @@
 // cross approximation, recompression); Grasedyck 2005, "Adaptive recompression of
 // H-matrices for BEM", Computing 74 (reliable stopping of the cross approximation).
 #include "solver/hmatrix.hpp"
+#include "tests/sphere_points.hpp"
 
 #include <doctest/doctest.h>
 
@@ -19,19 +20,7 @@ namespace {
 
 constexpr double pi = 3.14159265358979323846;
 
-// Nearly uniform points on the unit sphere: the Fibonacci lattice (Gonzalez 2010,
-// "Measurement of areas on a sphere using Fibonacci and latitude-longitude
-// lattices", Mathematical Geosciences 42).
-Eigen::Matrix3Xd fibonacci_sphere(Eigen::Index n) {
-    Eigen::Matrix3Xd points(3, n);
-    const double golden_angle = pi * (3 - std::sqrt(5.0));
-    for (Eigen::Index i = 0; i < n; ++i) {
-        const double z = 1 - (2 * double(i) + 1) / double(n);
-        const double rho = std::sqrt(1 - z * z);
-        points.col(i) << rho * std::cos(golden_angle * double(i)), rho * std::sin(golden_angle * double(i)), z;
-    }
-    return points;
-}
+using fixtures::fibonacci_sphere;
 
 // The Laplace kernel 1/(4 pi r) (real) or the Helmholtz kernel exp(i k r)/(4 pi r)
 // with k = 1 on the unit sphere (complex); 1.0 on the diagonal.

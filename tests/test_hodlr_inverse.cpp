@@ -8,6 +8,7 @@
 // Woodbury recursion); Halko, Martinsson and Tropp 2011, "Finding structure
 // with randomness", SIAM Review 53 (the randomized range finder).
 #include "solver/hodlr_inverse.hpp"
+#include "tests/sphere_points.hpp"
 
 #include <Eigen/LU>
 #include <doctest/doctest.h>
@@ -22,19 +23,6 @@ using namespace murk;
 namespace {
 
 constexpr double pi = 3.14159265358979323846;
-
-// Fibonacci lattice on the unit sphere (Gonzalez 2010, "Measurement of areas on
-// a sphere using Fibonacci and latitude-longitude lattices", Math. Geosciences 42).
-Eigen::Matrix3Xd sphere_points(Eigen::Index n) {
-    Eigen::Matrix3Xd points(3, n);
-    const double golden_angle = pi * (3 - std::sqrt(5.0));
-    for (Eigen::Index i = 0; i < n; ++i) {
-        const double z = 1 - (2 * double(i) + 1) / double(n);
-        const double rho = std::sqrt(1 - z * z);
-        points.col(i) << rho * std::cos(golden_angle * double(i)), rho * std::sin(golden_angle * double(i)), z;
-    }
-    return points;
-}
 
 template <class S>
 S entry(const Eigen::Matrix3Xd& points, Eigen::Index i, Eigen::Index j) {
@@ -58,7 +46,7 @@ BlockEntries<S> entries_of(const Eigen::Matrix3Xd& points) {
 
 struct Fixture {
     static constexpr Eigen::Index n = 2400;
-    Eigen::Matrix3Xd points = sphere_points(n);
+    Eigen::Matrix3Xd points = fixtures::fibonacci_sphere(n);
 };
 
 template <class S>
