@@ -42,6 +42,9 @@ public:
                              double tolerance = 0) const;
     // A x (transposed: A^T x) for every column of x.
     MatrixX<S> apply(const MatrixX<S>& x, bool transposed = false) const;
+    // M^-1 x (transposed: M^-T x) for every column of x: the preconditioner on
+    // the panel unknowns, the identity on the electrodes'.
+    MatrixX<S> precondition(const MatrixX<S>& x, bool transposed) const;
 
     std::size_t bytes() const;                     // operator, border and preconditioner
     const HMatrixStats& operator_stats() const { return h_->stats(); }
@@ -55,10 +58,11 @@ public:
 
     // Unknowns per dense leaf of the preconditioner (at most).
     static constexpr Eigen::Index preconditioner_block = 512;
+    // The preconditioner's factors are stored in single precision (half the
+    // memory) from this preconditioner_tolerance up.
+    static constexpr double kSinglePrecisionFrom = 1e-5;
 
 private:
-    // M^-1 x (transposed: M^-T x) for every column of x.
-    MatrixX<S> precondition(const MatrixX<S>& x, bool transposed) const;
     static constexpr int kRestart = 30;
     static constexpr std::size_t kBasisBytes = std::size_t(1) << 30;
 

@@ -220,6 +220,23 @@ private:
 // values r such that the dropped ones satisfy
 // sqrt(sum_{l>r} sigma_l^2) <= tolerance * sqrt(sum_l sigma_l^2),
 // i.e. the same relative Frobenius accuracy the cross approximation aims at.
+namespace {
+
+// The rank that keeps all but a relative Frobenius share `tolerance` of the
+// singular values `sigma` (descending).
+Eigen::Index kept_rank(const Eigen::VectorXd& sigma, double tolerance) {
+    const double total2 = sigma.squaredNorm();
+    Eigen::Index r = sigma.size();
+    double dropped2 = 0;
+    while (r > 0 && dropped2 + sigma(r - 1) * sigma(r - 1) <= tolerance * tolerance * total2) {
+        dropped2 += sigma(r - 1) * sigma(r - 1);
+        --r;
+    }
+    return r;
+}
+
+}  // namespace
+
 template <class S>
 void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
     const Eigen::Index k = u.cols();
@@ -231,17 +248,37 @@ void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance) {
     const MatrixX<S> r_v = qr_v.matrixQR().topRows(k).template triangularView<Eigen::Upper>();
     const Eigen::BDCSVD<MatrixX<S>> svd(r_u * r_v.transpose(), Eigen::ComputeFullU | Eigen::ComputeFullV);
     const Eigen::VectorXd& sigma = svd.singularValues();
-    const double total2 = sigma.squaredNorm();
-    Eigen::Index r = k;
-    double dropped2 = 0;
-    while (r > 0 && dropped2 + sigma(r - 1) * sigma(r - 1) <= tolerance * tolerance * total2) {
-        dropped2 += sigma(r - 1) * sigma(r - 1);
-        --r;
-    }
+    const Eigen::Index r = kept_rank(sigma, tolerance);
     u = q_u * (svd.matrixU().leftCols(r) * sigma.head(r).asDiagonal());
     v = q_v * svd.matrixV().leftCols(r).conjugate();
 }
 
+template <class S>
+void truncate_orthonormal(MatrixX<S>& q, MatrixX<S>& v, double tolerance) {
+    const Eigen::Index k = q.cols();
+    if (k == 0) return;
+    // v = Q_v R_v in place; then q v^T = q R_v^T Q_v^T, and only the small
+    // R_v^T needs its SVD. The new factors are Q_v [V_r; 0], applied as
+    // reflections to a matrix of the new v's size, and q U_r Sigma_r, formed
+    // in place by chunks of rows: beyond q and v only the new v is held.
+    Eigen::HouseholderQR<Eigen::Ref<MatrixX<S>>> qr_v(v);
+    const MatrixX<S> r_v = qr_v.matrixQR().topRows(k).template triangularView<Eigen::Upper>();
+    const Eigen::BDCSVD<MatrixX<S>> svd(r_v.transpose(), Eigen::ComputeFullU | Eigen::ComputeFullV);
+    const Eigen::VectorXd& sigma = svd.singularValues();
+    const Eigen::Index r = kept_rank(sigma, tolerance);
+    MatrixX<S> v_new = MatrixX<S>::Zero(v.rows(), r);
+    v_new.topRows(k) = svd.matrixV().leftCols(r).conjugate();
+    v_new.applyOnTheLeft(qr_v.householderQ());
+    v = std::move(v_new);
+    const MatrixX<S> m = svd.matrixU().leftCols(r) * sigma.head(r).asDiagonal();
+    constexpr Eigen::Index chunk = 256;
+    for (Eigen::Index i = 0; i < q.rows(); i += chunk) {
+        const Eigen::Index h = std::min(chunk, q.rows() - i);
+        const MatrixX<S> rows = q.middleRows(i, h) * m;
+        q.block(i, 0, h, r) = rows;
+    }
+    q.conservativeResize(Eigen::NoChange, r);
+}
 
 template <class S>
 struct HMatrix<S>::Impl {
@@ -440,6 +477,8 @@ const std::vector<HMatrixBlock<S>>& HMatrix<S>::blocks() const {
 
 template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, double);
 template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
+template void truncate_orthonormal(MatrixX<double>&, MatrixX<double>&, double);
+template void truncate_orthonormal(MatrixX<Complex>&, MatrixX<Complex>&, double);
 template class HMatrix<double>;
 template class HMatrix<Complex>;
 

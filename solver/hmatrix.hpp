@@ -57,6 +57,11 @@ struct HMatrixBlock {
 // (QR of both factors, then an SVD of the small core).
 template <class S>
 void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance);
+// The same truncation when q has orthonormal columns already (q^H q = I, as a
+// range finder's basis has): only v is factored, in place, so that no more than
+// one further matrix of v's size is held.
+template <class S>
+void truncate_orthonormal(MatrixX<S>& q, MatrixX<S>& v, double tolerance);
 
 template <class S>
 class HMatrix {
@@ -88,6 +93,8 @@ private:
 
 extern template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, double);
 extern template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
+extern template void truncate_orthonormal(MatrixX<double>&, MatrixX<double>&, double);
+extern template void truncate_orthonormal(MatrixX<Complex>&, MatrixX<Complex>&, double);
 extern template class HMatrix<double>;
 extern template class HMatrix<Complex>;
 

@@ -11,6 +11,7 @@
 #include <Eigen/QR>
 
 #include <chrono>
+#include <complex>
 #include <random>
 #include <type_traits>
 
@@ -32,6 +33,62 @@ S standard_normal(std::mt19937_64& random, std::normal_distribution<double>& nor
 
 }  // namespace
 
+// A stored factor, in the working precision or, when the options ask for it,
+// in single precision: half the memory and half the memory traffic of a solve,
+// which is bound by that traffic. Either way it is applied in the working
+// precision, by chunks of rows converted as they are read, so the
+// preconditioner stays one fixed linear operator (what right-preconditioned
+// GMRES needs of it) and only its entries are rounded.
+template <class S>
+struct StoredFactor {
+    using Single = std::conditional_t<std::is_same_v<S, double>, float, std::complex<float>>;
+    MatrixX<S> full;
+    Eigen::Matrix<Single, Eigen::Dynamic, Eigen::Dynamic> single;
+    bool is_single = false;
+
+    void store(MatrixX<S>&& a, bool in_single) {
+        is_single = in_single;
+        if (in_single) {
+            single = a.template cast<Single>();
+            full.resize(0, 0);
+        } else {
+            full = std::move(a);
+            single.resize(0, 0);
+        }
+    }
+    Eigen::Index rows() const { return is_single ? single.rows() : full.rows(); }
+    Eigen::Index cols() const { return is_single ? single.cols() : full.cols(); }
+    std::size_t bytes() const {
+        return is_single ? sizeof(Single) * std::size_t(single.size()) : sizeof(S) * std::size_t(full.size());
+    }
+    // Calls f(first row, rows, chunk in the working precision) for consecutive
+    // chunks of rows that stay in cache: Eigen packs a product's left factor
+    // before multiplying, and a factor of tens of megabytes packed whole costs a
+    // second pass over memory.
+    template <class F>
+    void for_each_chunk(F&& f) const {
+        const Eigen::Index bytes_per_row = Eigen::Index(sizeof(S)) * std::max<Eigen::Index>(1, cols());
+        const Eigen::Index step = std::max<Eigen::Index>(64, (Eigen::Index(1) << 20) / bytes_per_row);
+        MatrixX<S> converted;
+        for (Eigen::Index i = 0; i < rows(); i += step) {
+            const Eigen::Index h = std::min(step, rows() - i);
+            if (is_single) {
+                // A plain loop per column, which the compiler vectorizes; Eigen's
+                // cast from float to double converts one entry at a time.
+                converted.resize(h, cols());
+                for (Eigen::Index j = 0; j < cols(); ++j) {
+                    const Single* from = single.data() + j * single.rows() + i;
+                    S* to = converted.data() + j * h;
+                    for (Eigen::Index k = 0; k < h; ++k) to[k] = S(from[k]);
+                }
+                f(i, h, converted);
+            } else {
+                f(i, h, full.middleRows(i, h));
+            }
+        }
+    }
+};
+
 template <class S>
 struct HodlrInverse<S>::Impl {
     struct Node {
@@ -44,9 +101,11 @@ struct HodlrInverse<S>::Impl {
         std::vector<std::size_t> upper, lower;
         // The inverse of a leaf's dense block or of an inner node's core S, held
         // explicitly: applying it is one pass over it, where triangular solves
-        // against LU factors take two and pack them first.
-        MatrixX<S> inverse;
-        MatrixX<S> z1, z2, v1, v2;  // inner: Z_i = A_i^-1 U_i and V_i
+        // against LU factors take two and pack them first. The cores are small
+        // and stay in the working precision.
+        StoredFactor<S> leaf_inverse;
+        MatrixX<S> core_inverse;
+        StoredFactor<S> z1, z2, v1, v2;  // inner: Z_i = A_i^-1 U_i and V_i
         bool is_leaf() const { return first < 0; }
     };
 
@@ -148,20 +207,29 @@ struct HodlrInverse<S>::Impl {
         Eigen::Index width = std::min<Eigen::Index>(32, limit);
         std::mt19937_64 random(seed);
         std::normal_distribution<double> normal;
+        // At the top of the tree these samples are tens of thousands of rows
+        // by hundreds of columns each (150 MB at 91,580 unknowns), so each is
+        // freed or factored in place as soon as it is used: the build's peak
+        // memory is the operator plus the preconditioner plus these.
         for (;;) {
-            MatrixX<S> omega(c, width);
-            for (Eigen::Index j = 0; j < width; ++j)
-                for (Eigen::Index i = 0; i < c; ++i) omega(i, j) = standard_normal<S>(random, normal);
-            MatrixX<S> y(m, width);
-            region_product(blocks, list, row0, col0, omega, false, y);
-            const Eigen::HouseholderQR<MatrixX<S>> qr(y);
-            const MatrixX<S> q = qr.householderQ() * MatrixX<S>::Identity(m, width);
+            u.resize(0, 0);
+            v.resize(0, 0);
+            {
+                MatrixX<S> y(m, width);
+                {
+                    MatrixX<S> omega(c, width);
+                    for (Eigen::Index j = 0; j < width; ++j)
+                        for (Eigen::Index i = 0; i < c; ++i) omega(i, j) = standard_normal<S>(random, normal);
+                    region_product(blocks, list, row0, col0, omega, false, y);
+                }
+                const Eigen::HouseholderQR<Eigen::Ref<MatrixX<S>>> qr(y);
+                u = qr.householderQ() * MatrixX<S>::Identity(m, width);
+            }
             // A ~ Q Q^H A = Q (A^T conj(Q))^T.
-            MatrixX<S> bt(c, width);
-            region_product(blocks, list, row0, col0, MatrixX<S>(q.conjugate()), true, bt);
-            u = q;
-            v = bt;
-            recompress_low_rank(u, v, options.tolerance);
+            v.resize(c, width);
+            if constexpr (std::is_same_v<S, double>) region_product(blocks, list, row0, col0, u, true, v);
+            else region_product(blocks, list, row0, col0, MatrixX<S>(u.conjugate()), true, v);
+            truncate_orthonormal(u, v, options.tolerance);
             if (u.cols() + oversampling <= width || width == limit) break;
             width = std::min(2 * width, limit);
         }
@@ -173,29 +241,18 @@ struct HodlrInverse<S>::Impl {
         return false;
     }
 
-    // Products with the tall factors Z and V, by chunks of rows that stay in
-    // cache: Eigen packs a product's left factor before multiplying, and a
-    // factor of tens of megabytes packed whole costs a second pass over memory.
-    static Eigen::Index chunk_rows(const MatrixX<S>& a) {
-        const Eigen::Index bytes_per_row = Eigen::Index(sizeof(S)) * std::max<Eigen::Index>(1, a.cols());
-        return std::max<Eigen::Index>(64, (Eigen::Index(1) << 20) / bytes_per_row);
-    }
     // y -= a c
-    static void subtract_product(Eigen::Ref<MatrixX<S>> y, const MatrixX<S>& a, const MatrixX<S>& c) {
-        const Eigen::Index step = chunk_rows(a);
-        for (Eigen::Index i = 0; i < a.rows(); i += step) {
-            const Eigen::Index h = std::min(step, a.rows() - i);
-            y.middleRows(i, h).noalias() -= a.middleRows(i, h) * c;
-        }
+    static void subtract_product(Eigen::Ref<MatrixX<S>> y, const StoredFactor<S>& a, const MatrixX<S>& c) {
+        a.for_each_chunk([&](Eigen::Index i, Eigen::Index h, const auto& chunk) {
+            y.middleRows(i, h).noalias() -= chunk * c;
+        });
     }
     // a^T y, summed over the chunks in order
-    static MatrixX<S> transposed_product(const MatrixX<S>& a, const Eigen::Ref<const MatrixX<S>>& y) {
+    static MatrixX<S> transposed_product(const StoredFactor<S>& a, const Eigen::Ref<const MatrixX<S>>& y) {
         MatrixX<S> out = MatrixX<S>::Zero(a.cols(), y.cols());
-        const Eigen::Index step = chunk_rows(a);
-        for (Eigen::Index i = 0; i < a.rows(); i += step) {
-            const Eigen::Index h = std::min(step, a.rows() - i);
-            out.noalias() += a.middleRows(i, h).transpose() * y.middleRows(i, h);
-        }
+        a.for_each_chunk([&](Eigen::Index i, Eigen::Index h, const auto& chunk) {
+            out.noalias() += chunk.transpose() * y.middleRows(i, h);
+        });
         return out;
     }
 
@@ -203,7 +260,15 @@ struct HodlrInverse<S>::Impl {
     void solve_in_place(int index, Eigen::Ref<MatrixX<S>> x, bool transposed) const {
         const Node& node = nodes[std::size_t(index)];
         if (node.is_leaf()) {
-            x = transposed ? MatrixX<S>(node.inverse.transpose() * x) : MatrixX<S>(node.inverse * x);
+            if (transposed) {
+                x = transposed_product(node.leaf_inverse, x);
+                return;
+            }
+            MatrixX<S> y(x.rows(), x.cols());
+            node.leaf_inverse.for_each_chunk([&](Eigen::Index i, Eigen::Index h, const auto& chunk) {
+                y.middleRows(i, h).noalias() = chunk * x;
+            });
+            x = y;
             return;
         }
         const Eigen::Index n1 = nodes[std::size_t(node.first)].size, n2 = nodes[std::size_t(node.second)].size;
@@ -214,7 +279,7 @@ struct HodlrInverse<S>::Impl {
             MatrixX<S> w(r1 + r2, x.cols());
             w.topRows(r1) = transposed_product(node.v1, x.bottomRows(n2));
             w.bottomRows(r2) = transposed_product(node.v2, x.topRows(n1));
-            const MatrixX<S> c = node.inverse * w;
+            const MatrixX<S> c = node.core_inverse * w;
             subtract_product(x.topRows(n1), node.z1, c.topRows(r1));
             subtract_product(x.bottomRows(n2), node.z2, c.bottomRows(r2));
             return;
@@ -223,7 +288,7 @@ struct HodlrInverse<S>::Impl {
             MatrixX<S> g(r1 + r2, x.cols());
             g.topRows(r1) = transposed_product(node.z1, x.topRows(n1));
             g.bottomRows(r2) = transposed_product(node.z2, x.bottomRows(n2));
-            const MatrixX<S> c = node.inverse.transpose() * g;
+            const MatrixX<S> c = node.core_inverse.transpose() * g;
             subtract_product(x.topRows(n1), node.v2, c.bottomRows(r2));
             subtract_product(x.bottomRows(n2), node.v1, c.topRows(r1));
         }
@@ -241,7 +306,7 @@ struct HodlrInverse<S>::Impl {
 #pragma omp taskwait
     }
 
-    void factor_leaf(Node& node, const std::vector<HMatrixBlock<S>>& blocks) {
+    void factor_leaf(Node& node, const std::vector<HMatrixBlock<S>>& blocks, bool single) {
         MatrixX<S> dense = MatrixX<S>::Zero(node.size, node.size);
         for (const std::size_t b : node.upper) {
             const HMatrixBlock<S>& block = blocks[b];
@@ -249,7 +314,7 @@ struct HodlrInverse<S>::Impl {
             if (block.low_rank) to.noalias() = block.u * block.v.transpose();
             else to = block.dense;
         }
-        node.inverse = Eigen::PartialPivLU<MatrixX<S>>(dense).inverse();
+        node.leaf_inverse.store(Eigen::PartialPivLU<MatrixX<S>>(dense).inverse(), single);
         node.upper.clear();
     }
 
@@ -258,22 +323,29 @@ struct HodlrInverse<S>::Impl {
                       const HodlrOptions& options) {
         const Node& a = nodes[std::size_t(node.first)];
         const Node& c = nodes[std::size_t(node.second)];
-        MatrixX<S> u1, u2;
+        // One side at a time, each stored as soon as it is solved, so that the
+        // top node holds one side's samples beside the other's stored factors.
+        MatrixX<S> z1, z2, v1, v2;
         bool capped = compress(blocks, node.upper, a.begin, a.size, c.begin, c.size, options,
-                               2 * unsigned(index) + 1, u1, node.v1);
-        capped |= compress(blocks, node.lower, c.begin, c.size, a.begin, a.size, options, 2 * unsigned(index) + 2,
-                           u2, node.v2);
+                               2 * unsigned(index) + 1, z1, v1);
         node.upper.clear();
+        solve_in_place(node.first, z1, false);
+        const Eigen::Index r1 = z1.cols();
+        node.z1.store(std::move(z1), options.single_precision);
+        node.v1.store(std::move(v1), options.single_precision);
+        capped |= compress(blocks, node.lower, c.begin, c.size, a.begin, a.size, options, 2 * unsigned(index) + 2,
+                           z2, v2);
         node.lower.clear();
-        node.z1 = std::move(u1);
-        node.z2 = std::move(u2);
-        solve_in_place(node.first, node.z1, false);
-        solve_in_place(node.second, node.z2, false);
-        const Eigen::Index r1 = node.z1.cols(), r2 = node.z2.cols();
+        solve_in_place(node.second, z2, false);
+        const Eigen::Index r2 = z2.cols();
+        // The core from the factors as stored where they are (V_1, Z_1), so that
+        // what is applied is inverted as exactly as the rounding allows.
         MatrixX<S> core = MatrixX<S>::Identity(r1 + r2, r1 + r2);
-        core.topRightCorner(r1, r2).noalias() = node.v1.transpose() * node.z2;
-        core.bottomLeftCorner(r2, r1).noalias() = node.v2.transpose() * node.z1;
-        if (r1 + r2 > 0) node.inverse = Eigen::PartialPivLU<MatrixX<S>>(core).inverse();
+        core.topRightCorner(r1, r2) = transposed_product(node.v1, z2);
+        core.bottomLeftCorner(r2, r1) = transposed_product(node.z1, v2).transpose();
+        node.z2.store(std::move(z2), options.single_precision);
+        node.v2.store(std::move(v2), options.single_precision);
+        if (r1 + r2 > 0) node.core_inverse = Eigen::PartialPivLU<MatrixX<S>>(core).inverse();
         return capped;
     }
 };
@@ -304,7 +376,7 @@ HodlrInverse<S>::HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& opti
         for (std::size_t k = 0; k < level.size(); ++k) {
             try {
                 auto& node = impl->nodes[std::size_t(level[k])];
-                if (node.is_leaf()) impl->factor_leaf(node, matrix.blocks());
+                if (node.is_leaf()) impl->factor_leaf(node, matrix.blocks(), options.single_precision);
                 else capped += impl->factor_inner(node, level[k], matrix.blocks(), options) ? 1 : 0;
             } catch (...) {
 #pragma omp critical(murk_hodlr_failure)
@@ -319,10 +391,10 @@ HodlrInverse<S>::HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& opti
     for (const auto& node : impl->nodes) {
         if (node.is_leaf()) {
             ++stats.leaves;
-            stats.bytes += sizeof(S) * std::size_t(node.size * node.size);
+            stats.bytes += node.leaf_inverse.bytes();
         } else {
             stats.max_rank = std::max({stats.max_rank, int(node.z1.cols()), int(node.z2.cols())});
-            stats.bytes += sizeof(S) * std::size_t(node.z1.size() + node.z2.size() + node.v1.size() + node.v2.size());
+            stats.bytes += node.z1.bytes() + node.z2.bytes() + node.v1.bytes() + node.v2.bytes();
         }
     }
     stats.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();

@@ -36,11 +36,15 @@ struct HodlrOptions {
     Eigen::Index leaf_size = 512;  // clusters of at most this many unknowns are dense
     double tolerance = 1e-2;       // relative Frobenius accuracy of each off-diagonal block
     Eigen::Index max_rank = 400;   // an off-diagonal block is cut at this rank whatever its accuracy
+    // Store the leaves' inverses and the Z and V factors in single precision
+    // (half the memory; still applied in the working precision). Rounding them
+    // adds a relative error of about 1e-7, so only for tolerances well above it.
+    bool single_precision = false;
 };
 
 struct HodlrStats {
     std::size_t leaves = 0;
-    std::size_t bytes = 0;  // leaf factors and the stored Z and V factors
+    std::size_t bytes = 0;  // leaf inverses and the Z and V factors, as stored
     int max_rank = 0;       // largest off-diagonal rank kept
     int capped_blocks = 0;  // off-diagonal blocks cut at max_rank before reaching the tolerance
     double seconds = 0;

@@ -7,6 +7,8 @@
 #include "solver/hmatrix.hpp"
 #include "tests/sphere_points.hpp"
 
+#include <Eigen/QR>
+
 #include <doctest/doctest.h>
 
 #include <cmath>
@@ -256,4 +258,39 @@ TEST_CASE_TEMPLATE("hierarchical matrix: an incompressible far block is stored d
     CHECK(h.stats().low_rank_blocks == 0);
     CHECK(h.stats().compression() == doctest::Approx(1.0));
     CHECK((h.to_dense() - a).cwiseAbs().maxCoeff() == 0);
+}
+
+TEST_CASE_TEMPLATE("low-rank truncation: an orthonormal basis times a factor keeps the singular values above the tolerance",
+                   S, double, Complex) {
+    // q v^T with q orthonormal (the randomized range finder's form) and singular
+    // values 10^0, 10^-1, ..., 10^-7 by construction: q v^T = Q diag(s) W^T with
+    // W orthonormal too. Truncating at 1e-3.5 of the Frobenius norm keeps the four
+    // values 1 .. 1e-3 (the dropped ones sum to about 1.005e-4 of it, the next
+    // one, 1e-3, alone exceeds 3.2e-4). Reference: Eckart and Young 1936, "The
+    // approximation of one matrix by another of lower rank", Psychometrika 1:
+    // the best rank-r error is the norm of the dropped singular values.
+    const Eigen::Index m = 300, c = 200, k = 8;
+    std::srand(3);
+    const MatrixX<S> q0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(m, k)).householderQ() *
+                          MatrixX<S>::Identity(m, k);
+    const MatrixX<S> w0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(c, k)).householderQ() *
+                          MatrixX<S>::Identity(c, k);
+    Eigen::VectorXd s(k);
+    for (Eigen::Index i = 0; i < k; ++i) s(i) = std::pow(10.0, -double(i));
+    MatrixX<S> q = q0;
+    MatrixX<S> v = w0.conjugate() * s.asDiagonal();  // q v^T = Q diag(s) W^H
+    const MatrixX<S> original = q * v.transpose();
+    const double tolerance = std::pow(10.0, -3.5);
+    truncate_orthonormal(q, v, tolerance);
+    CHECK(q.cols() == 4);
+    CHECK(v.cols() == 4);
+    const double error = (q * v.transpose() - original).norm();
+    const double best = s.tail(4).norm();
+    CHECK(error == doctest::Approx(best).epsilon(1e-6));
+    CHECK(error <= tolerance * original.norm());
+    // And the same truncation as recompress_low_rank, which factors both sides.
+    MatrixX<S> u2 = q0, v2 = w0.conjugate() * s.asDiagonal();
+    recompress_low_rank(u2, v2, tolerance);
+    CHECK(u2.cols() == 4);
+    CHECK((u2 * v2.transpose() - q * v.transpose()).norm() <= 1e-12 * original.norm());
 }

@@ -141,18 +141,54 @@ TEST_CASE_TEMPLATE("HODLR inverse: with no rank allowed it is block Jacobi on th
     CHECK((m.solve(b, true) - expected_t).norm() <= 1e-12 * expected_t.norm());
 }
 
+TEST_CASE_TEMPLATE("HODLR inverse: single-precision storage halves the bytes and keeps the accuracy", S, double,
+                   Complex) {
+    const Fixture f;
+    const HMatrix<S> a = operator_of<S>(f.points);
+    const Eigen::PartialPivLU<MatrixX<S>> lu(a.to_dense());
+    for (const double tolerance : {1e-2, 1e-3, 1e-4, 1e-5}) {
+        HodlrOptions o;
+        o.leaf_size = 128;
+        o.tolerance = tolerance;
+        o.max_rank = 1000;
+        const HodlrInverse<S> full(a, o);
+        o.single_precision = true;
+        const HodlrInverse<S> single(a, o);
+        // The ranks come from the blocks, not from the storage, so the same
+        // entries are stored at half the size of a float against a double.
+        CHECK(single.stats().max_rank == full.stats().max_rank);
+        CHECK(2 * single.stats().bytes == full.stats().bytes);
+        std::srand(13);
+        for (const bool transposed : {false, true}) {
+            const double error = inverse_error(single, lu, transposed);
+            INFO("tolerance " << tolerance << (transposed ? " transposed" : "") << ": error " << error);
+            // Rounding to float (unit roundoff 6e-8, IEEE 754) is far below the tolerance.
+            CHECK(error <= 10 * tolerance);
+        }
+        // Still one linear operator: M^-1 (b + 3c) = M^-1 b + 3 M^-1 c to double
+        // rounding (right-preconditioned GMRES relies on it).
+        const MatrixX<S> b = MatrixX<S>::Random(Fixture::n, 1), c = MatrixX<S>::Random(Fixture::n, 1);
+        const MatrixX<S> together = single.solve(MatrixX<S>(b + S(3.0) * c), false);
+        const MatrixX<S> apart = single.solve(b, false) + S(3.0) * single.solve(c, false);
+        CHECK((together - apart).norm() <= 1e-13 * together.norm());
+    }
+}
+
 TEST_CASE_TEMPLATE("HODLR inverse: the same to the last bit on one thread and on two", S, double, Complex) {
     const Fixture f;
     const HMatrix<S> a = operator_of<S>(f.points);
-    HodlrOptions o;
-    o.leaf_size = 64;
     std::srand(5);
     const MatrixX<S> b = MatrixX<S>::Random(Fixture::n, 4);
-    const int threads = omp_get_max_threads();
-    omp_set_num_threads(1);
-    const MatrixX<S> one = HodlrInverse<S>(a, o).solve(b, false);
-    omp_set_num_threads(2);
-    const MatrixX<S> two = HodlrInverse<S>(a, o).solve(b, false);
-    omp_set_num_threads(threads);
-    CHECK((one - two).cwiseAbs().maxCoeff() == 0.0);
+    for (const bool single : {false, true}) {
+        HodlrOptions o;
+        o.leaf_size = 64;
+        o.single_precision = single;
+        const int threads = omp_get_max_threads();
+        omp_set_num_threads(1);
+        const MatrixX<S> one = HodlrInverse<S>(a, o).solve(b, false);
+        omp_set_num_threads(2);
+        const MatrixX<S> two = HodlrInverse<S>(a, o).solve(b, false);
+        omp_set_num_threads(threads);
+        CHECK((one - two).cwiseAbs().maxCoeff() == 0.0);
+    }
 }
