@@ -18,6 +18,19 @@
 // complement instead needs A_FF^-1 C_FM, a solve with one right-hand side per
 // moving unknown (hundreds), which measured slower (tools/bench_sweep.cpp).
 //
+// On a compressed fixed part (compressed_system.hpp) a solve against the body
+// is itself a preconditioned GMRES of 4-5 steps, and nesting it inside the
+// Schur GMRES would pay those steps for every outer one. There each point's
+// whole perturbation system
+//   [ A_FF  C_FM ] [ x_F - x0 ]   [ 0             ]
+//   [ C_MF  A_MM ] [ x_M      ] = [ b_M - C_MF x0 ]
+// is solved by one GMRES instead, right-preconditioned by the body's own
+// approximate inverse and A_MM^-1: about as many steps as the body alone needs
+// (5 at 1e-10), each one blocked product with the body's operator and one with
+// its preconditioner for the batch. Its tolerance is the smaller of the
+// coupling's and the body's iteration_tolerance, relative to the right-hand
+// side above.
+//
 // Nothing is approximated beyond the discretization: the coupling blocks are
 // the same entries the full system has (same quadrature rules and ratios), and
 // the result equals the full dense solve up to the GMRES tolerance.

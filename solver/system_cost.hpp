@@ -21,6 +21,10 @@ inline constexpr double kCompressedEntriesPerUnknownLog = 500;
 // 37,200 and 3,930 at 91,580 (2026-12-04): 512 + 10.6, 11.0 and 11.3 sqrt(n).
 inline constexpr double kPreconditionerLeafEntries = 512;
 inline constexpr double kPreconditionerEntriesPerRootUnknown = 12;
+// At the default preconditioner_tolerance those entries are stored in single
+// precision (CompressedSystem::kSinglePrecisionFrom): half a working-precision
+// entry each. Like the ranks above, this holds for the default tolerance only.
+inline constexpr double kPreconditionerStorageShare = 0.5;
 // Building the preconditioner takes about as long as the compression: the same
 // benchmark measured 1.1, 1.3 and 1.5 times it at those sizes (after the
 // task fix of 9623b18; rounded down, since the smaller sizes dominate sweeps).
@@ -30,14 +34,15 @@ inline constexpr double kPreconditionerSetupShare = 1.0;
 // unknowns; one more for the last preconditioner solve.
 inline constexpr int kExpectedSystemIterations = 6;
 
-// Entries held by the compressed operator and its preconditioner for n unknowns.
-// Neither holds more than the dense matrix would (a block that does not compress
-// is stored whole), which matters only for small n.
+// Entries held by the compressed operator and its preconditioner for n unknowns,
+// counted in working-precision entries (the preconditioner's at
+// kPreconditionerStorageShare). Neither holds more than the dense matrix would
+// (a block that does not compress is stored whole), which matters only for small n.
 inline double compressed_system_entries(double n) {
     const double dense = n * n;
     const double op = n > 1 ? kCompressedEntriesPerUnknownLog * n * std::log2(n) : dense;
     const double preconditioner = (kPreconditionerLeafEntries + kPreconditionerEntriesPerRootUnknown * std::sqrt(n)) * n;
-    return std::min(op, dense) + std::min(preconditioner, dense);
+    return std::min(op, dense) + kPreconditionerStorageShare * std::min(preconditioner, dense);
 }
 
 // Entries the fixed part holds once assembled and factored.

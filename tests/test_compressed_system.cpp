@@ -95,6 +95,54 @@ TEST_CASE("the exact and dipole paths on a compressed fixed part equal those on 
     CHECK(std::abs(rc(0, 0) - rd(0, 0)) < 1e-6 * std::abs(rd(0, 0)));
 }
 
+TEST_CASE_TEMPLATE("a batch of exact points on a compressed fixed part: each as on the dense one, on any threads", S,
+                   double, Complex) {
+    // On a compressed fixed part the batch is solved as one GMRES on each point's
+    // whole perturbation system (coupled_solve.cpp); on a dense one by the Schur
+    // complement against the LU. Both solve the same equations.
+    Scene<S> body = fixtures::mixed_scene<S>(S(0.2), S(0.1), kBodyPanel);
+    body.surfaces.erase(body.surfaces.begin() + 1);
+    const FixedPart<S> dense(body, kQuad, forced(SystemSolver::dense));
+    const FixedPart<S> compressed(body, kQuad, forced(SystemSolver::compressed));
+    Scene<S> full = body;
+    Surface<S> ball;
+    ball.mesh = make_icosphere(0.005, 2);
+    ball.mesh.name = "object";
+    ball.kind = InterfaceKind::contact;
+    ball.inner_conductivity = S(1.0);
+    full.surfaces.push_back(ball);
+    const std::size_t moving = full.surfaces.size() - 1;
+    std::vector<Scene<S>> scenes(3, full);
+    std::vector<CoupledProblem<S>> problems;
+    const MovingBlock<S> block = factor_moving_block(full, {moving}, kQuad);
+    for (std::size_t k = 0; k < scenes.size(); ++k) {
+        translate(scenes[k].surfaces.back().mesh, Vec3(-0.02 + 0.02 * double(k), 0.028 + 0.01 * double(k), 0.0));
+        problems.push_back({&scenes[k], {moving}, &block});
+    }
+    const int threads = omp_get_max_threads();
+    omp_set_num_threads(1);
+    const std::vector<CoupledSolution<S>> one = solve_coupled_together(problems, compressed, kQuad, CouplingOptions{});
+    omp_set_num_threads(2);
+    const std::vector<CoupledSolution<S>> two = solve_coupled_together(problems, compressed, kQuad, CouplingOptions{});
+    omp_set_num_threads(threads);
+    for (std::size_t k = 0; k < problems.size(); ++k) {
+        const CoupledSolution<S> d = solve_coupled(scenes[k], {moving}, dense, block, kQuad, CouplingOptions{});
+        REQUIRE(d.gmres.converged);
+        REQUIRE(one[k].gmres.converged);
+        const S change = d.solution.electrode_potential[2] - dense.solution().electrode_potential[2];
+        const S change_c = one[k].solution.electrode_potential[2] - compressed.solution().electrode_potential[2];
+        INFO("point " << k << ": dense change " << std::abs(change) << ", compressed " << std::abs(change_c));
+        CHECK(std::abs(change) > 0);
+        CHECK(std::abs(change_c - change) < 1e-6 * std::abs(change));
+        // The object's own unknowns too (its surface potential).
+        const auto& od = d.solution.surfaces.back().outer_potential;
+        const auto& oc = one[k].solution.surfaces.back().outer_potential;
+        CHECK((oc - od).norm() < 1e-6 * od.norm());
+        CHECK(one[k].solution.surfaces.back().outer_potential == two[k].solution.surfaces.back().outer_potential);
+        CHECK(one[k].solution.electrode_potential == two[k].solution.electrode_potential);
+    }
+}
+
 TEST_CASE("compressed solves are the same to the last bit on one thread and on two") {
     // A sweep's points must not depend on the threads (DEVELOPERS.md, "How a sweep is solved").
     const Scene<double> scene = fixtures::mixed_scene<double>(0.2, 0.1, kBodyPanel);

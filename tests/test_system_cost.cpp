@@ -1,7 +1,8 @@
 // The memory and time model of the fixed part under each solver
 // (solver/system_cost.hpp, cases/sweep/cost_model.hpp). Expected values are worked
-// out by hand from the model's stated formulas (500 n log2 n + (512 + 12 sqrt(n)) n
-// entries for the compressed system, n^2 for the dense one), not taken from the code.
+// out by hand from the model's stated formulas (500 n log2 n + (512 + 12 sqrt(n)) n / 2
+// entries for the compressed system, the preconditioner's in single precision;
+// n^2 for the dense one), not taken from the code.
 #include "cases/sweep/cost_model.hpp"
 #include "solver/system_cost.hpp"
 
@@ -12,17 +13,17 @@
 
 using namespace murk;
 
-TEST_CASE("system cost: compressed entries follow 500 n log2 n + (512 + 12 sqrt(n)) n, never more than dense") {
+TEST_CASE("system cost: compressed entries follow 500 n log2 n + (512 + 12 sqrt(n)) n / 2, never more than dense") {
     // n = 1024: log2 n = 10, so 500 * 1024 * 10 = 5,120,000 exceeds 1024^2 and is
-    // held at 1,048,576; plus (512 + 12 * 32) * 1024 = 917,504.
-    CHECK(compressed_system_entries(1024) == doctest::Approx(1966080.0));
+    // held at 1,048,576; plus (512 + 12 * 32) * 1024 / 2 = 458,752.
+    CHECK(compressed_system_entries(1024) == doctest::Approx(1507328.0));
     CHECK(system_entries(1024, false) == doctest::Approx(1048576.0));  // 1024^2
     // n = 100: 500 * 100 * log2(100) = 332,193 and (512 + 120) * 100 = 63,200 both exceed
-    // 100^2, so each part is held at the dense size: 2 * 10,000.
-    CHECK(compressed_system_entries(100) == doctest::Approx(20000.0));
-    // n = 65536: log2 n = 16 and sqrt(n) = 256, 500 * 16 + 512 + 12 * 256 = 11584
+    // 100^2, so each part is held at the dense size: 10,000 + 10,000 / 2.
+    CHECK(compressed_system_entries(100) == doctest::Approx(15000.0));
+    // n = 65536: log2 n = 16 and sqrt(n) = 256, 500 * 16 + (512 + 12 * 256) / 2 = 9792
     // entries per unknown, against 65536 dense.
-    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(11584.0 / 65536.0));
+    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(9792.0 / 65536.0));
 }
 
 TEST_CASE("system cost: the sweep's memory counts the compressed system only when compressed") {
@@ -34,13 +35,30 @@ TEST_CASE("system cost: the sweep's memory counts the compressed system only whe
     const double overhead = 24.0 * 1024 * 1024;
     CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 65536.0 * 65536.0 * 8 + overhead));
     cost.sizes.compressed = true;
-    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 11584.0 * 65536.0 * 8 + overhead));
+    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 9792.0 * 65536.0 * 8 + overhead));
     // The compressed fixed part's time: compression at the entry rate, the
     // preconditioner as long again, then one solve of 6 iterations, each reading
-    // the 11584 x 65536 x 8 bytes once.
-    const double bytes = 11584.0 * 65536.0 * 8;
+    // the 9792 x 65536 x 8 bytes once.
+    const double bytes = 9792.0 * 65536.0 * 8;
     CHECK(cost.fixed_part_seconds() ==
-          doctest::Approx(2 * (2 * 11584.0 * 65536.0 / cost.rates.entry_rate + 6 * bytes / cost.rates.solve_byte_rate)));
+          doctest::Approx(2 * (2 * 9792.0 * 65536.0 / cost.rates.entry_rate + 6 * bytes / cost.rates.solve_byte_rate)));
+}
+
+TEST_CASE("system cost: a compressed body's exact batches are larger and run one at a time") {
+    CostModel cost;
+    cost.rates = reference_rates(2);
+    cost.sizes.fixed_unknowns = 91580;  // the benchmark's 45,790-panel fish
+    cost.sizes.moving_unknowns = 640;   // a 320-panel sphere
+    // One point's coupling blocks: 91,580 x 640 x 8 = 468,889,600 bytes. Dense
+    // bodies: 512 MiB per thread holds 1 point; compressed: 4 GiB holds 9.
+    CHECK(exact_batch_size(cost.sizes) == 1);
+    const double dense_held = cost.memory_bytes(true, false) - cost.memory_bytes(false, false);
+    cost.sizes.compressed = true;
+    CHECK(exact_batch_size(cost.sizes) == 9);
+    const double compressed_held = cost.memory_bytes(true, false) - cost.memory_bytes(false, false);
+    // 1.1 x (2 threads x 1 point) against 1.1 x (one batch of 9 points).
+    CHECK(dense_held == doctest::Approx(1.1 * 2 * 468889600.0));
+    CHECK(compressed_held == doctest::Approx(1.1 * 9 * 468889600.0));
 }
 
 TEST_CASE("system cost: the water's images scale the assembly, not the factorization") {

@@ -97,7 +97,8 @@ std::size_t exact_batch_size(const SweepSizes& sizes) {
     const double point_bytes =
         double(sizes.fixed_unknowns) * double(sizes.moving_unknowns) * (sizes.complex ? 16.0 : 8.0);
     if (!(point_bytes > 0.0)) return kMaxExactBatch;
-    return std::size_t(std::clamp(std::floor(kExactBatchBytes / point_bytes), 1.0, double(kMaxExactBatch)));
+    const double budget = sizes.compressed ? kCompressedExactBatchBytes : kExactBatchBytes;
+    return std::size_t(std::clamp(std::floor(budget / point_bytes), 1.0, double(kMaxExactBatch)));
 }
 
 double CostModel::fixed_part_bytes() const {
@@ -126,14 +127,21 @@ double CostModel::exact_point_seconds(double size_to_distance) const {
     // triangle, reading and writing it, then reads the packed copy), while the
     // arithmetic is each point's own; and each point reads its two coupling
     // blocks (n m entries in all). Checked by tools/bench/estimate_check.sh.
-    const double solve =
-        sizes.compressed
-            ? compressed_solve_seconds() + n * m * scalar_bytes() / rates.solve_byte_rate
-            : (3.0 * n * n / double(exact_batch_size(sizes)) + n * m) * scalar_bytes() / rates.solve_byte_rate +
-                  flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     // The coupling blocks: the fixed water rows against the object's unknowns and
     // back; most pairs are far apart and cheap (10x the body's mixed entry rate).
     const double coupling = image_factor() * 2.0 * n * m / (10.0 * rates.entry_rate);
+    if (sizes.compressed) {
+        // One GMRES on the whole perturbation system (solver/coupled_solve.hpp):
+        // about as many steps as a body solve, each a product with the operator
+        // and the preconditioner shared by the batch, and the point's own
+        // coupling products.
+        const double steps = kExpectedSystemIterations;
+        return steps * (fixed_part_bytes() / double(exact_batch_size(sizes)) + n * m * scalar_bytes()) /
+                   rates.solve_byte_rate +
+               coupling;
+    }
+    const double solve = (3.0 * n * n / double(exact_batch_size(sizes)) + n * m) * scalar_bytes() / rates.solve_byte_rate +
+                         flop_factor() * 2.0 * n * n / rates.block_flop_rate;
     return expected_coupling_iterations(size_to_distance) * solve + coupling;
 }
 
@@ -153,7 +161,9 @@ double CostModel::memory_bytes(bool exact, bool full) const {
     double bytes = double(sizes.waters) * fixed_part_bytes();
     // Each point of a running batch holds its two coupling blocks, about n m / 2
     // entries each (the water rows of one part against the other part).
-    if (exact) bytes += rates.threads * double(exact_batch_size(sizes)) * n * m * scalar_bytes();
+    // A compressed body's batches run one at a time (kCompressedExactBatchBytes).
+    if (exact)
+        bytes += (sizes.compressed ? 1.0 : double(rates.threads)) * double(exact_batch_size(sizes)) * n * m * scalar_bytes();
     if (full) bytes += rates.threads * (n + m) * (n + m) * scalar_bytes();
     // What the terms above leave out: the process itself (libraries, HDF5; about
     // 25 MiB), the strips of layer blocks each thread assembles into, allocator

@@ -58,6 +58,15 @@ public:
         return out;
     }
 
+    // On a compressed body each GMRES step is a blocked product with the whole
+    // operator (gigabytes), parallel inside; batches side by side would each
+    // read it on one thread.
+    bool parallel_inside() const override {
+        for (const auto& water : c_.baselines->waters)
+            if (water.fixed->compressed()) return true;
+        return false;
+    }
+
 private:
     PathContext<S> c_;
     std::unique_ptr<PointPath<S>> full_;

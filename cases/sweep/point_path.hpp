@@ -59,6 +59,10 @@ public:
     virtual ~PointPath() = default;
     // Points one call answers at most: 1, or the dipole path's fixed block.
     virtual std::size_t block_size() const { return 1; }
+    // Whether one call already keeps every thread busy (its own products run in
+    // parallel and read shared data once for the call): calls then run one at a
+    // time instead of one per thread.
+    virtual bool parallel_inside() const { return false; }
     // The readings at each point; all points of one call share a water.
     virtual std::vector<PathReading<S>> solve(const std::vector<PlacedPoint<S>>& points) const = 0;
 };

@@ -116,7 +116,7 @@ void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, co
         for (const auto& block : all)
             if (std::any_of(block.begin(), block.end(), [&](const PlacedPoint<S>& q) { return pending(q.point); }))
                 blocks.push_back(&block);
-        for_each_in_parallel(blocks.size(), [&](std::size_t b) {
+        const auto solve_block = [&](std::size_t b) {
             const std::vector<PlacedPoint<S>>& block = *blocks[b];
             std::vector<PathReading<S>> readings = path.solve(block);
             for (std::size_t k = 0; k < block.size(); ++k) {
@@ -125,7 +125,12 @@ void compute_points(const PointRoutes<S>& routes, const PointPaths<S>& paths, co
                 store(computed_point(block[k].point, block[k].centre(), std::move(readings[k].reading),
                                      readings[k].path, baselines, block[k].water));
             }
-        });
+        };
+        if (!path.parallel_inside()) {
+            for_each_in_parallel(blocks.size(), solve_block);
+            return;
+        }
+        for (std::size_t b = 0; b < blocks.size() && !stop_requested(); ++b) solve_block(b);
     };
     const auto t0 = Clock::now();
     if (!routes.exact_blocks.empty()) solve_blocks(routes.exact_blocks, *paths.exact);
