@@ -7,9 +7,11 @@
 // own): panels and unknowns; for the compressed part the set-up split into
 // entries (Gauss's-law row sums, border, right-hand side), compression and
 // preconditioner, the stored bytes, the compression ratio and ranks, the peak
-// resident memory, the baseline's GMRES iterations, one solve to a relative
-// residual of 1e-8 and the time per exact-path sweep point (eight points of a
-// 3 mm sphere 5 mm off the flank, solved together as a sweep's batch is); for
+// resident memory at the end of the set-up and overall, the baseline's GMRES
+// iterations, one solve to a relative residual of 1e-8 and the time per
+// exact-path sweep point (eight points of a 3 mm sphere 5 mm off the flank,
+// solved together as a sweep's batch is; a second batch after the first, which
+// also allocates the storage of the coupling blocks that a sweep reuses); for
 // the dense part (up to --dense-max unknowns) assembly, LU and the same points
 // (its peak memory includes the compressed part's, which is released first but
 // counted by the process's peak), and the agreement of the two: the largest difference
@@ -91,25 +93,33 @@ Surface<double> sphere_beside(const Scene<double>& body, double radius, double g
 }
 
 // Eight exact-path points solved together, as a sweep's batch is (the sphere at
-// eight places along the flank); returns the first point's transdermal
-// perturbation over the skin and the seconds per point.
-Eigen::VectorXd exact_points(const Scene<double>& full, const FixedPart<double>& fixed, double* seconds_per_point) {
+// eight places along the flank), twice: the first batch also allocates the
+// coupling blocks' storage, which later batches of a sweep reuse. Returns the
+// first point's transdermal perturbation over the skin; sets the seconds per
+// point of the first batch and of the second (the sweep's steady cost).
+Eigen::VectorXd exact_points(const Scene<double>& full, const FixedPart<double>& fixed, double* first_batch,
+                             double* steady) {
     const std::size_t moving = full.surfaces.size() - 1;
     const QuadratureOptions quad{};
     const MovingBlock<double> block = factor_moving_block(full, {moving}, quad);
     constexpr int kPoints = 8;
-    std::vector<Scene<double>> scenes(kPoints, full);
-    std::vector<CoupledProblem<double>> problems;
-    for (int k = 0; k < kPoints; ++k) {
-        translate(scenes[std::size_t(k)].surfaces.back().mesh, Vec3(0.004 * k, 0, 0));
-        problems.push_back({&scenes[std::size_t(k)], {moving}, &block});
+    Eigen::VectorXd out;
+    for (int batch = 0; batch < 2; ++batch) {
+        std::vector<Scene<double>> scenes(kPoints, full);
+        std::vector<CoupledProblem<double>> problems;
+        for (int k = 0; k < kPoints; ++k) {
+            translate(scenes[std::size_t(k)].surfaces.back().mesh, Vec3(0.004 * k + 0.002 * batch, 0, 0));
+            problems.push_back({&scenes[std::size_t(k)], {moving}, &block});
+        }
+        const auto t0 = std::chrono::steady_clock::now();
+        const std::vector<CoupledSolution<double>> c = solve_coupled_together(problems, fixed, quad, CouplingOptions{});
+        *(batch == 0 ? first_batch : steady) = seconds_since(t0) / kPoints;
+        if (batch > 0) continue;
+        const auto& skin = c.front().solution.surfaces.front();
+        const auto& base = fixed.solution().surfaces.front();
+        out = (skin.inner_potential - skin.outer_potential) - (base.inner_potential - base.outer_potential);
     }
-    const auto t0 = std::chrono::steady_clock::now();
-    const std::vector<CoupledSolution<double>> c = solve_coupled_together(problems, fixed, quad, CouplingOptions{});
-    *seconds_per_point = seconds_since(t0) / kPoints;
-    const auto& skin = c.front().solution.surfaces.front();
-    const auto& base = fixed.solution().surfaces.front();
-    return (skin.inner_potential - skin.outer_potential) - (base.inner_potential - base.outer_potential);
+    return out;
 }
 
 int one_size(long target, long dense_max, double tolerance, double preconditioner, int dipoles, bool setup_only) {
@@ -140,13 +150,14 @@ int one_size(long target, long dense_max, double tolerance, double preconditione
                     double(compressed.factor_bytes()) / (1 << 30), peak_rss_gib());
         return 0;
     }
-    double exact_c = 0;
-    pert_c = exact_points(full, compressed, &exact_c);
+    const double setup_peak = peak_rss_gib();
+    double exact_first = 0, exact_c = 0;
+    pert_c = exact_points(full, compressed, &exact_first, &exact_c);
     std::printf("compressed: set-up %.1f s (entries %.1f, compression %.1f, preconditioner %.1f), %.2f GiB stored "
-                "(%.1f %% of dense), %d iterations, exact point %.2f s",
+                "(%.1f %% of dense), set-up peak %.2f GiB, %d iterations, exact point %.2f s (first batch %.2f s)",
                 setup, system.entries_seconds(), system.compression_seconds(), system.preconditioner_seconds(),
-                double(compressed.factor_bytes()) / (1 << 30), 100.0 * report.compression_ratio,
-                report.baseline_iterations, exact_c);
+                double(compressed.factor_bytes()) / (1 << 30), 100.0 * report.compression_ratio, setup_peak,
+                report.baseline_iterations, exact_c, exact_first);
     {
         t0 = std::chrono::steady_clock::now();
         int it = 0;
@@ -198,8 +209,8 @@ int one_size(long target, long dense_max, double tolerance, double preconditione
         t0 = std::chrono::steady_clock::now();
         const FixedPart<double> dense(body, quad, d);
         const double dense_setup = seconds_since(t0);
-        double exact_d = 0;
-        const Eigen::VectorXd pert_d = exact_points(full, dense, &exact_d);
+        double exact_first_d = 0, exact_d = 0;
+        const Eigen::VectorXd pert_d = exact_points(full, dense, &exact_first_d, &exact_d);
         const double agreement = (pert_c - pert_d).cwiseAbs().maxCoeff() / pert_d.cwiseAbs().maxCoeff();
         std::printf(" | dense: set-up %.1f s (assembly %.1f, LU %.1f), %.2f GiB, exact point %.2f s, peak %.2f GiB | "
                     "agreement %.2e",

@@ -28,6 +28,17 @@ with_mesh_keys fish_detection "$dir/run.toml" 'dense_limit = 100000'
   || { cat "$dir/compressed.log"; echo "murk solve compressed failed"; exit 1; }
 "$murk" solve "$examples/fish_prey.toml" -o "$dir/default.h5" --quiet 2> "$dir/err.txt" || { cat "$dir/err.txt"; exit 1; }
 "$murk" run "$dir/run.toml" -o "$dir/run.h5" --threads 1 > "$dir/run.log" 2>&1 || { cat "$dir/run.log"; echo "murk run failed"; exit 1; }
+# An exact-path sweep on a compressed body (one GMRES per point on its whole
+# perturbation system, batches one after another with both threads inside)
+# against the same sweep on the dense body (the Schur complement against the LU).
+with_mesh_keys fish_detection "$dir/sweep_dense.toml" 'solver = "dense"'
+with_mesh_keys fish_detection "$dir/sweep_compressed.toml" 'solver = "compressed"\ncompression_tolerance = 1e-11\niteration_tolerance = 1e-12'
+sed -i 's/^\[sweep\]$/[sweep]\nmethod = "exact"/' "$dir/sweep_dense.toml" "$dir/sweep_compressed.toml"
+grep -q '^method = "exact"$' "$dir/sweep_compressed.toml" || { echo "could not set the sweep method"; exit 1; }
+for kind in dense compressed; do
+  "$murk" run "$dir/sweep_$kind.toml" -o "$dir/sweep_$kind.h5" --threads 2 --quiet > "$dir/sweep_$kind.log" 2>&1 \
+    || { cat "$dir/sweep_$kind.log"; echo "murk run ($kind, exact) failed"; exit 1; }
+done
 
 # The start-up lines.
 grep -q '^system solver: dense LU, [0-9]* unknowns (solver = "dense", dense_limit = 1)$' "$dir/dense.log" \
@@ -90,6 +101,14 @@ with h5py.File(f"{d}/dense.h5", "r") as a, h5py.File(f"{d}/compressed.h5", "r") 
     body = [k for k in a["difference"] if k != "electrodes"][0]
     x, y = a[f"difference/{body}/transdermal_voltage"][...], b[f"difference/{body}/transdermal_voltage"][...]
     check(np.max(np.abs(x - y)) <= 1e-6 * np.max(np.abs(x)), "the electric image: compressed choice agrees with dense")
+
+with h5py.File(f"{d}/sweep_dense.h5", "r") as a, h5py.File(f"{d}/sweep_compressed.h5", "r") as b:
+    check(a["sweep"].attrs["system_solver_used"] == "dense" and b["sweep"].attrs["system_solver_used"] == "compressed",
+          "exact sweeps: one dense body, one compressed")
+    x, y = a["sweep/perturbation"][...], b["sweep/perturbation"][...]
+    scale = np.nanmax(np.abs(x))
+    check(scale > 0 and np.nanmax(np.abs(x - y)) <= 1e-6 * scale,
+          f"exact sweep on the compressed body agrees with the dense one: {np.nanmax(np.abs(x - y)) / scale:.1e}")
 
 for engine in ("h5netcdf", "netcdf4"):
     root = xr.open_dataset(f"{d}/compressed.h5", engine=engine)
