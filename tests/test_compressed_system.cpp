@@ -35,6 +35,25 @@ double relative_difference(const MatrixX<S>& a, const MatrixX<S>& b) {
     return (a - b).norm() / b.norm();
 }
 
+// The body of mixed_scene without its object, and the scene with a 5 mm ball of
+// 1 S/m added at `at` as the moving surface (the last one).
+template <class S>
+struct BodyAndBall {
+    Scene<S> body, full;
+    explicit BodyAndBall(const Vec3& at) {
+        body = fixtures::mixed_scene<S>(S(0.2), S(0.1), kBodyPanel);
+        body.surfaces.erase(body.surfaces.begin() + 1);  // the object moves: it is not part of the body
+        full = body;
+        Surface<S> ball;
+        ball.mesh = make_icosphere(0.005, 2);
+        ball.mesh.name = "object";
+        translate(ball.mesh, at);
+        ball.kind = InterfaceKind::contact;
+        ball.inner_conductivity = S(1.0);
+        full.surfaces.push_back(ball);
+    }
+};
+
 }  // namespace
 
 TEST_CASE_TEMPLATE("the compressed fixed part solves, and solves transposed, as the dense LU does", S, double, Complex) {
@@ -60,19 +79,10 @@ TEST_CASE_TEMPLATE("the compressed fixed part solves, and solves transposed, as 
 }
 
 TEST_CASE("the exact and dipole paths on a compressed fixed part equal those on the dense one") {
-    Scene<double> body = fixtures::mixed_scene<double>(0.2, 0.1, kBodyPanel);
-    body.surfaces.erase(body.surfaces.begin() + 1);  // the object moves: it is not part of the body
-    const FixedPart<double> dense(body, kQuad, forced(SystemSolver::dense));
-    const FixedPart<double> compressed(body, kQuad, forced(SystemSolver::compressed));
-
-    Scene<double> full = body;
-    Surface<double> ball;
-    ball.mesh = make_icosphere(0.005, 2);
-    ball.mesh.name = "object";
-    translate(ball.mesh, Vec3(0.01, 0.028, 0.0));
-    ball.kind = InterfaceKind::contact;
-    ball.inner_conductivity = 1.0;
-    full.surfaces.push_back(ball);
+    const BodyAndBall<double> scenes(Vec3(0.01, 0.028, 0.0));
+    const Scene<double>& full = scenes.full;
+    const FixedPart<double> dense(scenes.body, kQuad, forced(SystemSolver::dense));
+    const FixedPart<double> compressed(scenes.body, kQuad, forced(SystemSolver::compressed));
     const std::size_t moving = full.surfaces.size() - 1;
     const MovingBlock<double> block = factor_moving_block(full, {moving}, kQuad);
     const CoupledSolution<double> a = solve_coupled(full, {moving}, dense, block, kQuad, CouplingOptions{});
@@ -100,17 +110,10 @@ TEST_CASE_TEMPLATE("a batch of exact points on a compressed fixed part: each as 
     // On a compressed fixed part the batch is solved as one GMRES on each point's
     // whole perturbation system (coupled_solve.cpp); on a dense one by the Schur
     // complement against the LU. Both solve the same equations.
-    Scene<S> body = fixtures::mixed_scene<S>(S(0.2), S(0.1), kBodyPanel);
-    body.surfaces.erase(body.surfaces.begin() + 1);
-    const FixedPart<S> dense(body, kQuad, forced(SystemSolver::dense));
-    const FixedPart<S> compressed(body, kQuad, forced(SystemSolver::compressed));
-    Scene<S> full = body;
-    Surface<S> ball;
-    ball.mesh = make_icosphere(0.005, 2);
-    ball.mesh.name = "object";
-    ball.kind = InterfaceKind::contact;
-    ball.inner_conductivity = S(1.0);
-    full.surfaces.push_back(ball);
+    const BodyAndBall<S> start(Vec3::Zero());
+    const Scene<S>& full = start.full;
+    const FixedPart<S> dense(start.body, kQuad, forced(SystemSolver::dense));
+    const FixedPart<S> compressed(start.body, kQuad, forced(SystemSolver::compressed));
     const std::size_t moving = full.surfaces.size() - 1;
     std::vector<Scene<S>> scenes(3, full);
     std::vector<CoupledProblem<S>> problems;
