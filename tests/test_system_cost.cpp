@@ -83,3 +83,20 @@ TEST_CASE("system cost: the water's images scale the assembly, not the factoriza
         CHECK(std::abs(cost.image_factor() / measured - 1.0) < 0.15);
     }
 }
+
+TEST_CASE("system cost: a compressed body's exact point is six shared steps plus its own coupling blocks") {
+    CostModel cost;
+    cost.rates = reference_rates(2);
+    cost.sizes.fixed_unknowns = 91580;
+    cost.sizes.moving_unknowns = 640;
+    cost.sizes.compressed = true;
+    // One GMRES on the whole system (solver/coupled_solve.hpp): 6 steps, each
+    // reading the fixed part once for the batch of 9 and the point's two coupling
+    // blocks (91,580 x 640 x 8 bytes) once; plus assembling those blocks, 2 n m
+    // entries at 10 times the entry rate. No dependence on the object's distance.
+    const double n = 91580, m = 640;
+    const double steps = 6 * (cost.fixed_part_bytes() / 9 + n * m * 8) / cost.rates.solve_byte_rate;
+    const double coupling = 2 * n * m / (10 * cost.rates.entry_rate);
+    CHECK(cost.exact_point_seconds(0.05) == doctest::Approx(steps + coupling));
+    CHECK(cost.exact_point_seconds(0.5) == doctest::Approx(steps + coupling));
+}
