@@ -57,6 +57,17 @@ HMatrix<S> operator_of(const Eigen::Matrix3Xd& points) {
     return HMatrix<S>(points, entries_of<S>(points), h);
 }
 
+// Leaves of 128 unknowns and a rank cap no block of these tests reaches, so that
+// the tolerance alone sets the accuracy.
+HodlrOptions uncapped(double tolerance, bool single_precision = false) {
+    HodlrOptions o;
+    o.leaf_size = 128;
+    o.tolerance = tolerance;
+    o.max_rank = 1000;
+    o.single_precision = single_precision;
+    return o;
+}
+
 // Largest relative column error of M^-1 b against the dense solve.
 template <class S>
 double inverse_error(const HodlrInverse<S>& m, const Eigen::PartialPivLU<MatrixX<S>>& lu, bool transposed) {
@@ -79,11 +90,7 @@ TEST_CASE_TEMPLATE("HODLR inverse: the error falls with the tolerance, down to t
     std::srand(7);
     double previous = 1;
     for (const double tolerance : {1e-2, 1e-4, 1e-6, 1e-10}) {
-        HodlrOptions o;
-        o.leaf_size = 128;
-        o.tolerance = tolerance;
-        o.max_rank = 1000;
-        const HodlrInverse<S> m(a, o);
+        const HodlrInverse<S> m(a, uncapped(tolerance));
         CHECK(m.stats().capped_blocks == 0);
         CHECK(m.stats().leaves >= Fixture::n / 128);
         for (const bool transposed : {false, true}) {
@@ -147,13 +154,8 @@ TEST_CASE_TEMPLATE("HODLR inverse: single-precision storage halves the bytes and
     const HMatrix<S> a = operator_of<S>(f.points);
     const Eigen::PartialPivLU<MatrixX<S>> lu(a.to_dense());
     for (const double tolerance : {1e-2, 1e-3, 1e-4, 1e-5}) {
-        HodlrOptions o;
-        o.leaf_size = 128;
-        o.tolerance = tolerance;
-        o.max_rank = 1000;
-        const HodlrInverse<S> full(a, o);
-        o.single_precision = true;
-        const HodlrInverse<S> single(a, o);
+        const HodlrInverse<S> full(a, uncapped(tolerance));
+        const HodlrInverse<S> single(a, uncapped(tolerance, true));
         // The ranks come from the blocks, not from the storage, so the same
         // entries are stored at half the size of a float against a double.
         CHECK(single.stats().max_rank == full.stats().max_rank);
