@@ -10,6 +10,7 @@
 #include "geometry/internal_check.hpp"
 
 #include <Eigen/QR>
+#include <Eigen/Eigenvalues>
 #include <Eigen/SVD>
 
 #include <chrono>
@@ -63,8 +64,10 @@ void collect_blocks(const ClusterTree& tree, int t, int s, double eta, std::vect
 //    same aim as the reference row and column of ACA+, Grasedyck 2005); if it
 //    does not, the largest sampled entry's row is the next pivot row.
 // An entirely zero block thus ends with rank 0 after a handful of rows and
-// columns. Returns false when the rank would exceed half of min(m, n) (the
-// block is then cheaper dense).
+// columns. Returns false when the rank would exceed three quarters of
+// min(m, n): the block is then cheaper dense. (The cross approximation's rank
+// overshoots the recompressed one, so a block whose crosses pass half its size
+// can still recompress to less; fill() decides by the recompressed rank.)
 template <class S>
 class CrossApproximation {
 public:
@@ -72,7 +75,7 @@ public:
                        double tolerance, unsigned seed)
         : entries_(entries), rows_(std::move(rows)), cols_(std::move(cols)), tolerance_(tolerance), random_(seed) {
         const Eigen::Index m = Eigen::Index(rows_.size()), n = Eigen::Index(cols_.size());
-        max_rank_ = std::min(m, n) / 2;
+        max_rank_ = 3 * std::min(m, n) / 4;
         u_.resize(m, max_rank_ + 1);
         v_.resize(n, max_rank_ + 1);
         row_used_.assign(std::size_t(m), false);
@@ -235,6 +238,20 @@ Eigen::Index kept_rank(const Eigen::VectorXd& sigma, double tolerance) {
     return r;
 }
 
+// a := a m (m has no more columns than a), by chunks of rows so that beyond a
+// only one chunk is held; shrinking a's columns afterwards reallocates in place.
+template <class S>
+void multiply_in_place(MatrixX<S>& a, const MatrixX<S>& m) {
+    constexpr Eigen::Index chunk = 256;
+    const Eigen::Index r = m.cols();
+    for (Eigen::Index i = 0; i < a.rows(); i += chunk) {
+        const Eigen::Index h = std::min(chunk, a.rows() - i);
+        const MatrixX<S> rows = a.middleRows(i, h) * m;
+        a.block(i, 0, h, r) = rows;
+    }
+    a.conservativeResize(Eigen::NoChange, r);
+}
+
 }  // namespace
 
 template <class S>
@@ -270,14 +287,27 @@ void truncate_orthonormal(MatrixX<S>& q, MatrixX<S>& v, double tolerance) {
     v_new.topRows(k) = svd.matrixV().leftCols(r).conjugate();
     v_new.applyOnTheLeft(qr_v.householderQ());
     v = std::move(v_new);
-    const MatrixX<S> m = svd.matrixU().leftCols(r) * sigma.head(r).asDiagonal();
-    constexpr Eigen::Index chunk = 256;
-    for (Eigen::Index i = 0; i < q.rows(); i += chunk) {
-        const Eigen::Index h = std::min(chunk, q.rows() - i);
-        const MatrixX<S> rows = q.middleRows(i, h) * m;
-        q.block(i, 0, h, r) = rows;
+    multiply_in_place(q, MatrixX<S>(svd.matrixU().leftCols(r) * sigma.head(r).asDiagonal()));
+}
+
+template <class S>
+void truncate_orthonormal_gram(MatrixX<S>& q, MatrixX<S>& v, double tolerance) {
+    MURK_CHECK(tolerance >= kGramTruncationFrom, "the Gram truncation is for loose tolerances only");
+    const Eigen::Index k = q.cols();
+    if (k == 0) return;
+    // v^H v = W Lambda W^H (eigenvalues ascending); v's singular values, which
+    // are q v^T's, are sqrt(Lambda). Keeping the r largest:
+    // q v^T ~ q (v W_r W_r^H)^T = (q conj(W_r)) (v W_r)^T.
+    const Eigen::SelfAdjointEigenSolver<MatrixX<S>> eigen(MatrixX<S>(v.adjoint() * v));
+    Eigen::VectorXd sigma(k);
+    MatrixX<S> w(k, k);
+    for (Eigen::Index i = 0; i < k; ++i) {
+        sigma(i) = std::sqrt(std::max(0.0, eigen.eigenvalues()(k - 1 - i)));
+        w.col(i) = eigen.eigenvectors().col(k - 1 - i);
     }
-    q.conservativeResize(Eigen::NoChange, r);
+    const Eigen::Index r = kept_rank(sigma, tolerance);
+    multiply_in_place(v, MatrixX<S>(w.leftCols(r)));
+    multiply_in_place(q, MatrixX<S>(w.leftCols(r).conjugate()));
 }
 
 template <class S>
@@ -301,7 +331,9 @@ struct HMatrix<S>::Impl {
                 block.u = aca.u();
                 block.v = aca.v();
                 recompress_low_rank(block.u, block.v, tolerance);
-                return;
+                if (block.u.cols() * (block.rows + block.cols) < block.rows * block.cols) return;
+                block.u.resize(0, 0);
+                block.v.resize(0, 0);
             }
             block.low_rank = false;
         }
@@ -479,6 +511,8 @@ template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, double);
 template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
 template void truncate_orthonormal(MatrixX<double>&, MatrixX<double>&, double);
 template void truncate_orthonormal(MatrixX<Complex>&, MatrixX<Complex>&, double);
+template void truncate_orthonormal_gram(MatrixX<double>&, MatrixX<double>&, double);
+template void truncate_orthonormal_gram(MatrixX<Complex>&, MatrixX<Complex>&, double);
 template class HMatrix<double>;
 template class HMatrix<Complex>;
 

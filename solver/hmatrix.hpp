@@ -62,6 +62,15 @@ void recompress_low_rank(MatrixX<S>& u, MatrixX<S>& v, double tolerance);
 // one further matrix of v's size is held.
 template <class S>
 void truncate_orthonormal(MatrixX<S>& q, MatrixX<S>& v, double tolerance);
+// The same truncation for loose tolerances (kGramTruncationFrom and above),
+// holding nothing beyond q and v: the singular values are the square roots of
+// the eigenvalues of the small Gram matrix v^H v, and q and v are multiplied in
+// place by its kept eigenvectors. Squaring the singular values limits them to
+// about 1e-8 of the largest (double rounding, 1e-16, under the root), so this
+// is for tolerances well above that, as a preconditioner's are.
+constexpr double kGramTruncationFrom = 1e-6;
+template <class S>
+void truncate_orthonormal_gram(MatrixX<S>& q, MatrixX<S>& v, double tolerance);
 
 template <class S>
 class HMatrix {
@@ -95,6 +104,8 @@ extern template void recompress_low_rank(MatrixX<double>&, MatrixX<double>&, dou
 extern template void recompress_low_rank(MatrixX<Complex>&, MatrixX<Complex>&, double);
 extern template void truncate_orthonormal(MatrixX<double>&, MatrixX<double>&, double);
 extern template void truncate_orthonormal(MatrixX<Complex>&, MatrixX<Complex>&, double);
+extern template void truncate_orthonormal_gram(MatrixX<double>&, MatrixX<double>&, double);
+extern template void truncate_orthonormal_gram(MatrixX<Complex>&, MatrixX<Complex>&, double);
 extern template class HMatrix<double>;
 extern template class HMatrix<Complex>;
 

@@ -51,6 +51,10 @@ struct StoredFactor {
         if (in_single) {
             single = a.template cast<Single>();
             full.resize(0, 0);
+            // Freed here, not when the caller's variable ends: at the top node
+            // that variable would otherwise hold its double copy (a hundred
+            // megabytes) through the other side's sampling.
+            a.resize(0, 0);
         } else {
             full = std::move(a);
             single.resize(0, 0);
@@ -227,9 +231,10 @@ struct HodlrInverse<S>::Impl {
         std::mt19937_64 random(seed);
         std::normal_distribution<double> normal;
         // At the top of the tree these samples are tens of thousands of rows
-        // by hundreds of columns each (150 MB at 91,580 unknowns), so each is
-        // freed or factored in place as soon as it is used: the build's peak
-        // memory is the operator plus the preconditioner plus these.
+        // by hundreds of columns each (113 MB at 91,580 unknowns), so each is
+        // freed or factored in place as soon as it is used, and about two are
+        // held at once: the build's peak memory is the operator plus the
+        // preconditioner plus these two.
         for (;;) {
             u.resize(0, 0);
             v.resize(0, 0);
@@ -244,11 +249,14 @@ struct HodlrInverse<S>::Impl {
                 const Eigen::HouseholderQR<Eigen::Ref<MatrixX<S>>> qr(y);
                 u = qr.householderQ() * MatrixX<S>::Identity(m, width);
             }
-            // A ~ Q Q^H A = Q (A^T conj(Q))^T.
+            // A ~ Q Q^H A = Q (A^T conj(Q))^T; Q is conjugated in place and back,
+            // not copied.
             v.resize(c, width);
-            if constexpr (std::is_same_v<S, double>) region_product(blocks, list, row0, col0, u, true, v);
-            else region_product(blocks, list, row0, col0, MatrixX<S>(u.conjugate()), true, v);
-            truncate_orthonormal(u, v, options.tolerance);
+            if constexpr (!std::is_same_v<S, double>) u = u.conjugate();
+            region_product(blocks, list, row0, col0, u, true, v);
+            if constexpr (!std::is_same_v<S, double>) u = u.conjugate();
+            if (options.tolerance >= kGramTruncationFrom) truncate_orthonormal_gram(u, v, options.tolerance);
+            else truncate_orthonormal(u, v, options.tolerance);
             if (u.cols() + oversampling <= width || width == limit) break;
             width = std::min(2 * width, limit);
         }

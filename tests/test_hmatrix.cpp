@@ -159,6 +159,10 @@ TEST_CASE_TEMPLATE("hierarchical matrix: stored bytes well below dense at 4000 p
                                 << stats.build_seconds << " s");
     CHECK(stats.dense_bytes == doctest::Approx(4000.0 * 4000.0 * sizeof(S)));
     CHECK(stats.compression() < 0.5);
+    // Every block is stored the smaller way: a low-rank block holds fewer
+    // entries than it would dense, whatever rank its crosses reached first.
+    for (const HMatrixBlock<S>& block : h.blocks())
+        if (block.low_rank) CHECK(block.u.cols() * (block.rows + block.cols) < block.rows * block.cols);
     // A x row by row from the kernel, without storing A.
     const VectorX<S> x = random_vector<S>(points.cols(), 11);
     VectorX<S> ax(points.cols());
@@ -260,37 +264,63 @@ TEST_CASE_TEMPLATE("hierarchical matrix: an incompressible far block is stored d
     CHECK((h.to_dense() - a).cwiseAbs().maxCoeff() == 0);
 }
 
+// q v^T with q orthonormal (the randomized range finder's form) and singular
+// values 10^0, 10^-1, ..., 10^-7 by construction: q v^T = Q diag(s) W^T with W
+// orthonormal too. Truncating at 1e-3.5 of the Frobenius norm keeps the four
+// values 1 .. 1e-3 (the dropped ones sum to about 1.005e-4 of it, the next one,
+// 1e-3, alone exceeds 3.2e-4). Reference: Eckart and Young 1936, "The
+// approximation of one matrix by another of lower rank", Psychometrika 1: the
+// best rank-r error is the norm of the dropped singular values.
+template <class S>
+struct KnownSingularValues {
+    static constexpr Eigen::Index m = 300, c = 200, k = 8;
+    MatrixX<S> q0, w0;
+    Eigen::VectorXd s = Eigen::VectorXd(k);
+    KnownSingularValues() {
+        std::srand(3);
+        q0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(m, k)).householderQ() * MatrixX<S>::Identity(m, k);
+        w0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(c, k)).householderQ() * MatrixX<S>::Identity(c, k);
+        for (Eigen::Index i = 0; i < k; ++i) s(i) = std::pow(10.0, -double(i));
+    }
+    MatrixX<S> v() const { return w0.conjugate() * s.asDiagonal(); }  // q0 v^T = Q diag(s) W^H
+    MatrixX<S> original() const { return q0 * v().transpose(); }
+    double best_error() const { return s.tail(4).norm(); }
+    static double tolerance() { return std::pow(10.0, -3.5); }
+};
+
 TEST_CASE_TEMPLATE("low-rank truncation: an orthonormal basis times a factor keeps the singular values above the tolerance",
                    S, double, Complex) {
-    // q v^T with q orthonormal (the randomized range finder's form) and singular
-    // values 10^0, 10^-1, ..., 10^-7 by construction: q v^T = Q diag(s) W^T with
-    // W orthonormal too. Truncating at 1e-3.5 of the Frobenius norm keeps the four
-    // values 1 .. 1e-3 (the dropped ones sum to about 1.005e-4 of it, the next
-    // one, 1e-3, alone exceeds 3.2e-4). Reference: Eckart and Young 1936, "The
-    // approximation of one matrix by another of lower rank", Psychometrika 1:
-    // the best rank-r error is the norm of the dropped singular values.
-    const Eigen::Index m = 300, c = 200, k = 8;
-    std::srand(3);
-    const MatrixX<S> q0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(m, k)).householderQ() *
-                          MatrixX<S>::Identity(m, k);
-    const MatrixX<S> w0 = Eigen::HouseholderQR<MatrixX<S>>(MatrixX<S>::Random(c, k)).householderQ() *
-                          MatrixX<S>::Identity(c, k);
-    Eigen::VectorXd s(k);
-    for (Eigen::Index i = 0; i < k; ++i) s(i) = std::pow(10.0, -double(i));
-    MatrixX<S> q = q0;
-    MatrixX<S> v = w0.conjugate() * s.asDiagonal();  // q v^T = Q diag(s) W^H
-    const MatrixX<S> original = q * v.transpose();
-    const double tolerance = std::pow(10.0, -3.5);
-    truncate_orthonormal(q, v, tolerance);
+    const KnownSingularValues<S> known;
+    MatrixX<S> q = known.q0, v = known.v();
+    const MatrixX<S> original = known.original();
+    truncate_orthonormal(q, v, known.tolerance());
     CHECK(q.cols() == 4);
     CHECK(v.cols() == 4);
     const double error = (q * v.transpose() - original).norm();
-    const double best = s.tail(4).norm();
-    CHECK(error == doctest::Approx(best).epsilon(1e-6));
-    CHECK(error <= tolerance * original.norm());
+    CHECK(error == doctest::Approx(known.best_error()).epsilon(1e-6));
+    CHECK(error <= known.tolerance() * original.norm());
     // And the same truncation as recompress_low_rank, which factors both sides.
-    MatrixX<S> u2 = q0, v2 = w0.conjugate() * s.asDiagonal();
-    recompress_low_rank(u2, v2, tolerance);
+    MatrixX<S> u2 = known.q0, v2 = known.v();
+    recompress_low_rank(u2, v2, known.tolerance());
     CHECK(u2.cols() == 4);
     CHECK((u2 * v2.transpose() - q * v.transpose()).norm() <= 1e-12 * original.norm());
+}
+
+TEST_CASE_TEMPLATE("low-rank truncation by the Gram matrix: the same rank and nearly the best error, for loose tolerances",
+                   S, double, Complex) {
+    const KnownSingularValues<S> known;
+    MatrixX<S> q = known.q0, v = known.v();
+    const MatrixX<S> original = known.original();
+    truncate_orthonormal_gram(q, v, known.tolerance());
+    CHECK(q.cols() == 4);
+    CHECK(v.cols() == 4);
+    const double error = (q * v.transpose() - original).norm();
+    // The squared singular values round at 1e-16 of the largest: the kept
+    // directions tilt by about 1e-16 / (1e-6 - 1e-8), so the error is the best
+    // one (Eckart and Young 1936) to about 1e-6 of itself.
+    CHECK(error == doctest::Approx(known.best_error()).epsilon(1e-5));
+    CHECK(error <= known.tolerance() * original.norm());
+    MatrixX<S> q2 = known.q0, v2 = known.v();
+    truncate_orthonormal(q2, v2, known.tolerance());
+    CHECK((q2 * v2.transpose() - q * v.transpose()).norm() <= 1e-9 * original.norm());
 }
