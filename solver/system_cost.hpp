@@ -12,13 +12,16 @@ namespace murk {
 // Entries of the compressed operator per n log2(n), as `build/murk-bench-large`
 // prints it ("stored entries per n log2 n") on the built-in fish at the default
 // compression tolerance (1e-7): 408 at 18,576 unknowns and 482 at 37,200,
-// measured 2026-12-03; rounded up, since the near field's share falls slowly.
+// measured 2026-12-03 (372, 447 and 486 at 91,580 once blocks were kept
+// low-rank by their recompressed rank, 2026-12-04); rounded up, since the near
+// field's share falls slowly.
 inline constexpr double kCompressedEntriesPerUnknownLog = 500;
 // Entries of the preconditioner (hodlr_inverse.hpp) per unknown: its dense
 // leaves (up to 512 unknowns each) and its low-rank factors, whose ranks grow
 // about as sqrt(n) on a surface. The same benchmark at the default
 // preconditioner_tolerance (1e-4) measured 1,950 at 18,576 unknowns, 2,630 at
-// 37,200 and 3,930 at 91,580 (2026-12-04): 512 + 10.6, 11.0 and 11.3 sqrt(n).
+// 37,200 and 3,930 at 91,580 (2026-12-04): 512 + 10.6, 11.0 and 11.3 sqrt(n);
+// with the ranks cut at 300 (hodlr_inverse.hpp), 3,520 at 91,580 (9.9 sqrt(n)).
 inline constexpr double kPreconditionerLeafEntries = 512;
 inline constexpr double kPreconditionerEntriesPerRootUnknown = 12;
 // At the default preconditioner_tolerance those entries are stored in single
