@@ -248,8 +248,8 @@ TEST_CASE_TEMPLATE("hierarchical matrix: a far block whose first rows are zero i
 
 TEST_CASE_TEMPLATE("hierarchical matrix: an incompressible far block is stored dense", S, double, Complex) {
     // Independent random entries have full rank in every block, so the cross
-    // approximation passes half the block's size and the block is kept dense,
-    // exactly as given.
+    // approximation passes three quarters of the block's size and the block is
+    // kept dense, exactly as given.
     const Eigen::Matrix3Xd points = fibonacci_sphere(800);
     std::srand(17);
     const MatrixX<S> a = MatrixX<S>::Random(800, 800);
@@ -262,6 +262,28 @@ TEST_CASE_TEMPLATE("hierarchical matrix: an incompressible far block is stored d
     CHECK(h.stats().low_rank_blocks == 0);
     CHECK(h.stats().compression() == doctest::Approx(1.0));
     CHECK((h.to_dense() - a).cwiseAbs().maxCoeff() == 0);
+}
+
+TEST_CASE_TEMPLATE("hierarchical matrix: a far block is kept low-rank only when that stores fewer entries", S, double,
+                   Complex) {
+    // Every block of a = f g^T has rank 20 exactly, so the cross approximation
+    // ends at rank 20 wherever three quarters of the block's size allow it. A
+    // square block of 27 to 40 points is then cheaper dense (20 (m + m) >= m m)
+    // and must be stored so; larger ones are cheaper low-rank.
+    const Eigen::Matrix3Xd points = fibonacci_sphere(800);
+    std::srand(23);
+    const MatrixX<S> f = MatrixX<S>::Random(800, 20), g = MatrixX<S>::Random(800, 20);
+    const MatrixX<S> a = f * g.transpose();
+    const BlockEntries<S> entries = [&](const std::vector<Eigen::Index>& rows, const std::vector<Eigen::Index>& cols,
+                                        MatrixX<S>& out) {
+        for (std::size_t j = 0; j < cols.size(); ++j)
+            for (std::size_t i = 0; i < rows.size(); ++i) out(Eigen::Index(i), Eigen::Index(j)) = a(rows[i], cols[j]);
+    };
+    const HMatrix<S> h(points, entries, HMatrixOptions{32, 2.0, 1e-6});
+    CHECK(h.stats().low_rank_blocks > 0);
+    for (const HMatrixBlock<S>& block : h.blocks())
+        if (block.low_rank) CHECK(block.u.cols() * (block.rows + block.cols) < block.rows * block.cols);
+    CHECK((h.to_dense() - a).norm() <= 1e-6 * a.norm());
 }
 
 // q v^T with q orthonormal (the randomized range finder's form) and singular
