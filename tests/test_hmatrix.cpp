@@ -308,41 +308,40 @@ struct KnownSingularValues {
     MatrixX<S> original() const { return q0 * v().transpose(); }
     double best_error() const { return s.tail(4).norm(); }
     static double tolerance() { return std::pow(10.0, -3.5); }
+    // What any truncation of q0 v() at tolerance() must give: the four values
+    // kept, and the best error (Eckart and Young 1936) to `within` of itself.
+    void check_truncated(const MatrixX<S>& q, const MatrixX<S>& v, double within) const {
+        CHECK(q.cols() == 4);
+        CHECK(v.cols() == 4);
+        const double error = (q * v.transpose() - original()).norm();
+        CHECK(error == doctest::Approx(best_error()).epsilon(within));
+        CHECK(error <= tolerance() * original().norm());
+    }
 };
 
 TEST_CASE_TEMPLATE("low-rank truncation: an orthonormal basis times a factor keeps the singular values above the tolerance",
                    S, double, Complex) {
     const KnownSingularValues<S> known;
     MatrixX<S> q = known.q0, v = known.v();
-    const MatrixX<S> original = known.original();
     truncate_orthonormal(q, v, known.tolerance());
-    CHECK(q.cols() == 4);
-    CHECK(v.cols() == 4);
-    const double error = (q * v.transpose() - original).norm();
-    CHECK(error == doctest::Approx(known.best_error()).epsilon(1e-6));
-    CHECK(error <= known.tolerance() * original.norm());
+    known.check_truncated(q, v, 1e-6);
     // And the same truncation as recompress_low_rank, which factors both sides.
     MatrixX<S> u2 = known.q0, v2 = known.v();
     recompress_low_rank(u2, v2, known.tolerance());
     CHECK(u2.cols() == 4);
-    CHECK((u2 * v2.transpose() - q * v.transpose()).norm() <= 1e-12 * original.norm());
+    CHECK((u2 * v2.transpose() - q * v.transpose()).norm() <= 1e-12 * known.original().norm());
 }
 
 TEST_CASE_TEMPLATE("low-rank truncation by the Gram matrix: the same rank and nearly the best error, for loose tolerances",
                    S, double, Complex) {
     const KnownSingularValues<S> known;
     MatrixX<S> q = known.q0, v = known.v();
-    const MatrixX<S> original = known.original();
     truncate_orthonormal_gram(q, v, known.tolerance());
-    CHECK(q.cols() == 4);
-    CHECK(v.cols() == 4);
-    const double error = (q * v.transpose() - original).norm();
     // The squared singular values round at 1e-16 of the largest: the kept
     // directions tilt by about 1e-16 / (1e-6 - 1e-8), so the error is the best
-    // one (Eckart and Young 1936) to about 1e-6 of itself.
-    CHECK(error == doctest::Approx(known.best_error()).epsilon(1e-5));
-    CHECK(error <= known.tolerance() * original.norm());
+    // one to about 1e-6 of itself.
+    known.check_truncated(q, v, 1e-5);
     MatrixX<S> q2 = known.q0, v2 = known.v();
     truncate_orthonormal(q2, v2, known.tolerance());
-    CHECK((q2 * v2.transpose() - q * v.transpose()).norm() <= 1e-9 * original.norm());
+    CHECK((q2 * v2.transpose() - q * v.transpose()).norm() <= 1e-9 * known.original().norm());
 }
