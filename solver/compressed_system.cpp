@@ -42,11 +42,9 @@ CompressedSystem<S>::CompressedSystem(const Scene<S>& scene, const QuadratureOpt
 
     t0 = std::chrono::steady_clock::now();
     HMatrixOptions h;
+    h.leaf_size = kernel_leaf_panels;
     h.tolerance = options.compression_tolerance;
-    const BlockEntries<S> block = [&entries](const std::vector<Eigen::Index>& rows,
-                                             const std::vector<Eigen::Index>& cols,
-                                             MatrixX<S>& out) { entries.panel_block(rows, cols, out); };
-    h_ = std::make_unique<HMatrix<S>>(entries.points(), block, h);
+    h_ = std::make_unique<LayerOperator<S>>(entries, h);
     release_free_pages();
     compression_seconds_ = seconds_since(t0);
 
@@ -68,12 +66,12 @@ MatrixX<S> CompressedSystem<S>::apply(const MatrixX<S>& x, bool transposed) cons
     const Eigen::Index e = size_ - panels_;
     MatrixX<S> y(size_, x.cols());
     if (!transposed) {
-        y.topRows(panels_) = h_->apply(MatrixX<S>(x.topRows(panels_)));
+        y.topRows(panels_) = h_->apply(MatrixX<S>(x.topRows(panels_)), false);
         y.topRows(panels_) += electrode_columns_ * x.bottomRows(e);
         y.bottomRows(e) = electrode_rows_ * x;
     } else {
         y = electrode_rows_.transpose() * x.bottomRows(e);
-        y.topRows(panels_) += h_->apply_transposed(MatrixX<S>(x.topRows(panels_)));
+        y.topRows(panels_) += h_->apply(MatrixX<S>(x.topRows(panels_)), true);
         y.bottomRows(e) += electrode_columns_.transpose() * x.topRows(panels_);
     }
     return y;

@@ -4,8 +4,9 @@
 // when). The matrix is split as
 //     [ H  B ] [x_panels    ]
 //     [ C  D ] [x_electrodes]
-// H (panel unknowns) is a hierarchical matrix (hmatrix.hpp) built from the
-// system's entries (system_entries.hpp); the electrodes' columns B and rows [C D]
+// H (panel unknowns) is stored as its layer kernels, one hierarchical matrix
+// each over the panels (layer_operator.hpp, from system_entries.hpp); the
+// electrodes' columns B and rows [C D]
 // (and a tank's reference unknown and row, solver/tank.hpp) are a thin dense
 // border. Solves are restarted GMRES (gmres.hpp), right-preconditioned by an
 // approximate inverse of H (hodlr_inverse.hpp: dense leaves of at most
@@ -16,8 +17,8 @@
 // solve at once.
 #include "solver/bem_system.hpp"
 #include "solver/gmres.hpp"
-#include "solver/hmatrix.hpp"
 #include "solver/hodlr_inverse.hpp"
+#include "solver/layer_operator.hpp"
 #include "solver/solver_options.hpp"
 
 #include <Eigen/LU>
@@ -56,6 +57,8 @@ public:
     const HodlrInverse<S>& preconditioner() const { return *preconditioner_; }
     Eigen::Index panel_unknowns() const { return panels_; }
 
+    // Panels per leaf of the layer kernels' cluster tree (at most).
+    static constexpr Eigen::Index kernel_leaf_panels = 32;
     // Unknowns per dense leaf of the preconditioner (at most).
     static constexpr Eigen::Index preconditioner_block = 512;
     // The preconditioner's factors are stored in single precision (half the
@@ -68,7 +71,7 @@ private:
 
     SolverOptions options_;
     Eigen::Index size_ = 0, panels_ = 0;
-    std::unique_ptr<HMatrix<S>> h_;
+    std::unique_ptr<LayerOperator<S>> h_;
     MatrixX<S> electrode_columns_;  // panels x electrodes
     MatrixX<S> electrode_rows_;     // electrodes x all unknowns
     VectorX<S> rhs_;

@@ -407,12 +407,16 @@ struct HMatrix<S>::Impl {
 };
 
 template <class S>
-HMatrix<S>::HMatrix(const Eigen::Matrix3Xd& points, const BlockEntries<S>& entries, const HMatrixOptions& options) {
-    MURK_CHECK(options.leaf_size >= 1 && options.eta > 0 && options.tolerance > 0, "valid compression options");
+HMatrix<S>::HMatrix(const Eigen::Matrix3Xd& points, const BlockEntries<S>& entries, const HMatrixOptions& options)
+    : HMatrix(build_cluster_tree(points, options.leaf_size), entries, options) {}
+
+template <class S>
+HMatrix<S>::HMatrix(ClusterTree tree, const BlockEntries<S>& entries, const HMatrixOptions& options) {
+    MURK_CHECK(options.eta > 0 && options.tolerance > 0, "valid compression options");
     const auto start = std::chrono::steady_clock::now();
     auto impl = std::make_shared<Impl>();
-    impl->n = points.cols();
-    impl->tree = build_cluster_tree(points, options.leaf_size);
+    impl->n = Eigen::Index(tree.order.size());
+    impl->tree = std::move(tree);
     if (impl->n > 0) collect_blocks(impl->tree, 0, 0, options.eta, impl->blocks);
     impl->index_chunks();
 
@@ -495,6 +499,75 @@ MatrixX<S> HMatrix<S>::to_dense() const {
 template <class S>
 const ClusterTree& HMatrix<S>::tree() const {
     return impl_->tree;
+}
+
+namespace {
+// The part of [begin, begin + size) inside [lo, lo + count): its first position and length (<= 0: none).
+struct Overlap {
+    Eigen::Index from = 0, length = 0;
+};
+Overlap overlap(Eigen::Index begin, Eigen::Index size, Eigen::Index lo, Eigen::Index count) {
+    const Eigen::Index from = std::max(begin, lo), to = std::min(begin + size, lo + count);
+    return {from, to - from};
+}
+}  // namespace
+
+template <class S>
+void HMatrix<S>::region_product(const Region& region, const MatrixX<S>& x, bool transposed, MatrixX<S>& out) const {
+    const std::vector<Block<S>>& blocks = impl_->blocks;
+    MURK_CHECK(x.rows() == (transposed ? region.rows : region.cols), "one row of x per column of the region");
+    std::vector<std::size_t> list;
+    for (std::size_t b = 0; b < blocks.size(); ++b)
+        if (overlap(blocks[b].row_begin, blocks[b].rows, region.row_begin, region.rows).length > 0 &&
+            overlap(blocks[b].col_begin, blocks[b].cols, region.col_begin, region.cols).length > 0)
+            list.push_back(b);
+    out.setZero(transposed ? region.cols : region.rows, x.cols());
+    // Chunks of columns are tasks for the enclosing team (the other threads pick
+    // them up while they wait); the chunks do not depend on the threads, and
+    // each output column is summed in block order, so neither does the result.
+    constexpr Eigen::Index chunk = 16;
+    const Eigen::Index k = x.cols();
+#pragma omp taskloop grainsize(1) shared(blocks, list, x, out, region)
+    for (Eigen::Index c0 = 0; c0 < k; c0 += chunk) {
+        const Eigen::Index width = std::min(chunk, k - c0);
+        for (const std::size_t b : list) {
+            const Block<S>& block = blocks[b];
+            const Overlap r = overlap(block.row_begin, block.rows, region.row_begin, region.rows);
+            const Overlap c = overlap(block.col_begin, block.cols, region.col_begin, region.cols);
+            const Eigen::Index bi = r.from - block.row_begin, bj = c.from - block.col_begin;
+            const Eigen::Index ri = r.from - region.row_begin, rj = c.from - region.col_begin;
+            if (!transposed) {
+                const auto in = x.block(rj, c0, c.length, width);
+                auto to = out.block(ri, c0, r.length, width);
+                if (block.low_rank)
+                    to.noalias() += block.u.middleRows(bi, r.length) * (block.v.middleRows(bj, c.length).transpose() * in);
+                else
+                    to.noalias() += block.dense.block(bi, bj, r.length, c.length) * in;
+            } else {
+                const auto in = x.block(ri, c0, r.length, width);
+                auto to = out.block(rj, c0, c.length, width);
+                if (block.low_rank)
+                    to.noalias() += block.v.middleRows(bj, c.length) * (block.u.middleRows(bi, r.length).transpose() * in);
+                else
+                    to.noalias() += block.dense.block(bi, bj, r.length, c.length).transpose() * in;
+            }
+        }
+    }
+}
+
+template <class S>
+MatrixX<S> HMatrix<S>::region_dense(const Region& region) const {
+    MatrixX<S> a = MatrixX<S>::Zero(region.rows, region.cols);
+    for (const Block<S>& block : impl_->blocks) {
+        const Overlap r = overlap(block.row_begin, block.rows, region.row_begin, region.rows);
+        const Overlap c = overlap(block.col_begin, block.cols, region.col_begin, region.cols);
+        if (r.length <= 0 || c.length <= 0) continue;
+        const Eigen::Index bi = r.from - block.row_begin, bj = c.from - block.col_begin;
+        auto to = a.block(r.from - region.row_begin, c.from - region.col_begin, r.length, c.length);
+        if (block.low_rank) to.noalias() = block.u.middleRows(bi, r.length) * block.v.middleRows(bj, c.length).transpose();
+        else to = block.dense.block(bi, bj, r.length, c.length);
+    }
+    return a;
 }
 
 template <class S>

@@ -13,6 +13,7 @@
 // called from several threads at once and must be safe to call so.
 #include "solver/bem_system.hpp"
 #include "solver/cluster_tree.hpp"
+#include "solver/tree_operator.hpp"
 
 #include <functional>
 #include <memory>
@@ -73,13 +74,16 @@ template <class S>
 void truncate_orthonormal_gram(MatrixX<S>& q, MatrixX<S>& v, double tolerance);
 
 template <class S>
-class HMatrix {
+class HMatrix : public TreeOperator<S> {
 public:
     // Rows and columns are both numbered by the columns of `points` (row i and
     // column i lie at points.col(i)).
     HMatrix(const Eigen::Matrix3Xd& points, const BlockEntries<S>& entries, const HMatrixOptions& options);
+    // On a tree built already (options.leaf_size unused), so that several
+    // matrices over the same points share one block structure.
+    HMatrix(ClusterTree tree, const BlockEntries<S>& entries, const HMatrixOptions& options);
 
-    Eigen::Index size() const;
+    Eigen::Index size() const override;
     // y = A x and y = A^T x (transpose, no conjugation), in the original numbering.
     VectorX<S> apply(const VectorX<S>& x) const;
     VectorX<S> apply_transposed(const VectorX<S>& x) const;
@@ -88,7 +92,11 @@ public:
     MatrixX<S> apply_transposed(const MatrixX<S>& x) const;
     // The whole matrix (for tests on small sizes).
     MatrixX<S> to_dense() const;
-    const ClusterTree& tree() const;
+    const ClusterTree& tree() const override;
+    // Products and copies of any region (TreeOperator); the stored blocks that
+    // meet it contribute their overlapping parts.
+    void region_product(const Region& region, const MatrixX<S>& x, bool transposed, MatrixX<S>& out) const override;
+    MatrixX<S> region_dense(const Region& region) const override;
     const HMatrixStats& stats() const;
     // The stored blocks, which tile the matrix; each lies inside one pair of
     // cluster-tree nodes that the block tree visited (the preconditioner of

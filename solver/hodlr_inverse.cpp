@@ -1,8 +1,7 @@
 // The HODLR approximate inverse of hodlr_inverse.hpp: a node tree over the
-// cluster tree cut at leaf_size, the hierarchical matrix's stored blocks
-// regrouped by the node whose two children they couple, each such group
-// compressed by a randomized range finder, and the Woodbury factors built from
-// the leaves up.
+// cluster tree cut at leaf_size, the region coupling each node's two children
+// compressed by a randomized range finder on the operator's products with it,
+// and the Woodbury factors built from the leaves up.
 #include "solver/hodlr_inverse.hpp"
 
 #include "geometry/internal_check.hpp"
@@ -118,10 +117,6 @@ struct HodlrInverse<S>::Impl {
         Eigen::Index begin = 0, size = 0;  // positions in the cluster tree's order
         int first = -1, second = -1;       // children in `nodes`; -1 for a leaf
         int depth = 0;
-        // Stored blocks of the H-matrix: a leaf's lie in its diagonal block; an
-        // inner node's couple its first child's rows with its second child's
-        // columns (upper) or the reverse (lower).
-        std::vector<std::size_t> upper, lower;
         // The inverse of a leaf's dense block or of an inner node's core S, held
         // explicitly: applying it is one pass over it, where triangular solves
         // against LU factors take two and pack them first. The cores are small
@@ -152,80 +147,17 @@ struct HodlrInverse<S>::Impl {
         return index;
     }
 
-    static bool inside(Eigen::Index begin, Eigen::Index size, const Node& node) {
-        return begin >= node.begin && begin + size <= node.begin + node.size;
-    }
-
-    // Hands every stored block to the node that owns it (see Node).
-    void assign(const std::vector<HMatrixBlock<S>>& blocks) {
-        for (std::size_t b = 0; b < blocks.size(); ++b) {
-            const HMatrixBlock<S>& block = blocks[b];
-            int at = 0;
-            for (;;) {
-                Node& node = nodes[std::size_t(at)];
-                if (node.is_leaf()) {
-                    node.upper.push_back(b);
-                    break;
-                }
-                const Node& a = nodes[std::size_t(node.first)];
-                const Node& c = nodes[std::size_t(node.second)];
-                const bool rows_a = inside(block.row_begin, block.rows, a), rows_c = inside(block.row_begin, block.rows, c);
-                const bool cols_a = inside(block.col_begin, block.cols, a), cols_c = inside(block.col_begin, block.cols, c);
-                MURK_CHECK((rows_a || rows_c) && (cols_a || cols_c), "every stored block lies inside one pair of clusters");
-                if (rows_a && cols_a) {
-                    at = node.first;
-                } else if (rows_c && cols_c) {
-                    at = node.second;
-                } else {
-                    (rows_a ? node.upper : node.lower).push_back(b);
-                    break;
-                }
-            }
-        }
-    }
-
-    // The product of the blocks `list` (a region whose rows start at position
-    // row0 and columns at col0) with x, or of their transpose; `out` is sized.
-    // Chunks of columns are tasks for the enclosing team (the other threads pick
-    // them up while they wait); the chunks do not depend on the threads, and
-    // each output column is summed in block order, so neither does the result.
-    static void region_product(const std::vector<HMatrixBlock<S>>& blocks, const std::vector<std::size_t>& list,
-                               Eigen::Index row0, Eigen::Index col0, const MatrixX<S>& x, bool transposed,
-                               MatrixX<S>& out) {
-        constexpr Eigen::Index chunk = 16;
-        out.setZero();
-        const Eigen::Index k = x.cols();
-#pragma omp taskloop grainsize(1) shared(blocks, list, x, out)
-        for (Eigen::Index c0 = 0; c0 < k; c0 += chunk) {
-            const Eigen::Index width = std::min(chunk, k - c0);
-            for (const std::size_t b : list) {
-                const HMatrixBlock<S>& block = blocks[b];
-                if (!transposed) {
-                    const auto in = x.block(block.col_begin - col0, c0, block.cols, width);
-                    auto to = out.block(block.row_begin - row0, c0, block.rows, width);
-                    if (block.low_rank) to.noalias() += block.u * (block.v.transpose() * in);
-                    else to.noalias() += block.dense * in;
-                } else {
-                    const auto in = x.block(block.row_begin - row0, c0, block.rows, width);
-                    auto to = out.block(block.col_begin - col0, c0, block.cols, width);
-                    if (block.low_rank) to.noalias() += block.v * (block.u.transpose() * in);
-                    else to.noalias() += block.dense.transpose() * in;
-                }
-            }
-        }
-    }
-
-    // u v^T approximating the region of `list` (rows: m from row0, columns: c
-    // from col0) to the relative tolerance: a randomized range finder whose
-    // width doubles until the truncation drops at least `oversampling` of its
-    // directions (or the width reaches the cap). Returns whether it was capped.
-    static bool compress(const std::vector<HMatrixBlock<S>>& blocks, const std::vector<std::size_t>& list,
-                         Eigen::Index row0, Eigen::Index m, Eigen::Index col0, Eigen::Index c,
-                         const HodlrOptions& options, unsigned seed, MatrixX<S>& u, MatrixX<S>& v) {
+    // u v^T approximating the matrix's `region` (m rows, c columns) to the
+    // relative tolerance: a randomized range finder whose width doubles until
+    // the truncation drops at least `oversampling` of its directions (or the
+    // width reaches the cap). Returns whether it was capped.
+    static bool compress(const TreeOperator<S>& matrix, const Region& region, const HodlrOptions& options,
+                         unsigned seed, MatrixX<S>& u, MatrixX<S>& v) {
         constexpr Eigen::Index oversampling = 8;
+        const Eigen::Index m = region.rows, c = region.cols;
         u.resize(m, 0);
         v.resize(c, 0);
-        if (list.empty()) return false;
+        if (m == 0 || c == 0) return false;
         const Eigen::Index limit = std::min({m, c, options.max_rank + oversampling});
         Eigen::Index width = std::min<Eigen::Index>(32, limit);
         std::mt19937_64 random(seed);
@@ -244,7 +176,7 @@ struct HodlrInverse<S>::Impl {
                     MatrixX<S> omega(c, width);
                     for (Eigen::Index j = 0; j < width; ++j)
                         for (Eigen::Index i = 0; i < c; ++i) omega(i, j) = standard_normal<S>(random, normal);
-                    region_product(blocks, list, row0, col0, omega, false, y);
+                    matrix.region_product(region, omega, false, y);
                 }
                 const Eigen::HouseholderQR<Eigen::Ref<MatrixX<S>>> qr(y);
                 u = qr.householderQ() * MatrixX<S>::Identity(m, width);
@@ -253,7 +185,7 @@ struct HodlrInverse<S>::Impl {
             // not copied.
             v.resize(c, width);
             if constexpr (!std::is_same_v<S, double>) u = u.conjugate();
-            region_product(blocks, list, row0, col0, u, true, v);
+            matrix.region_product(region, u, true, v);
             if constexpr (!std::is_same_v<S, double>) u = u.conjugate();
             if (options.tolerance >= kGramTruncationFrom) truncate_orthonormal_gram(u, v, options.tolerance);
             else truncate_orthonormal(u, v, options.tolerance);
@@ -356,36 +288,24 @@ struct HodlrInverse<S>::Impl {
 #pragma omp taskwait
     }
 
-    void factor_leaf(Node& node, const std::vector<HMatrixBlock<S>>& blocks, bool single) {
-        MatrixX<S> dense = MatrixX<S>::Zero(node.size, node.size);
-        for (const std::size_t b : node.upper) {
-            const HMatrixBlock<S>& block = blocks[b];
-            auto to = dense.block(block.row_begin - node.begin, block.col_begin - node.begin, block.rows, block.cols);
-            if (block.low_rank) to.noalias() = block.u * block.v.transpose();
-            else to = block.dense;
-        }
+    void factor_leaf(Node& node, const TreeOperator<S>& matrix, bool single) {
+        const MatrixX<S> dense = matrix.region_dense(Region{node.begin, node.size, node.begin, node.size});
         node.leaf_inverse.store(Eigen::PartialPivLU<MatrixX<S>>(dense).inverse(), single);
-        node.upper.clear();
     }
 
     // Needs both children finished: Z_i are solves against them.
-    bool factor_inner(Node& node, int index, const std::vector<HMatrixBlock<S>>& blocks,
-                      const HodlrOptions& options) {
+    bool factor_inner(Node& node, int index, const TreeOperator<S>& matrix, const HodlrOptions& options) {
         const Node& a = nodes[std::size_t(node.first)];
         const Node& c = nodes[std::size_t(node.second)];
         // One side at a time, each stored as soon as it is solved, so that the
         // top node holds one side's samples beside the other's stored factors.
         MatrixX<S> z1, z2, v1, v2;
-        bool capped = compress(blocks, node.upper, a.begin, a.size, c.begin, c.size, options,
-                               2 * unsigned(index) + 1, z1, v1);
-        node.upper.clear();
+        bool capped = compress(matrix, Region{a.begin, a.size, c.begin, c.size}, options, 2 * unsigned(index) + 1, z1, v1);
         solve_in_place(node.first, z1, false);
         const Eigen::Index r1 = z1.cols();
         node.z1.store(std::move(z1), options.single_precision);
         node.v1.store(std::move(v1), options.single_precision);
-        capped |= compress(blocks, node.lower, c.begin, c.size, a.begin, a.size, options, 2 * unsigned(index) + 2,
-                           z2, v2);
-        node.lower.clear();
+        capped |= compress(matrix, Region{c.begin, c.size, a.begin, a.size}, options, 2 * unsigned(index) + 2, z2, v2);
         solve_in_place(node.second, z2, false);
         const Eigen::Index r2 = z2.cols();
         // The core from the factors as stored where they are (V_1, Z_1), so that
@@ -401,16 +321,13 @@ struct HodlrInverse<S>::Impl {
 };
 
 template <class S>
-HodlrInverse<S>::HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& options) {
+HodlrInverse<S>::HodlrInverse(const TreeOperator<S>& matrix, const HodlrOptions& options) {
     MURK_CHECK(options.leaf_size >= 1 && options.tolerance > 0 && options.max_rank >= 0, "valid HODLR options");
     const auto start = std::chrono::steady_clock::now();
     auto impl = std::make_shared<Impl>();
     impl->n = matrix.size();
     impl->order = matrix.tree().order;
-    if (impl->n > 0) {
-        impl->add_node(matrix.tree(), 0, 0, options.leaf_size);
-        impl->assign(matrix.blocks());
-    }
+    if (impl->n > 0) impl->add_node(matrix.tree(), 0, 0, options.leaf_size);
     // From the deepest nodes up: the nodes of one depth are independent. Always
     // inside a parallel region, even for one node: Eigen then multiplies on one
     // thread, whose rounding does not depend on the team's size.
@@ -426,8 +343,8 @@ HodlrInverse<S>::HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& opti
         for (std::size_t k = 0; k < level.size(); ++k) {
             try {
                 auto& node = impl->nodes[std::size_t(level[k])];
-                if (node.is_leaf()) impl->factor_leaf(node, matrix.blocks(), options.single_precision);
-                else capped += impl->factor_inner(node, level[k], matrix.blocks(), options) ? 1 : 0;
+                if (node.is_leaf()) impl->factor_leaf(node, matrix, options.single_precision);
+                else capped += impl->factor_inner(node, level[k], matrix, options) ? 1 : 0;
             } catch (...) {
 #pragma omp critical(murk_hodlr_failure)
                 if (!failure) failure = std::current_exception();

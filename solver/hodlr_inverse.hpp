@@ -1,7 +1,9 @@
 #pragma once
-// An approximate inverse of a hierarchical matrix (hmatrix.hpp), used as the
-// preconditioner of the compressed solve: the matrix is coarsened to a
-// hierarchically off-diagonal low-rank (HODLR) form over the same cluster tree
+// An approximate inverse of a matrix stored over a cluster tree (a tree
+// operator, tree_operator.hpp: a hierarchical matrix, hmatrix.hpp, or the
+// fixed part's layer kernels, layer_operator.hpp), used as the preconditioner
+// of the compressed solve: the matrix is coarsened to a hierarchically
+// off-diagonal low-rank (HODLR) form over the same cluster tree
 // and that form is inverted exactly by the Sherman-Morrison-Woodbury formula,
 // node by node from the leaves up (Ambikasaran and Darve 2013, "An O(N log N)
 // fast direct solver for partial hierarchically semi-separable matrices",
@@ -11,7 +13,7 @@
 //     A_t = [ A_1        U_1 V_1^T ]  =  K + U W^T,   K = diag(A_1, A_2),
 //           [ U_2 V_2^T  A_2       ]
 // each off-diagonal block truncated to the given relative accuracy (a
-// randomized range finder on products with the stored blocks, Halko, Martinsson
+// randomized range finder on the operator's products with the block, Halko, Martinsson
 // and Tropp 2011, "Finding structure with randomness", SIAM Review 53, then the
 // truncation of hmatrix.hpp). With Z_i = A_i^-1 U_i,
 //     A_t^-1 = K^-1 - Z S^-1 W^T K^-1,   S = [ I          V_1^T Z_2 ]
@@ -27,6 +29,7 @@
 // Deterministic: the random test matrices are seeded by node, and no sum
 // depends on the threads.
 #include "solver/hmatrix.hpp"
+#include "solver/tree_operator.hpp"
 
 #include <memory>
 
@@ -57,7 +60,7 @@ struct HodlrStats {
 template <class S>
 class HodlrInverse {
 public:
-    HodlrInverse(const HMatrix<S>& matrix, const HodlrOptions& options);
+    HodlrInverse(const TreeOperator<S>& matrix, const HodlrOptions& options);
     // M^-1 x (transposed: M^-T x, no conjugation) for every column of x, in the
     // matrix's original numbering.
     MatrixX<S> solve(const MatrixX<S>& x, bool transposed) const;

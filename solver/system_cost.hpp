@@ -2,8 +2,8 @@
 // How many entries the fixed part's system holds under each solver
 // (solver_options.hpp), for the memory checks and time estimates made before
 // anything is assembled. Dense: the n x n matrix, factored in place. Compressed:
-// the hierarchical matrix, whose low-rank blocks grow about as n log n, and the
-// preconditioner beside it.
+// the layer kernels' hierarchical matrices (layer_operator.hpp), whose low-rank
+// blocks grow about as n log n, and the preconditioner beside it.
 #include <algorithm>
 #include <cmath>
 
@@ -11,11 +11,10 @@ namespace murk {
 
 // Entries of the compressed operator per n log2(n), as `build/murk-bench-large`
 // prints it ("stored entries per n log2 n") on the built-in fish at the default
-// compression tolerance (1e-7): 408 at 18,576 unknowns and 482 at 37,200,
-// measured 2026-12-03 (372, 447 and 486 at 91,580 once blocks were kept
-// low-rank by their recompressed rank, 2026-12-04); rounded up, since the near
-// field's share falls slowly.
-inline constexpr double kCompressedEntriesPerUnknownLog = 500;
+// compression tolerance (1e-7), stored as layer kernels: 200 at 18,576 unknowns
+// and 279 at 100,800 (2026-12-04; one matrix over the unknowns had needed 372
+// to 486); rounded up, since the near field's share falls slowly.
+inline constexpr double kCompressedEntriesPerUnknownLog = 300;
 // Entries of the preconditioner (hodlr_inverse.hpp) per unknown: its dense
 // leaves (up to 512 unknowns each) and its low-rank factors, whose ranks grow
 // about as sqrt(n) on a surface. The same benchmark at the default
@@ -28,10 +27,11 @@ inline constexpr double kPreconditionerEntriesPerRootUnknown = 12;
 // precision (CompressedSystem::kSinglePrecisionFrom): half a working-precision
 // entry each. Like the ranks above, this holds for the default tolerance only.
 inline constexpr double kPreconditionerStorageShare = 0.5;
-// Building the preconditioner takes about as long as the compression: the same
-// benchmark measured 1.1, 1.3 and 1.5 times it at those sizes (after the
-// task fix of 9623b18; rounded down, since the smaller sizes dominate sweeps).
-inline constexpr double kPreconditionerSetupShare = 1.0;
+// Building the preconditioner takes longer than the compression of the layer
+// kernels: the same benchmark measured 1.4 times it at 18,576 unknowns and 2.6
+// times at 100,800 (2026-12-04); between the two, since the smaller sizes
+// dominate sweeps.
+inline constexpr double kPreconditionerSetupShare = 2.0;
 // Iterations of one compressed solve to the default iteration_tolerance, for the
 // time estimate: the same benchmark measured 4 or 5 from 3,876 to 91,580
 // unknowns; one more for the last preconditioner solve.

@@ -47,6 +47,14 @@ SystemEntries<S>::SystemEntries(const Scene<S>& scene, const QuadratureOptions& 
         }
         imaged_.push_back(std::move(moved));
     }
+    Eigen::Index panels = 0;
+    for (const PanelSet& p : panels_) panel_base_.push_back(panels), panels += p.centroid.cols();
+    panel_points_.resize(3, panels);
+    surface_of_panel_.resize(std::size_t(panels));
+    for (std::size_t s = 0; s < panels_.size(); ++s) {
+        panel_points_.middleCols(panel_base_[s], panels_[s].centroid.cols()) = panels_[s].centroid;
+        std::fill_n(surface_of_panel_.begin() + panel_base_[s], panels_[s].centroid.cols(), int(s));
+    }
     // The right-hand side: the rows of the whole system against no columns.
     std::vector<Eigen::Index> all(std::size_t(layout_.size));
     std::iota(all.begin(), all.end(), Eigen::Index(0));
@@ -81,6 +89,62 @@ S SystemEntries<S>::entry(Eigen::Index row, Eigen::Index col) const {
     if (images.constant != S(0)) single -= images.constant * S(src.area(k) / (4.0 * M_PI));
     if (q_column_[col]) return -single;
     return -dbl + S(self ? 0.5 : 0.0);
+}
+
+template <class S>
+bool SystemEntries<S>::interior_kernels_differ() const {
+    return scene_->surfaces.size() > 1 || !scene_->images.terms.empty() || scene_->images.constant != S(0);
+}
+
+template <class S>
+typename SystemEntries<S>::UnknownRole SystemEntries<S>::role(Eigen::Index unknown) const {
+    MURK_CHECK(unknown >= 0 && unknown < panel_unknowns(), "a panel unknown");
+    UnknownRole r;
+    const int s = surface_of_[std::size_t(unknown)];
+    r.panel = panel_base_[std::size_t(s)] + panel_of_[std::size_t(unknown)];
+    r.interior_row = interior_row_[std::size_t(unknown)];
+    r.q_column = q_column_[std::size_t(unknown)];
+    r.two_sided = layout_.surfaces[std::size_t(s)].two_sided;
+    if (r.two_sided) {
+        const Surface<S>& surface = scene_->surfaces[std::size_t(s)];
+        r.membrane_factor = membrane_factor(*scene_, surface);
+        r.conductivity_ratio = scene_->water_conductivity / surface.inner_conductivity;
+    }
+    return r;
+}
+
+template <class S>
+void SystemEntries<S>::kernel_block(Kernel kernel, const std::vector<Eigen::Index>& rows,
+                                    const std::vector<Eigen::Index>& cols, MatrixX<S>& out) const {
+    out.resize(Eigen::Index(rows.size()), Eigen::Index(cols.size()));
+    const bool interior = kernel == Kernel::interior_double || kernel == Kernel::interior_single;
+    const bool dbl = kernel == Kernel::water_double || kernel == Kernel::interior_double;
+    const ImageSeries<S>& images = scene_->images;
+    for (std::size_t j = 0; j < cols.size(); ++j) {
+        MURK_CHECK(cols[j] >= 0 && cols[j] < panel_count(), "a kernel's columns are panels");
+        const int b = surface_of_panel_[std::size_t(cols[j])];
+        const Eigen::Index k = cols[j] - panel_base_[std::size_t(b)];
+        const PanelSet& src = panels_[std::size_t(b)];
+        for (std::size_t i = 0; i < rows.size(); ++i) {
+            MURK_CHECK(rows[i] >= 0 && rows[i] < panel_count(), "a kernel's rows are panels");
+            const int a = surface_of_panel_[std::size_t(rows[i])];
+            const Eigen::Index p = rows[i] - panel_base_[std::size_t(a)];
+            S& value = out(Eigen::Index(i), Eigen::Index(j));
+            if (interior && a != b) {
+                value = S(0);
+                continue;
+            }
+            const bool self = a == b && p == k;
+            const LayerValues v = layer_pair(panels_[std::size_t(a)].centroid.col(p), src, k, options_, self);
+            value = dbl ? (self ? S(gauss_diagonal_[std::size_t(a)](p)) : S(v.dbl)) : S(v.single);
+            if (interior) continue;
+            for (std::size_t t = 0; t < images.terms.size(); ++t) {
+                const LayerValues w = layer_pair(imaged_[std::size_t(a)][t].col(p), src, k, options_, false);
+                value += images.terms[t].weight * (dbl ? w.dbl : w.single);
+            }
+            if (!dbl && images.constant != S(0)) value -= images.constant * S(src.area(k) / (4.0 * M_PI));
+        }
+    }
 }
 
 template <class S>

@@ -1,6 +1,6 @@
 // The memory and time model of the fixed part under each solver
 // (solver/system_cost.hpp, cases/sweep/cost_model.hpp). Expected values are worked
-// out by hand from the model's stated formulas (500 n log2 n + (512 + 12 sqrt(n)) n / 2
+// out by hand from the model's stated formulas (300 n log2 n + (512 + 12 sqrt(n)) n / 2
 // entries for the compressed system, the preconditioner's in single precision;
 // n^2 for the dense one), not taken from the code.
 #include "cases/sweep/cost_model.hpp"
@@ -13,17 +13,17 @@
 
 using namespace murk;
 
-TEST_CASE("system cost: compressed entries follow 500 n log2 n + (512 + 12 sqrt(n)) n / 2, never more than dense") {
-    // n = 1024: log2 n = 10, so 500 * 1024 * 10 = 5,120,000 exceeds 1024^2 and is
+TEST_CASE("system cost: compressed entries follow 300 n log2 n + (512 + 12 sqrt(n)) n / 2, never more than dense") {
+    // n = 1024: log2 n = 10, so 300 * 1024 * 10 = 3,072,000 exceeds 1024^2 and is
     // held at 1,048,576; plus (512 + 12 * 32) * 1024 / 2 = 458,752.
     CHECK(compressed_system_entries(1024) == doctest::Approx(1507328.0));
     CHECK(system_entries(1024, false) == doctest::Approx(1048576.0));  // 1024^2
-    // n = 100: 500 * 100 * log2(100) = 332,193 and (512 + 120) * 100 = 63,200 both exceed
+    // n = 100: 300 * 100 * log2(100) = 199,316 and (512 + 120) * 100 = 63,200 both exceed
     // 100^2, so each part is held at the dense size: 10,000 + 10,000 / 2.
     CHECK(compressed_system_entries(100) == doctest::Approx(15000.0));
-    // n = 65536: log2 n = 16 and sqrt(n) = 256, 500 * 16 + (512 + 12 * 256) / 2 = 9792
+    // n = 65536: log2 n = 16 and sqrt(n) = 256, 300 * 16 + (512 + 12 * 256) / 2 = 6592
     // entries per unknown, against 65536 dense.
-    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(9792.0 / 65536.0));
+    CHECK(system_entries(65536, true) / system_entries(65536, false) == doctest::Approx(6592.0 / 65536.0));
 }
 
 TEST_CASE("system cost: the sweep's memory counts the compressed system only when compressed") {
@@ -35,13 +35,13 @@ TEST_CASE("system cost: the sweep's memory counts the compressed system only whe
     const double overhead = 24.0 * 1024 * 1024;
     CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 65536.0 * 65536.0 * 8 + overhead));
     cost.sizes.compressed = true;
-    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 9792.0 * 65536.0 * 8 + overhead));
+    CHECK(cost.memory_bytes(false, false) == doctest::Approx(1.1 * 2 * 6592.0 * 65536.0 * 8 + overhead));
     // The compressed fixed part's time: compression at the entry rate, the
-    // preconditioner as long again, then one solve of 6 iterations, each reading
-    // the 9792 x 65536 x 8 bytes once.
-    const double bytes = 9792.0 * 65536.0 * 8;
+    // preconditioner twice as long, then one solve of 6 iterations, each reading
+    // the 6592 x 65536 x 8 bytes once.
+    const double bytes = 6592.0 * 65536.0 * 8;
     CHECK(cost.fixed_part_seconds() ==
-          doctest::Approx(2 * (2 * 9792.0 * 65536.0 / cost.rates.entry_rate + 6 * bytes / cost.rates.solve_byte_rate)));
+          doctest::Approx(2 * (3 * 6592.0 * 65536.0 / cost.rates.entry_rate + 6 * bytes / cost.rates.solve_byte_rate)));
 }
 
 TEST_CASE("system cost: a compressed body's exact batches are larger and run one at a time") {

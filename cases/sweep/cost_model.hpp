@@ -16,7 +16,7 @@
 // When the body's system is compressed (solver/system_cost.hpp: about
 // c n log2 n + (512 + 12 sqrt(n)) n entries instead of n^2), the model is instead
 //   compression of the operator         entries / entry_rate
-//   the preconditioner                  as long again
+//   the preconditioner                  twice as long
 //   one solve                           iterations x bytes of the compressed
 //                                       system / solve_byte_rate (each iteration
 //                                       reads the operator and preconditioner)
