@@ -58,6 +58,9 @@ MovingBlock<S> factor_moving_block(const Scene<S>& scene, const std::vector<std:
 
 struct CouplingOptions {
     double tolerance = 1e-10;  // GMRES relative residual of the coupling system
+    // Two or three suffice unless the object nearly touches the body
+    // (tools/bench_sweep.cpp); a sweep's exact path re-solves a point that
+    // has not converged after these as its whole scene.
     int max_iterations = 80;
 };
 

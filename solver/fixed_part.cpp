@@ -99,6 +99,11 @@ typename FixedPart<S>::SolverReport FixedPart<S>::report() const {
 }
 
 template <class S>
+const SolverOptions* FixedPart<S>::compressed_options() const {
+    return compressed_ ? &compressed_->options : nullptr;
+}
+
+template <class S>
 const CompressedSystem<S>* FixedPart<S>::compressed_system() const {
     return compressed_ ? &compressed_->system : nullptr;
 }

@@ -67,6 +67,8 @@ public:
     SolverReport report() const;
     // The compressed system itself (null when dense), for benchmarks and reports.
     const CompressedSystem<S>* compressed_system() const;
+    // The solver options a compressed fixed part was built with (null when dense).
+    const SolverOptions* compressed_options() const;
 
 private:
     struct Compressed;  // compressed_system.hpp

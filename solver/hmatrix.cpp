@@ -366,6 +366,21 @@ struct HMatrix<S>::Impl {
     // every output entry is added up in the same order on every run. (Summing
     // per-thread partial results would make the last bits depend on which
     // thread took which block, and a sweep's points must not depend on that.)
+    // out += a in. For a few columns, one column at a time: Eigen multiplies a
+    // matrix by several columns with its blocked matrix-matrix kernel, which
+    // packs the factor first, and for two columns that cost 1.9 times one
+    // column (0.037 against 0.020 s for a layer kernel of 18,600 panels,
+    // 0.5 GiB); column by column each block is read from memory once and
+    // reused from cache.
+    template <class Out, class A, class In>
+    static void add_product(Out&& out, const A& a, const In& in) {
+        constexpr Eigen::Index kColumnwise = 4;
+        if (in.cols() <= kColumnwise)
+            for (Eigen::Index j = 0; j < in.cols(); ++j) out.col(j).noalias() += a * in.col(j);
+        else
+            out.noalias() += a * in;
+    }
+
     MatrixX<S> product(const MatrixX<S>& x, bool transposed) const {
         const Eigen::Index m = x.cols();
         MatrixX<S> x_p(n, m), y_p = MatrixX<S>::Zero(n, m);
@@ -377,7 +392,8 @@ struct HMatrix<S>::Impl {
             if (!block.low_rank) continue;
             const Eigen::Index in_begin = transposed ? block.row_begin : block.col_begin;
             const Eigen::Index in_size = transposed ? block.rows : block.cols;
-            inner[b] = (transposed ? block.u : block.v).transpose() * x_p.middleRows(in_begin, in_size);
+            inner[b].setZero((transposed ? block.u : block.v).cols(), m);
+            add_product(inner[b], (transposed ? block.u : block.v).transpose(), x_p.middleRows(in_begin, in_size));
         }
         const auto& lists = chunk_blocks[transposed ? 1 : 0];
 #pragma omp parallel for schedule(dynamic, 1)
@@ -389,15 +405,14 @@ struct HMatrix<S>::Impl {
                 const Eigen::Index out_size = transposed ? block.cols : block.rows;
                 const Eigen::Index from = std::max(lo, out_begin), to = std::min(hi, out_begin + out_size);
                 auto out = y_p.middleRows(from, to - from);
-                if (block.low_rank) {
-                    out.noalias() += (transposed ? block.v : block.u).middleRows(from - out_begin, to - from) * inner[b];
-                } else if (transposed) {
-                    out.noalias() += block.dense.middleCols(from - out_begin, to - from).transpose() *
-                                     x_p.middleRows(block.row_begin, block.rows);
-                } else {
-                    out.noalias() += block.dense.middleRows(from - out_begin, to - from) *
-                                     x_p.middleRows(block.col_begin, block.cols);
-                }
+                if (block.low_rank)
+                    add_product(out, (transposed ? block.v : block.u).middleRows(from - out_begin, to - from), inner[b]);
+                else if (transposed)
+                    add_product(out, block.dense.middleCols(from - out_begin, to - from).transpose(),
+                                x_p.middleRows(block.row_begin, block.rows));
+                else
+                    add_product(out, block.dense.middleRows(from - out_begin, to - from),
+                                x_p.middleRows(block.col_begin, block.cols));
             }
         }
         MatrixX<S> y(n, m);

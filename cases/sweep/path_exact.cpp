@@ -2,7 +2,8 @@
 // by GMRES (solver/coupled_solve.hpp), each iteration one solve against the
 // stored factors. Nothing is approximated beyond the discretization. An object
 // almost touching the body can keep GMRES from converging: that point falls back
-// on the full path, and says so. Points come in batches of one water whose
+// on the full path, and says so (on a compressed body, the point's whole scene
+// compressed, since a dense LU of it would not fit). Points come in batches of one water whose
 // GMRES iterations share their solves against the factors.
 #include "cases/sweep/point_path.hpp"
 
@@ -12,10 +13,6 @@
 namespace murk {
 
 namespace {
-
-// Iterations after which a point falls back on the full solve; two or three
-// suffice unless the object nearly touches the body (tools/bench_sweep.cpp).
-constexpr int kMaxCouplingIterations = 80;
 
 template <class S>
 class ExactPath : public PointPath<S> {
@@ -43,13 +40,12 @@ public:
                                  : c_.objects->block(*p.object, c_.quad));
             problems.push_back({&scene, {moving}, blocks.back().get()});
         }
-        CouplingOptions coupling = c_.coupling;
-        coupling.max_iterations = kMaxCouplingIterations;
-        const std::vector<CoupledSolution<S>> coupled = solve_coupled_together(problems, fixed, c_.quad, coupling);
+        // c_.coupling.max_iterations: after these a point falls back on its whole scene.
+        const std::vector<CoupledSolution<S>> coupled = solve_coupled_together(problems, fixed, c_.quad, c_.coupling);
         std::vector<PathReading<S>> out;
         for (std::size_t k = 0; k < points.size(); ++k) {
             if (!coupled[k].gmres.converged) {
-                out.push_back(full_->solve({points[k]}).front());
+                out.push_back(whole_point(points[k], scenes[k], fixed));
                 continue;
             }
             out.push_back(
@@ -68,6 +64,19 @@ public:
     }
 
 private:
+    // A point solved as its whole scene. On a compressed body the full path's
+    // dense LU would need the square of the body's unknowns (80 GB at 100,000):
+    // the whole scene is compressed instead, the object then inside both the
+    // operator and its preconditioner.
+    PathReading<S> whole_point(const PlacedPoint<S>& point, const Scene<S>& scene, const FixedPart<S>& fixed) const {
+        const SolverOptions* body = fixed.compressed_options();
+        if (!body) return full_->solve({point}).front();
+        SolverOptions options = *body;
+        options.choice = SystemSolver::compressed;
+        const FixedPart<S> whole(scene, c_.quad, options);
+        return {sensor_readings(c_.baselines->sensors, scene, whole.solution(), c_.quad), PathCode::full};
+    }
+
     PathContext<S> c_;
     std::unique_ptr<PointPath<S>> full_;
 };
