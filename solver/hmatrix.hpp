@@ -99,8 +99,7 @@ public:
     MatrixX<S> region_dense(const Region& region) const override;
     const HMatrixStats& stats() const;
     // The stored blocks, which tile the matrix; each lies inside one pair of
-    // cluster-tree nodes that the block tree visited (the preconditioner of
-    // hodlr_inverse.hpp regroups them by node).
+    // cluster-tree nodes that the block tree visited (for tests and reports).
     const std::vector<HMatrixBlock<S>>& blocks() const;
 
 private:
