@@ -1,3 +1,7 @@
+// The operator of layer_operator.hpp: each kernel's terms (its weights on rows
+// and columns), the constant on each panel's own unknowns, the unknowns' tree
+// made from the panels', and every product as a gather into panel vectors, one
+// product per kernel, and a scatter back.
 #include "solver/layer_operator.hpp"
 
 #include "geometry/internal_check.hpp"
@@ -159,7 +163,7 @@ typename LayerOperator<S>::Spread LayerOperator<S>::spread(const VectorX<S>& wei
     for (Eigen::Index p = begin; p < begin + count; ++p) {
         const S weight = weights(tree_.order[std::size_t(p)]);
         if (weight == S(0)) continue;
-        s.unknown.push_back(p - begin);
+        s.offset.push_back(p - begin);
         s.panel.push_back(panel_position_[std::size_t(p)] - first_panel);
         s.weight.push_back(weight);
     }

@@ -56,20 +56,20 @@ private:
     };
     // The region's panels (a region of whole panels; checked).
     Region panel_region(const Region& region) const;
-    // A term's weights over a range of positions, with each position's panel
-    // (from first_panel) and the zero weights left out: gather sums a column of
-    // unknowns into a column of panels, scatter spreads one back; both walk
-    // memory in order.
+    // A term's nonzero weights over a range of positions: each one's offset in
+    // the range and its panel's offset from first_panel. gather sums a column
+    // over the range's unknowns into a column over its panels, scatter spreads
+    // one back; both walk memory in order.
     struct Spread {
-        std::vector<Eigen::Index> unknown, panel;
+        std::vector<Eigen::Index> offset, panel;
         std::vector<S> weight;
         template <class In, class Out>
         void gather(const In& x, Out&& w) const {
-            for (std::size_t i = 0; i < weight.size(); ++i) w(panel[i]) += weight[i] * x(unknown[i]);
+            for (std::size_t i = 0; i < weight.size(); ++i) w(panel[i]) += weight[i] * x(offset[i]);
         }
         template <class In, class Out>
         void scatter(const In& z, Out&& y) const {
-            for (std::size_t i = 0; i < weight.size(); ++i) y(unknown[i]) += weight[i] * z(panel[i]);
+            for (std::size_t i = 0; i < weight.size(); ++i) y(offset[i]) += weight[i] * z(panel[i]);
         }
     };
     Spread spread(const VectorX<S>& weights, Eigen::Index begin, Eigen::Index count, Eigen::Index first_panel) const;

@@ -1025,7 +1025,7 @@ H5File& H5Output::file() {
     return file_;
 }
 
-void H5Output::commit() {
+void H5Output::commit(const std::function<void()>& once_named) {
     if (done_) throw std::logic_error(path_ + " is already committed");
     const std::string& partial = temp_;
     file_.close();
@@ -1036,6 +1036,7 @@ void H5Output::commit() {
     done_ = true;
 
     std::error_code error;
+    bool once_named_done = false;
     if (overwrite_) {
         fs::rename(partial, path_, error);
     } else {
@@ -1043,6 +1044,8 @@ void H5Output::commit() {
         // replaced; rename() would replace it without asking.
         fs::create_hard_link(partial, path_, error);
         if (!error) {
+            if (once_named) once_named();
+            once_named_done = true;
             fs::remove(partial, error);
         } else if (error == std::errc::file_exists) {
             throw InputError(exists_message(path_, exists_hint_) + " (it appeared while running; the result is in " +
@@ -1059,6 +1062,7 @@ void H5Output::commit() {
     }
     if (error)
         throw InputError(path_ + ": cannot put the result there (" + error.message() + "); it is in " + partial);
+    if (once_named && !once_named_done) once_named();
     // Makes the new name itself survive a power cut. The result is already in place, so a
     // failure here is not worth an error.
     const fs::path directory = fs::path(path_).parent_path();

@@ -32,6 +32,7 @@
 
 #include <complex>
 #include <cstdint>
+#include <functional>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -309,8 +310,10 @@ public:
     const std::string& path() const { return path_; }
 
     // If `path` appeared meanwhile and overwrite is off, throws InputError and keeps the
-    // partial file, so the work is not lost.
-    void commit();
+    // partial file, so the work is not lost. `once_named` (if any) runs the moment the
+    // result has its name, before anything else: what it discards (a run's journal)
+    // is then left beside a finished result only if the process dies in between.
+    void commit(const std::function<void()>& once_named = {});
 
 private:
     H5Output(std::string path, bool overwrite, std::string exists_hint, std::string temp, H5File file);

@@ -388,13 +388,16 @@ void SweepFile<S>::write_dipole_check(const DipoleCheck& c, const SweepSpec& swe
 }
 
 template <class S>
-void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
+void SweepFile<S>::commit(double peak_memory_MiB, bool whole, const std::function<void()>& once_named) {
     write_point_values();
     H5Group root = output_->root();
     const std::vector<XdmfSurface> surfaces = whole ? finish_result(root) : std::vector<XdmfSurface>{};
     root.set_attribute("peak_memory_MiB", peak_memory_MiB);
-    output_->commit();
+    // The sidecar before the result's name: a run stopped between the two then
+    // still has its journal, and its resume writes both again; the other way
+    // round it would leave a finished result that no resume gives a sidecar.
     write_result_sidecar(options_.output_path, surfaces);
+    output_->commit(once_named);
     if (!options_.quiet)
         std::printf("wrote %s (%zu points)%s%s\n", options_.output_path.c_str(), plan_->total,
                     surfaces.empty() ? "" : " and ", surfaces.empty() ? "" : xdmf_sidecar_path(options_.output_path).c_str());
@@ -403,21 +406,23 @@ void SweepFile<S>::commit(double peak_memory_MiB, bool whole) {
 template <class S>
 void write_result_from_journal(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
                                const SweepBaselines<S>& baselines, const PointJournal& journal,
-                               double peak_memory_MiB) {
+                               double peak_memory_MiB, const std::function<void()>& once_named) {
     SweepFile<S> file(spec, options, plan, baselines);
     file.set_history(journal.history());
     for (std::size_t p = 0; p < plan.total; ++p)
         if (journal.has(p)) file.write_point(journal.template read<S>(p));
     // In point order, as a run that was never interrupted lists them.
     if (!journal.checks().empty()) file.write_dipole_check(dipole_check_of(journal), plan.sweep);
-    file.commit(peak_memory_MiB, journal.header().share_count == 1);
+    file.commit(peak_memory_MiB, journal.header().share_count == 1, once_named);
 }
 
 template class SweepFile<double>;
 template class SweepFile<Complex>;
 template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
-                                        const SweepBaselines<double>&, const PointJournal&, double);
+                                        const SweepBaselines<double>&, const PointJournal&, double,
+                                        const std::function<void()>&);
 template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
-                                        const SweepBaselines<Complex>&, const PointJournal&, double);
+                                        const SweepBaselines<Complex>&, const PointJournal&, double,
+                                        const std::function<void()>&);
 
 }  // namespace murk

@@ -8,6 +8,8 @@
 // complete. A share of a job array (--shard) writes its points the same way,
 // without the analysis: murk merge joins the shares and analyses the whole.
 #include "cases/input/case_spec.hpp"
+
+#include <functional>
 #include "cases/output/hdf5_file.hpp"
 #include "cases/sweep/point_journal.hpp"
 #include "cases/sweep/run_options.hpp"
@@ -49,8 +51,9 @@ public:
     void set_history(const std::vector<std::string>& lines);
     void write_dipole_check(const DipoleCheck& check, const SweepSpec& sweep);
     // Analysis (/detection, /falloff) and surface fields for the sidecar; a share's
-    // part file skips them. Then the file gets its name (and a whole run its sidecar).
-    void commit(double peak_memory_MiB, bool whole);
+    // part file skips them. Then a whole run's sidecar, and the file gets its name;
+    // `once_named` runs the moment it has it (H5Output::commit).
+    void commit(double peak_memory_MiB, bool whole, const std::function<void()>& once_named = {});
 
 private:
     void create_datasets();
@@ -79,17 +82,20 @@ private:
     std::vector<PointStatus> status_;
 };
 
-// Writes the whole result file from the journal: every point it holds, its checks.
+// Writes the whole result file from the journal: every point it holds, its checks;
+// `once_named` runs the moment the result has its name (the caller discards the journal).
 template <class S>
 void write_result_from_journal(const CaseSpec& spec, const RunOptions& options, const SweepPlan& plan,
                                const SweepBaselines<S>& baselines, const PointJournal& journal,
-                               double peak_memory_MiB);
+                               double peak_memory_MiB, const std::function<void()>& once_named = {});
 
 extern template class SweepFile<double>;
 extern template class SweepFile<Complex>;
 extern template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
-                                               const SweepBaselines<double>&, const PointJournal&, double);
+                                               const SweepBaselines<double>&, const PointJournal&, double,
+                                               const std::function<void()>&);
 extern template void write_result_from_journal(const CaseSpec&, const RunOptions&, const SweepPlan&,
-                                               const SweepBaselines<Complex>&, const PointJournal&, double);
+                                               const SweepBaselines<Complex>&, const PointJournal&, double,
+                                               const std::function<void()>&);
 
 }  // namespace murk

@@ -120,7 +120,10 @@ public:
         warn_about_checks(plan);
         warn_if_all_masked(plan);
         try {
-            write_result_from_journal(spec_, options_, plan, baselines, journal, peak_memory_MiB());
+            // The journal goes the moment the result has its name: the two are
+            // never both on disk unless the process dies in that instant.
+            write_result_from_journal(spec_, options_, plan, baselines, journal, peak_memory_MiB(),
+                                      [&journal] { journal.discard(); });
         } catch (const InputError&) {
             throw;
         } catch (const std::runtime_error& e) {
@@ -128,7 +131,6 @@ public:
             throw std::runtime_error(std::string(e.what()) + "; every point is kept in " + journal.path() +
                                      ": make room and run again with --resume");
         }
-        journal.discard();
         stats_.wall_seconds = since_start();
         stats_.peak_memory_MiB = peak_memory_MiB();
         if (!options_.quiet) print_stats(plan);
