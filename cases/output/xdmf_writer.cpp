@@ -1,5 +1,6 @@
 #include "cases/output/xdmf_writer.hpp"
 
+#include "cases/output/hdf5_file.hpp"
 #include "geometry/input_error.hpp"
 
 #include <cstdio>
@@ -117,6 +118,19 @@ void write_xdmf_sidecar(const std::string& xdmf_path, const std::string& h5_file
 
 std::string xdmf_sidecar_path(const std::string& h5_path) {
     return fs::path(h5_path).replace_extension(".xdmf").string();
+}
+
+void commit_with_sidecar(H5Output& output, const std::vector<XdmfSurface>& surfaces,
+                         const std::function<void()>& once_named) {
+    const std::string xdmf_path = xdmf_sidecar_path(output.path());
+    if (!surfaces.empty()) write_xdmf_sidecar(xdmf_path, fs::path(output.path()).filename().string(), surfaces);
+    try {
+        output.commit(once_named);
+    } catch (...) {
+        std::error_code error;
+        if (!surfaces.empty()) fs::remove(xdmf_path, error);
+        throw;
+    }
 }
 
 }  // namespace murk

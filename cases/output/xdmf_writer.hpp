@@ -13,6 +13,7 @@
 // reals. Complex values cannot be described as one scalar: surface_output's sidecar_fields
 // writes their magnitudes and names those.
 #include <cstddef>
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -49,5 +50,12 @@ void write_xdmf_sidecar(const std::string& xdmf_path, const std::string& h5_file
 
 // "dir/OUT.h5" -> "dir/OUT.xdmf": where the sidecar of a result file goes.
 std::string xdmf_sidecar_path(const std::string& h5_path);
+
+class H5Output;
+// The sidecar of `surfaces` (none when empty), then output.commit(once_named):
+// a stop between the two leaves no result without its sidecar, and a commit
+// that fails takes the sidecar back, so a failed write leaves nothing.
+void commit_with_sidecar(H5Output& output, const std::vector<XdmfSurface>& surfaces,
+                         const std::function<void()>& once_named = {});
 
 }  // namespace murk

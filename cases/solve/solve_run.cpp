@@ -262,12 +262,7 @@ void write_solved(const CaseSpec& spec, const SolveOptions& options, const Solve
     H5Group root = output.root();
     write_probes(root, spec, probes_before, probes_after);
     const std::vector<XdmfSurface> sidecar = sidecar_surfaces(root, solved);
-    // The sidecar first, as a sweep's end writes it (SweepFile::commit): a run
-    // stopped in between leaves no result, never a result without its sidecar.
-    if (!sidecar.empty())
-        write_xdmf_sidecar(xdmf_sidecar_path(options.output_path),
-                           std::filesystem::path(options.output_path).filename().string(), sidecar);
-    output.commit();
+    commit_with_sidecar(output, sidecar);
 
     if (!options.quiet) {
         std::size_t unknowns = 0;

@@ -100,9 +100,4 @@ std::vector<XdmfSurface> finish_result(H5Group root) {
     return {surface};
 }
 
-void write_result_sidecar(const std::string& output_path, const std::vector<XdmfSurface>& surfaces) {
-    if (surfaces.empty()) return;
-    write_xdmf_sidecar(xdmf_sidecar_path(output_path), std::filesystem::path(output_path).filename().string(), surfaces);
-}
-
 }  // namespace murk

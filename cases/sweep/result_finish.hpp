@@ -21,7 +21,4 @@ std::vector<SweepAxis> axes_in_file(const H5Group& root);
 // sidecar shows (none in a case without a body).
 std::vector<XdmfSurface> finish_result(H5Group root);
 
-// The sidecar beside OUT.h5 (nothing when there is no surface to show).
-void write_result_sidecar(const std::string& output_path, const std::vector<XdmfSurface>& surfaces);
-
 }  // namespace murk

@@ -188,10 +188,7 @@ void merge_results(const std::vector<std::string>& paths, const MergeOptions& op
     root.set_attribute("peak_memory_MiB", peak_memory);
     const std::vector<XdmfSurface> surfaces = finish_result(root);
     parts.clear();
-    // The sidecar first, as a run's end writes it (SweepFile::commit): a merge
-    // stopped in between leaves no merged result, only a sidecar it rewrites.
-    write_result_sidecar(options.output_path, surfaces);
-    output.commit();
+    commit_with_sidecar(output, surfaces);
     if (!options.quiet)
         std::printf("merged %zu parts into %s (%zu points%s)\n", paths.size(), options.output_path.c_str(), points,
                     missing ? (", " + std::to_string(missing) + " not computed").c_str() : "");

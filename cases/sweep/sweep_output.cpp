@@ -396,8 +396,7 @@ void SweepFile<S>::commit(double peak_memory_MiB, bool whole, const std::functio
     // The sidecar before the result's name: a run stopped between the two then
     // still has its journal, and its resume writes both again; the other way
     // round it would leave a finished result that no resume gives a sidecar.
-    write_result_sidecar(options_.output_path, surfaces);
-    output_->commit(once_named);
+    commit_with_sidecar(*output_, surfaces, once_named);
     if (!options_.quiet)
         std::printf("wrote %s (%zu points)%s%s\n", options_.output_path.c_str(), plan_->total,
                     surfaces.empty() ? "" : " and ", surfaces.empty() ? "" : xdmf_sidecar_path(options_.output_path).c_str());
